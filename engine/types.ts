@@ -1,0 +1,201 @@
+/**
+ * Shared shapes of the engine. Every module of engine/ speaks in these types, so that block models,
+ * Touchstone, renormalisation, the interconnection and the checks can be written and tested apart.
+ *
+ * Complex numbers live in Float64Array, interleaved [re, im]. A stack of n×n matrices over nf
+ * frequencies is stored frequency-major, row-major: element (k, i, j) has its real part at
+ * `2 * ((k * n + i) * n + j)` and its imaginary part right after it.
+ */
+
+/** S-parameters of an n-port at nf frequencies (see the layout above). Ports are 0-based here. */
+export type SData = {
+  /** port count */
+  n: number;
+  /** frequency count */
+  nf: number;
+  /** length 2 · nf · n · n, interleaved re/im, [k][i][j] */
+  data: Float64Array;
+};
+
+/** Reference impedances of an n-port, one complex value per port (Ω), interleaved re/im, length 2n. */
+export type Z0Vector = Float64Array;
+
+/** Wave convention used by renormalisation: power waves (Kurokawa 1965, default) or pseudo-waves (Marks and Williams 1992). */
+export type WaveKind = "power" | "pseudo";
+
+// ---------------------------------------------------------------------------------------------------
+// Scenario file (DESIGN.md "Scenario file"); the zod schema that validates it is engine/scenario/.
+
+export type FrequencyPlanSpec =
+  | { start: number; stop: number; points: number }
+  | { list: number[] };
+
+export type BlockKind =
+  | "load"
+  | "antenna"
+  | "attenuator"
+  | "line"
+  | "phase_shifter"
+  | "isolator"
+  | "amplifier"
+  | "filter"
+  | "splitter"
+  | "tee"
+  | "circulator"
+  | "coupler"
+  | "hybrid90"
+  | "hybrid180"
+  | "switch"
+  | "array"
+  | "touchstone";
+
+export type BlockSpec = {
+  /** unique within the scenario, e.g. "SW1" */
+  id: string;
+  kind: BlockKind;
+  /** model parameters, numbers in SI/dB units as named in DESIGN.md (strings allowed where documented) */
+  params?: Record<string, unknown>;
+  /** switch: selected throw, 1-based (1 = common to port 2) */
+  state?: number;
+  /** touchstone: path relative to the scenario file */
+  file?: string;
+  /** touchstone: inline Touchstone text (wins over `file`) */
+  data?: string;
+  /** touchstone: format hint when `data` is inline and the port count is not in the text (v1.1) */
+  ports?: number;
+  /** the most power any port of the block may take, dBm */
+  rating_dbm?: number;
+  /** chart position; ignored by the engine */
+  position?: { x: number; y: number };
+  /** free text label; ignored by the engine */
+  label?: string;
+};
+
+/** "BLOCK:PORT", PORT 1-based */
+export type PortRef = string;
+
+export type SystemPortSpec = { name: string; at: PortRef; z0?: number };
+
+export type RuleSpec =
+  | { kind: "isolation"; id?: string; from: string; to: string; band: [number, number]; min_db: number; one_way?: boolean }
+  | { kind: "match"; id?: string; port: string; band: [number, number]; min_return_loss_db?: number; max_vswr?: number }
+  | { kind: "insertion_loss"; id?: string; from: string; to: string; band: [number, number]; max_db: number }
+  | { kind: "drive"; id?: string; sources: { port: string; dbm: number }[]; band?: [number, number]; coherent?: boolean };
+
+export type Scenario = {
+  format: "portolan.scenario/1";
+  name: string;
+  /** system reference impedance, Ω (real) */
+  z0: number;
+  frequency: FrequencyPlanSpec;
+  blocks: BlockSpec[];
+  links: [PortRef, PortRef][];
+  ports: SystemPortSpec[];
+  rules?: RuleSpec[];
+  /** allow hold-last extrapolation of part data outside its range (reported as a warning) */
+  extrapolate?: "error" | "hold";
+  /** project variables usable in parameter expressions (the web app resolves them before the engine) */
+  variables?: Record<string, string | number>;
+};
+
+// ---------------------------------------------------------------------------------------------------
+// Block models (engine/blocks/)
+
+/** What a block model knows about itself. */
+export type BlockTraits = {
+  /** true for every kind except the amplifier (and measured data, which is checked, not assumed) */
+  passive: boolean;
+  /** true when S = Sᵀ is expected (isolator, circulator and amplifier are not reciprocal) */
+  reciprocal: boolean;
+  /** absorbed power counts as radiated (antenna, array) */
+  radiates: boolean;
+};
+
+/**
+ * An evaluated block: its S over the plan, referenced at every port to the system Z0 (real),
+ * ready for the interconnection.
+ */
+export type EvaluatedBlock = {
+  id: string;
+  kind: BlockKind;
+  s: SData;
+  traits: BlockTraits;
+  rating_dbm?: number;
+  /** messages such as extrapolation used, passivity clipped */
+  warnings: string[];
+};
+
+// ---------------------------------------------------------------------------------------------------
+// Errors
+
+/** Bad input: a scenario, a block parameter or a file that cannot be used. `where` is a JSON path or file:line. */
+export class EngineInputError extends Error {
+  readonly where: string;
+  constructor(where: string, message: string) {
+    super(`${where}: ${message}`);
+    this.name = "EngineInputError";
+    this.where = where;
+  }
+}
+
+/** A singular or ill-conditioned interconnection (for example a loop of lossless reflections). */
+export class SingularSystemError extends Error {
+  /** links (as "A:1–B:2") that take part in the singular system, when known */
+  readonly links: string[];
+  readonly frequencyHz?: number;
+  constructor(message: string, links: string[] = [], frequencyHz?: number) {
+    super(message);
+    this.name = "SingularSystemError";
+    this.links = links;
+    this.frequencyHz = frequencyHz;
+  }
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Interconnection (engine/network/)
+
+/** One block port in the solved system; `index` is its position in Solution.blockPorts. */
+export type BlockPortInfo = { index: number; block: string; port: number /* 1-based */ };
+
+/** A scenario made ready to solve: plan, evaluated blocks, links and system ports resolved to indices. */
+export type PreparedSystem = {
+  scenario: Scenario;
+  /** plan frequencies, Hz, increasing */
+  frequencies: Float64Array;
+  /** system reference impedance, Ω */
+  z0: number;
+  blocks: EvaluatedBlock[];
+  /** every block port, blocks in scenario order, ports 1…n within each */
+  blockPorts: BlockPortInfo[];
+  /** first global block-port index of each block (same order as `blocks`) */
+  blockOffset: number[];
+  /** links as pairs of global block-port indices */
+  links: [number, number][];
+  /** system ports in scenario order: global block-port index and own Z0 */
+  systemPorts: { name: string; at: number; z0: number }[];
+  /** block ports neither linked nor system ports (matched terminations) */
+  unterminated: number[];
+  warnings: string[];
+};
+
+/** The composite response. */
+export type Solution = {
+  system: PreparedSystem;
+  frequencies: Float64Array;
+  /** system port names, scenario order */
+  ports: string[];
+  /** each system port's own Z0, Ω */
+  portZ0: number[];
+  /** composite S, n = ports.length, each port referenced to its own Z0 */
+  s: SData;
+  warnings: string[];
+  solveMs: number;
+};
+
+/**
+ * Waves at every block port for a given excitation: `a` incident on the block port (travelling into
+ * the block), `b` outgoing from it, both referenced to the system Z0 and scaled so that |a|² is power
+ * in watts for incident source waves given in √W. Layout [k][p] interleaved re/im, p a global block-port
+ * index; length 2 · nf · blockPorts.length.
+ */
+export type InternalWaves = { a: Float64Array; b: Float64Array };
