@@ -1,0 +1,74 @@
+// Selection of plan points inside a band (inclusive edges with a relative tolerance) and port lookup.
+import { EngineInputError } from "../types";
+import type { Solution } from "../types";
+
+/** Relative tolerance on band edges, so that 2.4e9 from a plan step still counts as inside [2.4e9, …]. */
+export const BAND_EDGE_TOLERANCE = 1e-12;
+
+/**
+ * Indices of the plan frequencies inside [lo, hi], edges inclusive within BAND_EDGE_TOLERANCE.
+ * @param frequencies plan, Hz, increasing
+ * @param band [lo, hi] Hz
+ * @param where JSON path or rule name used in the error
+ * @returns plan indices, increasing
+ * @throws EngineInputError when the band is reversed, not finite, or holds no plan point
+ * @example bandIndices(Float64Array.of(1e9, 2e9, 3e9), [1e9, 2e9], "rules[0]") // [0, 1]
+ */
+export function bandIndices(frequencies: ArrayLike<number>, band: readonly [number, number], where: string): number[] {
+  const [lo, hi] = band;
+  if (!Number.isFinite(lo) || !Number.isFinite(hi)) throw new EngineInputError(where, `band [${lo}, ${hi}] Hz is not finite`);
+  if (lo > hi) throw new EngineInputError(where, `band [${lo}, ${hi}] Hz starts above its stop`);
+  const loT = lo - Math.abs(lo) * BAND_EDGE_TOLERANCE;
+  const hiT = hi + Math.abs(hi) * BAND_EDGE_TOLERANCE;
+  const out: number[] = [];
+  for (let k = 0; k < frequencies.length; k++) {
+    const f = frequencies[k];
+    if (f >= loT && f <= hiT) out.push(k);
+  }
+  if (out.length === 0) {
+    throw new EngineInputError(where, `band ${formatHz(lo)}–${formatHz(hi)} holds no point of the frequency plan (${formatHz(frequencies[0])}–${formatHz(frequencies[frequencies.length - 1])})`);
+  }
+  return out;
+}
+
+/**
+ * Plan index nearest to a frequency.
+ * @param frequencies plan, Hz, increasing, non-empty
+ * @param hz requested frequency, Hz
+ * @example nearestIndex(Float64Array.of(1e9, 2e9), 1.6e9) // 1
+ */
+export function nearestIndex(frequencies: ArrayLike<number>, hz: number): number {
+  if (!Number.isFinite(hz)) throw new EngineInputError("frequency", `frequency ${hz} Hz is not finite`);
+  let best = 0;
+  let bestD = Infinity;
+  for (let k = 0; k < frequencies.length; k++) {
+    const d = Math.abs(frequencies[k] - hz);
+    if (d < bestD) {
+      bestD = d;
+      best = k;
+    }
+  }
+  return best;
+}
+
+/**
+ * Index of a system port by name.
+ * @throws EngineInputError naming `where` and the known ports when the name is unknown
+ * @example portIndex(solution, "TX", "rules[0].from") // 0
+ */
+export function portIndex(solution: Pick<Solution, "ports">, name: string, where: string): number {
+  const i = solution.ports.indexOf(name);
+  if (i < 0) throw new EngineInputError(where, `unknown system port "${name}" (system ports: ${solution.ports.join(", ") || "none"})`);
+  return i;
+}
+
+/**
+ * A frequency in engineering form, e.g. "2.45 GHz".
+ * @example formatHz(2.45e9) // "2.45 GHz"
+ */
+export function formatHz(hz: number): string {
+  if (!Number.isFinite(hz)) return `${hz} Hz`;
+  const a = Math.abs(hz);
+  const [scale, unit] = a >= 1e9 ? [1e9, "GHz"] : a >= 1e6 ? [1e6, "MHz"] : a >= 1e3 ? [1e3, "kHz"] : [1, "Hz"];
+  return `${Number((hz / scale).toPrecision(6))} ${unit}`;
+}
