@@ -1,0 +1,16 @@
+export { cn } from "./cn";
+export { Button, LinkButton, buttonClassName, type ButtonProps, type ButtonVariant, type ButtonSize, type LinkButtonProps } from "./button";
+export { Input, type InputProps } from "./input";
+export { controlClassName } from "./control-class";
+export { Textarea, type TextareaProps } from "./textarea";
+export { Select, type SelectProps, type SelectOption } from "./select";
+export { Field, useFieldControlProps, type FieldProps } from "./field";
+export { Card, CardHeader, CardTitle, CardDescription, CardBody, CardFooter } from "./card";
+export { Badge, VerdictBadge, type BadgeProps, type BadgeTone, type Verdict, type VerdictBadgeProps } from "./badge";
+export { Table, TableCaption, THead, TBody, Tr, Th, Td, type TableProps, type ThProps, type TdProps, type SortDirection } from "./table";
+export { EmptyState, type EmptyStateProps } from "./empty-state";
+export { Spinner, type SpinnerProps } from "./spinner";
+export { Alert, type AlertProps, type AlertTone } from "./alert";
+export { ConfirmDialog, ConfirmButton, type ConfirmDialogProps, type ConfirmButtonProps } from "./confirm-dialog";
+export { Tabs, type TabsProps, type TabItem } from "./tabs";
+export { Kbd } from "./kbd";
