@@ -1,0 +1,52 @@
+import type { Metadata, Viewport } from "next";
+import localFont from "next/font/local";
+import type { ReactNode } from "react";
+import { themeBootScript } from "@/components/shell/theme-script";
+import "./globals.css";
+
+// Fonts ship with the app (copied from @fontsource, SIL Open Font License; see app/fonts/LICENSE-*.txt).
+const sans = localFont({
+  src: [
+    { path: "./fonts/instrument-sans-latin-400-normal.woff2", weight: "400", style: "normal" },
+    { path: "./fonts/instrument-sans-latin-500-normal.woff2", weight: "500", style: "normal" },
+    { path: "./fonts/instrument-sans-latin-600-normal.woff2", weight: "600", style: "normal" },
+    { path: "./fonts/instrument-sans-latin-700-normal.woff2", weight: "700", style: "normal" },
+  ],
+  variable: "--font-sans",
+  display: "swap",
+  fallback: ["ui-sans-serif", "system-ui", "sans-serif"],
+});
+
+const mono = localFont({
+  src: [
+    { path: "./fonts/jetbrains-mono-latin-400-normal.woff2", weight: "400", style: "normal" },
+    { path: "./fonts/jetbrains-mono-latin-600-normal.woff2", weight: "600", style: "normal" },
+  ],
+  variable: "--font-mono",
+  display: "swap",
+  fallback: ["ui-monospace", "monospace"],
+});
+
+export const metadata: Metadata = {
+  title: { default: "Portolan", template: "%s · Portolan" },
+  description: "Integration checks for RF front ends built from N-port parts: isolation, match, leak paths, power and drive levels.",
+  applicationName: "Portolan",
+};
+
+export const viewport: Viewport = {
+  themeColor: [
+    { media: "(prefers-color-scheme: light)", color: "#F4EFE2" },
+    { media: "(prefers-color-scheme: dark)", color: "#121A24" },
+  ],
+};
+
+export default function RootLayout({ children }: { children: ReactNode }) {
+  return (
+    <html lang="en" className={`${sans.variable} ${mono.variable}`} suppressHydrationWarning>
+      <head>
+        <script dangerouslySetInnerHTML={{ __html: themeBootScript }} />
+      </head>
+      <body className="bg-paper font-sans text-ink antialiased">{children}</body>
+    </html>
+  );
+}
