@@ -1,0 +1,40 @@
+import { expect, type Page } from "@playwright/test";
+
+/** Demo accounts seeded on first start (db/seed.ts); the README lists them too. */
+export const DEMO_PASSWORD = "portolan-demo";
+export const demoUsers = {
+  owner: { email: "olive@portolan.example", password: DEMO_PASSWORD },
+  engineer: { email: "emil@portolan.example", password: DEMO_PASSWORD },
+  reviewer: { email: "rhea@portolan.example", password: DEMO_PASSWORD },
+} as const;
+
+export type DemoRole = keyof typeof demoUsers;
+
+/** Signs in through the form, as a person would: fields by label, then the "Sign in" button. */
+export async function signIn(page: Page, email: string, password: string): Promise<void> {
+  await page.goto("/sign-in");
+  await page.getByLabel("Email").fill(email);
+  await page.getByLabel("Password", { exact: true }).fill(password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+}
+
+/** Signs in as one of the demo users and waits for the projects page. */
+export async function signInAs(page: Page, role: DemoRole): Promise<void> {
+  const user = demoUsers[role];
+  await signIn(page, user.email, user.password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/);
+}
+
+/**
+ * Records every request the page makes whose host is not the app's own, so a test can assert that
+ * nothing is fetched from elsewhere. Call before navigating.
+ */
+export function collectForeignRequests(page: Page, allowedHost = "127.0.0.1"): string[] {
+  const foreign: string[] = [];
+  page.on("request", (request) => {
+    const url = new URL(request.url());
+    if (url.protocol === "data:" || url.protocol === "blob:") return;
+    if (url.hostname !== allowedHost) foreign.push(request.url());
+  });
+  return foreign;
+}
