@@ -1,0 +1,59 @@
+/**
+ * One solve of the workspace, as the engine worker runs it: parse, prepare and solve the scenario, and
+ * reduce the Solution to what the results panel draws. Errors come back as messages, never as throws.
+ */
+import { parseScenario } from "@/engine/scenario";
+import { solveScenario } from "@/engine/system";
+import type { Scenario } from "@/engine/types";
+import type { SolvedView } from "./results-math";
+
+export type SolveRequest = {
+  /** increases with every request; a response with an older seq than the latest is stale */
+  seq: number;
+  scenario: Scenario;
+  /** Touchstone texts keyed as blocks name them ("parts/<fileName>") */
+  parts: Record<string, string>;
+};
+
+export type SolveResponse =
+  | {
+      seq: number;
+      ok: true;
+      view: SolvedView;
+      warnings: string[];
+      /** block ports left unlinked and unmarked, terminated in the system Z0 ("PAD1:2") */
+      unterminated: string[];
+      /** time spent in the engine, ms */
+      solveMs: number;
+    }
+  | { seq: number; ok: false; error: string; kind: string };
+
+/** Runs one solve; never throws. */
+export function runSolve(request: SolveRequest): SolveResponse {
+  const started = performance.now();
+  try {
+    const scenario = parseScenario(request.scenario, { parts: request.parts });
+    const solution = solveScenario(scenario, { parts: request.parts });
+    const system = solution.system;
+    const unterminated = system.unterminated.map((index) => {
+      const info = system.blockPorts[index];
+      return `${info.block}:${info.port}`;
+    });
+    return {
+      seq: request.seq,
+      ok: true,
+      view: {
+        frequencies: solution.frequencies,
+        ports: solution.ports,
+        portZ0: solution.portZ0,
+        s: solution.s,
+      },
+      warnings: [...new Set([...system.warnings, ...solution.warnings])],
+      unterminated,
+      solveMs: performance.now() - started,
+    };
+  } catch (error) {
+    const err = error instanceof Error ? error : new Error(String(error));
+    return { seq: request.seq, ok: false, error: err.message, kind: err.name };
+  }
+}

@@ -1,0 +1,88 @@
+"use client";
+/**
+ * Solves the scenario in the engine worker after every change: debounced, with stale answers dropped by
+ * sequence number. Falls back to solving on the main thread when Workers are unavailable.
+ */
+import { useEffect, useMemo, useRef, useState } from "react";
+import type { Scenario } from "@/engine/types";
+import { partTexts, scenarioForEngine, type PartSummary } from "./scenario-model";
+import type { SolveRequest, SolveResponse } from "./solve";
+
+/** Wait after the last change before solving, ms. */
+export const SOLVE_DEBOUNCE_MS = 150;
+
+export type SolverState =
+  | { status: "empty"; reason: "no-blocks" | "no-ports" }
+  | { status: "solving"; last?: Extract<SolveResponse, { ok: true }> }
+  | { status: "done"; result: Extract<SolveResponse, { ok: true }> }
+  | { status: "error"; error: string; kind: string };
+
+/** Why a scenario cannot be solved yet (null when it can be sent to the engine). */
+export function emptyReason(scenario: Scenario): "no-blocks" | "no-ports" | null {
+  if (scenario.blocks.length === 0) return "no-blocks";
+  if (scenario.ports.length === 0) return "no-ports";
+  return null;
+}
+
+export function useSolver(scenario: Scenario, parts: readonly PartSummary[]): SolverState {
+  const workerRef = useRef<Worker | null>(null);
+  const seqRef = useRef(0);
+  const lastOk = useRef<Extract<SolveResponse, { ok: true }> | undefined>(undefined);
+  const [state, setState] = useState<SolverState>({ status: "solving" });
+  const texts = useMemo(() => partTexts(parts), [parts]);
+  const reason = emptyReason(scenario);
+  const engineScenario = useMemo(() => scenarioForEngine(scenario), [scenario]);
+  const key = useMemo(() => JSON.stringify(engineScenario), [engineScenario]);
+  const latest = useRef(engineScenario);
+  latest.current = engineScenario;
+
+  useEffect(() => {
+    if (typeof Worker === "undefined") return;
+    const worker = new Worker(new URL("./engine.worker.ts", import.meta.url), { type: "module" });
+    workerRef.current = worker;
+    worker.onmessage = (event: MessageEvent<SolveResponse>) => {
+      const response = event.data;
+      if (response.seq !== seqRef.current) return; // stale: a newer request is under way
+      if (response.ok) {
+        lastOk.current = response;
+        setState({ status: "done", result: response });
+      } else {
+        setState({ status: "error", error: response.error, kind: response.kind });
+      }
+    };
+    worker.onerror = (event) => {
+      setState({ status: "error", error: event.message || "The engine worker stopped.", kind: "WorkerError" });
+    };
+    return () => {
+      worker.terminate();
+      workerRef.current = null;
+    };
+  }, []);
+
+  useEffect(() => {
+    if (reason) return;
+    const seq = ++seqRef.current;
+    setState({ status: "solving", last: lastOk.current });
+    const request: SolveRequest = { seq, scenario: latest.current, parts: texts };
+    const timer = window.setTimeout(() => {
+      const worker = workerRef.current;
+      if (worker) {
+        worker.postMessage(request);
+        return;
+      }
+      // no Worker in this browser: solve here (blocks the page while it runs)
+      void import("./solve").then(({ runSolve }) => {
+        const response = runSolve(request);
+        if (response.seq !== seqRef.current) return;
+        if (response.ok) {
+          lastOk.current = response;
+          setState({ status: "done", result: response });
+        } else setState({ status: "error", error: response.error, kind: response.kind });
+      });
+    }, SOLVE_DEBOUNCE_MS);
+    return () => window.clearTimeout(timer);
+  }, [key, texts, reason]);
+
+  if (reason) return { status: "empty", reason };
+  return state;
+}
