@@ -1,0 +1,17 @@
+export { parseScenario, parseScenarioText, splitPortRef, SCENARIO_FORMAT } from "./parse-scenario";
+export { frequencyPlan } from "./frequency-plan";
+export { formatJsonPath } from "./json-path";
+export { placeBlockError } from "./block-errors";
+export {
+  ScenarioSchema,
+  BlockSchema,
+  SystemPortSchema,
+  RuleSchema,
+  FrequencyRangeSchema,
+  FrequencyListSchema,
+  PortRefSchema,
+  BlockIdSchema,
+  BlockKindSchema,
+  MAX_PLAN_POINTS,
+} from "./schema";
+export { describeIssue } from "./zod-messages";

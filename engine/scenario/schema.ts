@@ -1,0 +1,122 @@
+/**
+ * zod schema of the scenario file (DESIGN.md "Scenario file"; the type `Scenario` in engine/types.ts).
+ * Structure only: references between blocks, links and ports are checked by parseScenario.
+ */
+import { z } from "zod";
+
+/** Most frequency points a plan may have. */
+export const MAX_PLAN_POINTS = 100_001;
+
+const finite = z.number();
+const positiveHz = z.number().positive();
+
+/** "BLOCK:PORT" with PORT a 1-based integer */
+export const PortRefSchema = z
+  .string()
+  .regex(/^[^:]+:[1-9][0-9]*$/, { error: 'expected "BLOCK:PORT" with PORT a whole number from 1' });
+
+export const BlockIdSchema = z
+  .string()
+  .min(1)
+  .max(64)
+  .regex(/^[^:\s](?:[^:]*[^:\s])?$/, { error: "expected a block id without ':' and without leading or trailing spaces" });
+
+/** `{ start, stop, points }`, Hz, linear */
+export const FrequencyRangeSchema = z.strictObject({
+  start: positiveHz,
+  stop: positiveHz,
+  points: z.number().int().min(1).max(MAX_PLAN_POINTS),
+});
+
+/** `{ list: [...] }`, Hz */
+export const FrequencyListSchema = z.strictObject({ list: z.array(positiveHz).min(1).max(MAX_PLAN_POINTS) });
+
+export const BlockKindSchema = z.enum([
+  "load",
+  "antenna",
+  "attenuator",
+  "line",
+  "phase_shifter",
+  "isolator",
+  "amplifier",
+  "filter",
+  "splitter",
+  "tee",
+  "circulator",
+  "coupler",
+  "hybrid90",
+  "hybrid180",
+  "switch",
+  "array",
+  "touchstone",
+]);
+
+export const BlockSchema = z.object({
+  id: BlockIdSchema,
+  kind: BlockKindSchema,
+  params: z.record(z.string(), z.unknown()).optional(),
+  state: z.number().int().min(1).optional(),
+  file: z.string().min(1).optional(),
+  data: z.string().min(1).optional(),
+  ports: z.number().int().min(1).max(1024).optional(),
+  rating_dbm: finite.optional(),
+  position: z.object({ x: finite, y: finite }).optional(),
+  label: z.string().optional(),
+});
+
+export const SystemPortSchema = z.object({
+  name: z.string().min(1).max(64),
+  at: PortRefSchema,
+  z0: z.number().positive().optional(),
+});
+
+const band = z.tuple([positiveHz, positiveHz]);
+
+export const RuleSchema = z.discriminatedUnion("kind", [
+  z.object({
+    kind: z.literal("isolation"),
+    id: z.string().optional(),
+    from: z.string().min(1),
+    to: z.string().min(1),
+    band,
+    min_db: finite,
+    one_way: z.boolean().optional(),
+  }),
+  z.object({
+    kind: z.literal("match"),
+    id: z.string().optional(),
+    port: z.string().min(1),
+    band,
+    min_return_loss_db: finite.optional(),
+    max_vswr: z.number().min(1).optional(),
+  }),
+  z.object({
+    kind: z.literal("insertion_loss"),
+    id: z.string().optional(),
+    from: z.string().min(1),
+    to: z.string().min(1),
+    band,
+    max_db: finite,
+  }),
+  z.object({
+    kind: z.literal("drive"),
+    id: z.string().optional(),
+    sources: z.array(z.object({ port: z.string().min(1), dbm: finite })).min(1),
+    band: band.optional(),
+    coherent: z.boolean().optional(),
+  }),
+]);
+
+export const ScenarioSchema = z.object({
+  format: z.literal("portolan.scenario/1"),
+  name: z.string().min(1).max(200),
+  z0: z.number().positive(),
+  // checked by parseScenario with FrequencyRangeSchema or FrequencyListSchema, so that the message names one form
+  frequency: z.record(z.string(), z.unknown()),
+  blocks: z.array(BlockSchema).min(1),
+  links: z.array(z.tuple([PortRefSchema, PortRefSchema])),
+  ports: z.array(SystemPortSchema).min(1),
+  rules: z.array(RuleSchema).optional(),
+  extrapolate: z.enum(["error", "hold"]).optional(),
+  variables: z.record(z.string(), z.union([z.string(), finite])).optional(),
+});

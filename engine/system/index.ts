@@ -1,0 +1,3 @@
+export { prepareSystem, type PrepareOptions } from "./prepare-system";
+export { solveScenario, type SolveScenarioOptions } from "./solve-scenario";
+export { loadPart, partText, parseTouchstoneCached, clearPartCache, type PartSource } from "./parts";

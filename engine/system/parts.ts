@@ -1,0 +1,103 @@
+/**
+ * Reading the Touchstone data of `touchstone` blocks, inline or from files, with a cache keyed by the
+ * text, so that preparing the same scenario again (a state sweep, an edit elsewhere on the chart) does
+ * not parse its parts again.
+ */
+import { parseTouchstone, type TouchstoneData } from "../touchstone";
+import { EngineInputError, type BlockSpec } from "../types";
+
+/** Where part files come from: a reader of paths relative to the scenario file, and/or texts by file name. */
+export type PartSource = {
+  /** reads a part file given its path relative to the scenario file; throws when it cannot */
+  readFile?: (relPath: string) => string;
+  /** Touchstone texts by file name (as written in the block's `file`); win over `readFile` */
+  parts?: Record<string, string>;
+};
+
+const CACHE_LIMIT = 64;
+const cache = new Map<string, TouchstoneData>();
+
+function cacheKey(text: string, ports: number | undefined, name: string): string {
+  // the name picks the port count of a v1.1 file (".s3p"), so it is part of the key
+  return `${ports ?? ""}\u0000${name}\u0000${text}`;
+}
+
+/**
+ * Parses Touchstone text, returning a cached result when the same text (and port hint) was parsed
+ * before. The result is shared: callers must not write into it.
+ *
+ * @param text - Touchstone 1.1 or 2.0 text
+ * @param name - file name used for the port count of v1.1 files (".s2p") and in error messages
+ * @param ports - port count hint for inline v1.1 text
+ * @returns the parsed data (frequencies in Hz, S with the file's own references)
+ * @example
+ * const part = parseTouchstoneCached("# GHz S RI R 50\n1 0.1 0 0.9 0 0.9 0 0.1 0\n", "pad.s2p");
+ * part.ports; // 2
+ */
+export function parseTouchstoneCached(text: string, name: string, ports?: number): TouchstoneData {
+  const key = cacheKey(text, ports, name);
+  const hit = cache.get(key);
+  if (hit) {
+    // refresh its place so that the most recently used parts stay
+    cache.delete(key);
+    cache.set(key, hit);
+    return hit;
+  }
+  const parsed = parseTouchstone(text, { name, ports });
+  cache.set(key, parsed);
+  if (cache.size > CACHE_LIMIT) cache.delete(cache.keys().next().value as string);
+  return parsed;
+}
+
+/** Empties the part cache (tests, or a server freeing memory). */
+export function clearPartCache(): void {
+  cache.clear();
+}
+
+/**
+ * The Touchstone text of a `touchstone` block: its inline `data`, else `parts[file]`, else `readFile(file)`.
+ *
+ * @param block - the block spec (kind "touchstone")
+ * @param where - JSON path of the block, e.g. `blocks[3]`, for error messages
+ * @param source - where files come from
+ * @returns the text and the name to report it by, or null when the block names a file but no source is given
+ * @throws EngineInputError when the block has neither `data` nor `file`, or the file cannot be read
+ * @example
+ * partText({ id: "ANT", kind: "touchstone", file: "ant.s1p" }, "blocks[2]", { parts: { "ant.s1p": text } });
+ */
+export function partText(block: BlockSpec, where: string, source: PartSource): { text: string; name: string } | null {
+  if (block.data !== undefined) return { text: block.data, name: block.file ?? `${block.id}${block.ports ? `.s${block.ports}p` : ""}` };
+  if (block.file === undefined) throw new EngineInputError(where, "a touchstone block needs `file` or inline `data`");
+  const inline = source.parts?.[block.file];
+  if (inline !== undefined) return { text: inline, name: block.file };
+  if (!source.readFile) return null;
+  try {
+    return { text: source.readFile(block.file), name: block.file };
+  } catch (err) {
+    const reason = err instanceof Error ? err.message : String(err);
+    throw new EngineInputError(`${where}.file`, `cannot read part file "${block.file}": ${reason}`);
+  }
+}
+
+/**
+ * Reads and parses the part of a `touchstone` block (cached), turning Touchstone errors into
+ * EngineInputError that name the block and the file line.
+ *
+ * @param block - the block spec (kind "touchstone")
+ * @param where - JSON path of the block, e.g. `blocks[3]`
+ * @param source - where files come from
+ * @returns the parsed part, or null when it names a file and no source can read it
+ * @example
+ * loadPart(scenario.blocks[2], "blocks[2]", { readFile: (p) => readFileSync(join(dir, p), "utf8") });
+ */
+export function loadPart(block: BlockSpec, where: string, source: PartSource): TouchstoneData | null {
+  const found = partText(block, where, source);
+  if (!found) return null;
+  try {
+    return parseTouchstoneCached(found.text, found.name, block.ports);
+  } catch (err) {
+    if (err instanceof EngineInputError) throw new EngineInputError(err.where, `${err.message.slice(err.where.length + 2)} (block ${block.id})`);
+    const reason = err instanceof Error ? err.message : String(err);
+    throw new EngineInputError(block.data !== undefined ? `${where}.data` : `${where}.file`, `${reason} (block ${block.id})`);
+  }
+}

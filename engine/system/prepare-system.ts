@@ -1,0 +1,175 @@
+/**
+ * From a scenario to a system ready to solve: every block evaluated on the frequency plan and
+ * referenced to the system Z0, links and system ports resolved to global block-port indices.
+ */
+import { evaluateBlock } from "../blocks";
+import { interpolateS } from "../interp";
+import { renormalize, z0Vector } from "../renorm";
+import { placeBlockError } from "../scenario/block-errors";
+import { frequencyPlan } from "../scenario/frequency-plan";
+import { parseScenario, splitPortRef } from "../scenario/parse-scenario";
+import {
+  EngineInputError,
+  type BlockPortInfo,
+  type BlockSpec,
+  type EvaluatedBlock,
+  type PreparedSystem,
+  type Scenario,
+} from "../types";
+import { loadPart, type PartSource } from "./parts";
+
+/** Options of prepareSystem: where part files come from (see PartSource). */
+export type PrepareOptions = PartSource;
+
+function formatHz(f: number): string {
+  if (f >= 1e9) return `${+(f / 1e9).toPrecision(6)} GHz`;
+  if (f >= 1e6) return `${+(f / 1e6).toPrecision(6)} MHz`;
+  if (f >= 1e3) return `${+(f / 1e3).toPrecision(6)} kHz`;
+  return `${+f.toPrecision(6)} Hz`;
+}
+
+function sameReferences(z0: Float64Array, target: number): boolean {
+  for (let p = 0; p < z0.length; p += 2) if (z0[p] !== target || z0[p + 1] !== 0) return false;
+  return true;
+}
+
+/** Evaluates a touchstone block: parse (cached), renormalise to the system Z0, interpolate onto the plan. */
+function evaluatePart(
+  block: BlockSpec,
+  where: string,
+  frequencies: Float64Array,
+  z0: number,
+  scenario: Scenario,
+  source: PartSource,
+): EvaluatedBlock {
+  const part = loadPart(block, where, source);
+  if (!part) throw new EngineInputError(`${where}.file`, `part file "${block.file}" cannot be read here: no file reader and no inline parts given`);
+  const n = part.ports;
+  const target = z0Vector(z0, n);
+  const referenced = sameReferences(part.z0, z0) ? part.s : renormalize(null, part.s, part.z0, target, "power");
+  const warnings: string[] = [];
+  let s = referenced;
+  let identical = part.frequencies.length === frequencies.length;
+  for (let k = 0; identical && k < frequencies.length; k++) identical = part.frequencies[k] === frequencies[k];
+  if (!identical) {
+    const mode = scenario.extrapolate ?? "error";
+    let result;
+    try {
+      result = interpolateS(referenced, part.frequencies, frequencies, { name: block.id, extrapolate: mode });
+    } catch (err) {
+      if (err instanceof EngineInputError) {
+        throw new EngineInputError(block.data !== undefined ? `${where}.data` : `${where}.file`, `${err.message} (set "extrapolate": "hold" to hold the end values, with a warning)`);
+      }
+      throw err;
+    }
+    s = result.s;
+    const fLo = part.frequencies[0];
+    const fHi = part.frequencies[part.frequencies.length - 1];
+    const { below, above } = result.extrapolated;
+    if (below > 0 || above > 0) {
+      const counts = [below > 0 ? `${below} below` : "", above > 0 ? `${above} above` : ""].filter(Boolean).join(" and ");
+      warnings.push(
+        `block ${block.id}: part data covers ${formatHz(fLo)} to ${formatHz(fHi)}; ${counts} that range held at the nearest end value (extrapolation)`,
+      );
+    }
+  }
+  return {
+    id: block.id,
+    kind: "touchstone",
+    s,
+    // measured data is checked by the checks, not assumed passive or reciprocal
+    traits: { passive: false, reciprocal: false, radiates: false },
+    rating_dbm: block.rating_dbm,
+    warnings,
+  };
+}
+
+/**
+ * Prepares a scenario for solving.
+ *
+ * Validates it (parseScenario), computes the frequency plan, evaluates every block on the plan with its
+ * S referenced to the system Z0 at every port (built-in kinds by their models; touchstone parts parsed
+ * once per text and cached, renormalised from the file's own references with power waves (Kurokawa
+ * 1965), interpolated onto the plan honouring `scenario.extrapolate`), and resolves links and system
+ * ports to global block-port indices (blocks in scenario order, ports 1…n within each block).
+ * Block ports that are neither linked nor system ports are matched terminations; each gets a warning.
+ *
+ * @param scenario - a scenario (typically from parseScenario)
+ * @param opts - where part files come from: `readFile(relPath)` and/or `parts` (texts by file name)
+ * @returns the PreparedSystem (frequencies in Hz, blocks' S over nf points, index maps, warnings)
+ * @throws EngineInputError with a JSON path (or file:line for part data) for unusable input
+ * @example
+ * const sys = prepareSystem(scenario, { readFile: (p) => readFileSync(join(dir, p), "utf8") });
+ * sys.blockPorts.length; // total block ports
+ */
+export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): PreparedSystem {
+  parseScenario(scenario, opts);
+  const frequencies = frequencyPlan(scenario.frequency);
+  const z0 = scenario.z0;
+  const warnings: string[] = [];
+  const blocks: EvaluatedBlock[] = [];
+  const blockPorts: BlockPortInfo[] = [];
+  const blockOffset: number[] = [];
+  const indexOf = new Map<string, number>();
+
+  scenario.blocks.forEach((spec, i) => {
+    const where = `blocks[${i}]`;
+    let evaluated: EvaluatedBlock;
+    if (spec.kind === "touchstone") {
+      evaluated = evaluatePart(spec, where, frequencies, z0, scenario, opts);
+    } else {
+      let result;
+      try {
+        result = evaluateBlock(spec, frequencies, z0);
+      } catch (err) {
+        throw placeBlockError(where, spec.id, err);
+      }
+      evaluated = {
+        id: spec.id,
+        kind: spec.kind,
+        s: result.s,
+        traits: result.traits,
+        rating_dbm: spec.rating_dbm,
+        warnings: result.warnings.map((w) => (w.startsWith(`block ${spec.id}`) ? w : `block ${spec.id}: ${w}`)),
+      };
+    }
+    if (evaluated.s.nf !== frequencies.length) {
+      throw new Error(`block ${spec.id}: model returned ${evaluated.s.nf} frequencies for a plan of ${frequencies.length}`);
+    }
+    blocks.push(evaluated);
+    warnings.push(...evaluated.warnings);
+    blockOffset.push(blockPorts.length);
+    indexOf.set(spec.id, i);
+    for (let p = 1; p <= evaluated.s.n; p++) blockPorts.push({ index: blockPorts.length, block: spec.id, port: p });
+  });
+
+  const resolve = (ref: string, where: string): number => {
+    const { block, port } = splitPortRef(ref);
+    const i = indexOf.get(block);
+    if (i === undefined) throw new EngineInputError(where, `no block with id "${block}" (in "${ref}")`);
+    const n = blocks[i].s.n;
+    if (port < 1 || port > n) throw new EngineInputError(where, `block ${block} has ${n} port${n === 1 ? "" : "s"}; there is no port ${port} (in "${ref}")`);
+    return blockOffset[i] + port - 1;
+  };
+
+  const used = new Uint8Array(blockPorts.length);
+  const links: [number, number][] = scenario.links.map((link, i) => {
+    const a = resolve(link[0], `links[${i}][0]`);
+    const b = resolve(link[1], `links[${i}][1]`);
+    used[a] = 1;
+    used[b] = 1;
+    return [a, b];
+  });
+  const systemPorts = scenario.ports.map((sp, i) => {
+    const at = resolve(sp.at, `ports[${i}].at`);
+    used[at] = 1;
+    return { name: sp.name, at, z0: sp.z0 ?? z0 };
+  });
+  const unterminated: number[] = [];
+  for (let p = 0; p < blockPorts.length; p++) {
+    if (used[p]) continue;
+    unterminated.push(p);
+    warnings.push(`block ${blockPorts[p].block} port ${blockPorts[p].port} is not linked and not a system port: treated as a matched termination`);
+  }
+  return { scenario, frequencies, z0, blocks, blockPorts, blockOffset, links, systemPorts, unterminated, warnings };
+}
