@@ -1,0 +1,36 @@
+// Resolution of the S used for each block (scenario data or a caller's replacement) with input checks.
+
+import { EngineInputError, type PreparedSystem, type SData } from "../types";
+
+/**
+ * The S of every block, with `replace` substituted by block id and shapes checked against the plan.
+ *
+ * @param sys prepared system
+ * @param replace block id → S to use instead (same port count, same frequency count)
+ * @returns one SData per block, in sys.blocks order
+ * @throws EngineInputError on an unknown id, a shape mismatch or non-finite values
+ * @example resolveBlockS(sys, { SW1: otherState }) // [s0, otherState, ...]
+ */
+export function resolveBlockS(sys: PreparedSystem, replace?: Record<string, SData>): SData[] {
+  const nf = sys.frequencies.length;
+  const out = sys.blocks.map((b) => b.s);
+  if (replace) {
+    for (const [id, s] of Object.entries(replace)) {
+      const i = sys.blocks.findIndex((b) => b.id === id);
+      if (i < 0) throw new EngineInputError(`replace.${id}`, `no block with id ${id}`);
+      out[i] = s;
+    }
+  }
+  out.forEach((s, i) => {
+    const blk = sys.blocks[i];
+    const expectedN = (i + 1 < sys.blockOffset.length ? sys.blockOffset[i + 1] : sys.blockPorts.length) - sys.blockOffset[i];
+    if (s.n !== expectedN || s.nf !== nf || s.data.length !== 2 * nf * s.n * s.n) {
+      throw new EngineInputError(`blocks.${blk.id}`, `S has shape ${s.n} ports × ${s.nf} frequencies (data length ${s.data.length}); expected ${expectedN} × ${nf}`);
+    }
+    const d = s.data;
+    for (let j = 0; j < d.length; j++) {
+      if (!Number.isFinite(d[j])) throw new EngineInputError(`blocks.${blk.id}`, `S holds a non-finite value at frequency index ${Math.floor(j / (2 * s.n * s.n))}`);
+    }
+  });
+  return out;
+}
