@@ -1,0 +1,67 @@
+// Every rule of a scenario and the built-in checks (ledger closure, passivity, reciprocity, stability of
+// amplifiers) in one call, with one overall verdict: the web app's "run all rules", the CLI and bundles.
+import type { PreparedSystem, Scenario, Solution } from "../types";
+import { dataQuality, type DataQualityResult } from "./data-quality";
+import { powerLedger, type LedgerResult } from "./power-ledger";
+import { evaluateRules } from "./rules";
+import { stabilityCheck, type StabilityResult } from "./stability";
+import type { CheckSummary, RuleResult, Verdict } from "./types";
+
+export type AllChecksResult = {
+  verdict: Verdict;
+  scenario: string;
+  points: number;
+  rules: RuleResult[];
+  ledgers: LedgerResult[];
+  dataQuality: DataQualityResult;
+  stability: StabilityResult[];
+  /** one line per check, rules first, in a stable order */
+  checks: CheckSummary[];
+  warnings: string[];
+};
+
+/** Worst of verdicts: fail > warn > pass. */
+export function worstVerdict(verdicts: Verdict[]): Verdict {
+  if (verdicts.includes("fail")) return "fail";
+  if (verdicts.includes("warn")) return "warn";
+  return "pass";
+}
+
+/**
+ * Runs the scenario's rules and the built-in checks on a solved system:
+ * - every rule (evaluateRule);
+ * - the power ledger of every system port (closure within 1e-9);
+ * - passivity and reciprocity of every block and of the composite where expected (dataQuality);
+ * - stability of every amplifier block and of a two-port composite (verdict "warn" when only conditionally
+ *   stable, since the terminations decide).
+ *
+ * @param scenario the scenario (its rules are run)
+ * @param prepared the prepared system (solution.system when solved from it)
+ * @param solution the solved composite
+ * @returns every result and a flat list of named verdicts; `verdict` is the worst of them
+ * @throws EngineInputError naming a rule with bad ports or an empty band
+ * @example runAllChecks(scenario, sys, solveSystem(sys)).verdict // "pass"
+ */
+export function runAllChecks(scenario: Scenario, prepared: PreparedSystem, solution: Solution): AllChecksResult {
+  const rules = evaluateRules(solution, scenario.rules ?? []);
+  const ledgers = solution.ports.map((p) => powerLedger(solution, p));
+  const quality = dataQuality(solution);
+  const stability = stabilityCheck(solution);
+  const checks: CheckSummary[] = [];
+  for (const r of rules) checks.push({ name: `rule:${r.id}`, title: `${r.kind} ${r.direction ?? ""}`.trim(), verdict: r.verdict, messages: r.messages });
+  for (const l of ledgers) checks.push({ name: `ledger:${l.port}`, title: `power ledger closure from ${l.port}`, verdict: l.verdict, messages: l.messages });
+  checks.push({ name: "passivity", title: "passivity of blocks and composite", verdict: quality.passivity, messages: quality.messages.filter((m) => !m.includes("reciprocal")) });
+  checks.push({ name: "reciprocity", title: "reciprocity where expected", verdict: quality.reciprocity, messages: quality.messages.filter((m) => m.includes("reciprocal") || m.includes("reciprocity")) });
+  for (const s of stability) checks.push({ name: `stability:${s.subject}`, title: `stability of ${s.subject}`, verdict: s.verdict, messages: s.messages });
+  return {
+    verdict: worstVerdict(checks.map((c) => c.verdict)),
+    scenario: scenario.name,
+    points: prepared.frequencies.length,
+    rules,
+    ledgers,
+    dataQuality: quality,
+    stability,
+    checks,
+    warnings: [...solution.warnings],
+  };
+}
