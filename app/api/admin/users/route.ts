@@ -1,0 +1,10 @@
+import { listUsers } from "@/db/queries/users";
+import { assertSiteAdmin } from "@/lib/admin";
+import { apiRoute, json } from "@/lib/api";
+
+/** GET /api/admin/users → { users } (site admin). */
+export const GET = apiRoute(async (ctx) => {
+  const user = await ctx.requireUser();
+  assertSiteAdmin(user);
+  return json({ users: await listUsers() });
+});

@@ -1,0 +1,9 @@
+import { apiRoute, noContent } from "@/lib/api";
+import { blankSessionCookie, invalidateSessionToken, readSessionToken } from "@/lib/auth/session";
+
+/** POST /api/auth/sign-out → 204; ends the session in the database and clears the cookie. */
+export const POST = apiRoute(async (ctx) => {
+  await invalidateSessionToken(readSessionToken(ctx.request.headers.get("cookie")));
+  ctx.setCookie(blankSessionCookie());
+  return noContent();
+});

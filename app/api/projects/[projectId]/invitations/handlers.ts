@@ -1,0 +1,11 @@
+import { apiRoute, json } from "@/lib/api";
+import { inviteMember } from "@/lib/invitations";
+import { inviteMemberSchema } from "@/lib/validation/projects";
+
+/** Shared by POST …/invitations and POST …/members: invite by e-mail with a role (owners) → 201 { invitation }. */
+export const inviteHandler = apiRoute<{ projectId: string }>(async (ctx) => {
+  const input = await ctx.body(inviteMemberSchema);
+  const user = await ctx.requireUser();
+  const invitation = await inviteMember({ actor: user, projectId: ctx.params.projectId, email: input.email, role: input.role });
+  return json({ invitation }, { status: 201 });
+});

@@ -1,0 +1,36 @@
+import "server-only";
+import { desc, eq } from "drizzle-orm";
+import { db } from "@/db/client";
+import { auditEvents, users } from "@/db/schema";
+import { authorize } from "@/lib/permissions";
+import type { SessionUser } from "@/lib/auth/session";
+
+export type AuditEntry = {
+  id: string;
+  action: string;
+  target: string | null;
+  detail: Record<string, unknown> | null;
+  actorEmail: string | null;
+  actorName: string | null;
+  createdAt: Date;
+};
+
+/** A project's audit log, newest first (owners). */
+export async function listAuditEvents({ actor, projectId, limit = 200 }: { actor: SessionUser; projectId: string; limit?: number }): Promise<AuditEntry[]> {
+  await authorize({ userId: actor.id, projectId, action: "audit.read" });
+  return db
+    .select({
+      id: auditEvents.id,
+      action: auditEvents.action,
+      target: auditEvents.target,
+      detail: auditEvents.detail,
+      actorEmail: auditEvents.actorEmail,
+      actorName: users.name,
+      createdAt: auditEvents.createdAt,
+    })
+    .from(auditEvents)
+    .leftJoin(users, eq(users.id, auditEvents.actorId))
+    .where(eq(auditEvents.projectId, projectId))
+    .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id))
+    .limit(limit);
+}

@@ -1,0 +1,165 @@
+import { sql } from "drizzle-orm";
+import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+
+export const ROLES = ["owner", "engineer", "reviewer"] as const;
+export type Role = (typeof ROLES)[number];
+
+const createdAt = () =>
+  integer("created_at", { mode: "timestamp_ms" })
+    .notNull()
+    .default(sql`(unixepoch() * 1000)`);
+
+export const users = sqliteTable("users", {
+  id: text("id").primaryKey(),
+  /** Always stored lower-cased and trimmed. */
+  email: text("email").notNull().unique(),
+  name: text("name").notNull(),
+  passwordHash: text("password_hash").notNull(),
+  isSiteAdmin: integer("is_site_admin", { mode: "boolean" }).notNull().default(false),
+  notifySignoff: integer("notify_signoff", { mode: "boolean" }).notNull().default(true),
+  createdAt: createdAt(),
+});
+export type User = typeof users.$inferSelect;
+export type NewUser = typeof users.$inferInsert;
+
+/** `id` is the SHA-256 of the cookie token, never the token itself. `expires_at` is in seconds (the session adapter's unit). */
+export const sessions = sqliteTable(
+  "sessions",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    expiresAt: integer("expires_at").notNull(),
+  },
+  (table) => [index("sessions_user_id_idx").on(table.userId)],
+);
+export type Session = typeof sessions.$inferSelect;
+export type NewSession = typeof sessions.$inferInsert;
+
+export const projects = sqliteTable("projects", {
+  id: text("id").primaryKey(),
+  name: text("name").notNull(),
+  description: text("description").notNull().default(""),
+  createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+  createdAt: createdAt(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+    .notNull()
+    .default(sql`(unixepoch() * 1000)`),
+});
+export type Project = typeof projects.$inferSelect;
+export type NewProject = typeof projects.$inferInsert;
+
+export const memberships = sqliteTable(
+  "memberships",
+  {
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    role: text("role", { enum: ROLES }).notNull(),
+    createdAt: createdAt(),
+  },
+  (table) => [primaryKey({ columns: [table.projectId, table.userId] }), index("memberships_user_id_idx").on(table.userId)],
+);
+export type Membership = typeof memberships.$inferSelect;
+export type NewMembership = typeof memberships.$inferInsert;
+
+export const invitations = sqliteTable(
+  "invitations",
+  {
+    id: text("id").primaryKey(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    email: text("email").notNull(),
+    role: text("role", { enum: ROLES }).notNull(),
+    tokenHash: text("token_hash").notNull(),
+    invitedBy: text("invited_by").references(() => users.id, { onDelete: "set null" }),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    acceptedAt: integer("accepted_at", { mode: "timestamp_ms" }),
+    acceptedBy: text("accepted_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("invitations_token_hash_idx").on(table.tokenHash), index("invitations_project_id_idx").on(table.projectId)],
+);
+export type Invitation = typeof invitations.$inferSelect;
+export type NewInvitation = typeof invitations.$inferInsert;
+
+export const passwordResets = sqliteTable(
+  "password_resets",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("password_resets_token_hash_idx").on(table.tokenHash)],
+);
+export type PasswordReset = typeof passwordResets.$inferSelect;
+export type NewPasswordReset = typeof passwordResets.$inferInsert;
+
+/** Who did what. `project_id` is null for site-wide events (sign-up, settings) and after a project is deleted. */
+export const auditEvents = sqliteTable(
+  "audit_events",
+  {
+    id: text("id").primaryKey(),
+    projectId: text("project_id").references(() => projects.id, { onDelete: "set null" }),
+    actorId: text("actor_id").references(() => users.id, { onDelete: "set null" }),
+    /** Kept so the log stays readable after the actor's account is deleted. */
+    actorEmail: text("actor_email"),
+    action: text("action").notNull(),
+    target: text("target"),
+    detail: text("detail", { mode: "json" }).$type<Record<string, unknown>>(),
+    createdAt: createdAt(),
+  },
+  (table) => [index("audit_events_project_id_idx").on(table.projectId, table.createdAt)],
+);
+export type AuditEvent = typeof auditEvents.$inferSelect;
+export type NewAuditEvent = typeof auditEvents.$inferInsert;
+
+export const settings = sqliteTable("settings", {
+  key: text("key").primaryKey(),
+  value: text("value").notNull(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+    .notNull()
+    .default(sql`(unixepoch() * 1000)`),
+});
+export type Setting = typeof settings.$inferSelect;
+export type NewSetting = typeof settings.$inferInsert;
+
+/** Failed sign-ins per key ("account:<email>" or "ip:<address>"), shared by every app instance on the database. */
+export const loginThrottle = sqliteTable("login_throttle", {
+  key: text("key").primaryKey(),
+  failures: integer("failures").notNull().default(0),
+  windowStart: integer("window_start", { mode: "timestamp_ms" }).notNull(),
+  lockedUntil: integer("locked_until", { mode: "timestamp_ms" }),
+  /** How many times this key has been locked in a row; the lock doubles each time. */
+  lockCount: integer("lock_count").notNull().default(0),
+});
+export type LoginThrottle = typeof loginThrottle.$inferSelect;
+export type NewLoginThrottle = typeof loginThrottle.$inferInsert;
+
+/** Messages the local fake SMTP server received over SMTP. */
+export const outboxMessages = sqliteTable(
+  "outbox_messages",
+  {
+    id: text("id").primaryKey(),
+    fromAddress: text("from_address").notNull().default(""),
+    toAddress: text("to_address").notNull().default(""),
+    subject: text("subject").notNull().default(""),
+    text: text("text"),
+    html: text("html"),
+    raw: text("raw").notNull(),
+    receivedAt: integer("received_at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (table) => [index("outbox_messages_received_at_idx").on(table.receivedAt)],
+);
+export type OutboxMessage = typeof outboxMessages.$inferSelect;
+export type NewOutboxMessage = typeof outboxMessages.$inferInsert;

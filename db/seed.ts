@@ -1,0 +1,66 @@
+import "server-only";
+import { randomUUID } from "node:crypto";
+import { eq } from "drizzle-orm";
+import { runInTransaction, type Transaction } from "./client";
+import { memberships, projects, users, type Role } from "./schema";
+import { recordAudit } from "@/lib/audit";
+import { hashPassword } from "@/lib/auth/password";
+
+export const DEMO_PASSWORD = "portolan-demo";
+
+export const DEMO_USERS = [
+  { email: "olive@portolan.example", name: "Olive Owner", role: "owner" },
+  { email: "emil@portolan.example", name: "Emil Engineer", role: "engineer" },
+  { email: "rhea@portolan.example", name: "Rhea Reviewer", role: "reviewer" },
+] as const satisfies readonly { email: string; name: string; role: Role }[];
+
+export const DEMO_PROJECT = {
+  name: "Kestrel telemetry front end",
+  description:
+    "Front end of the Kestrel telemetry radio: one transmitter and one receiver sharing two antennas through a transfer switch, a circulator and a band-pass filter. The question is whether enough of the transmit power stays out of the receiver in every switch setting.",
+};
+
+export type DemoSeedContext = {
+  tx: Transaction;
+  projectId: string;
+  users: Record<(typeof DEMO_USERS)[number]["role"], string>;
+};
+
+/** Later issues register steps here (demo scenarios, parts, rules); each runs once, in the seed's transaction. */
+const extraSteps: ((ctx: DemoSeedContext) => Promise<void>)[] = [];
+
+export function registerDemoSeedStep(step: (ctx: DemoSeedContext) => Promise<void>): void {
+  extraSteps.push(step);
+}
+
+/**
+ * Create the demo users and project once. Idempotent: does nothing if the demo project exists or if
+ * any of the demo e-mails is already taken. The first demo user (Olive) is site admin if the database
+ * has no site admin yet.
+ */
+export async function seedDemo(): Promise<{ seeded: boolean; projectId: string | null }> {
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  return runInTransaction(async (tx) => {
+    const [existingProject] = await tx.select({ id: projects.id }).from(projects).where(eq(projects.name, DEMO_PROJECT.name)).limit(1);
+    if (existingProject) return { seeded: false, projectId: existingProject.id };
+    for (const demo of DEMO_USERS) {
+      const [taken] = await tx.select({ id: users.id }).from(users).where(eq(users.email, demo.email));
+      if (taken) return { seeded: false, projectId: null };
+    }
+    const [admin] = await tx.select({ id: users.id }).from(users).where(eq(users.isSiteAdmin, true)).limit(1);
+    const ids = {} as DemoSeedContext["users"];
+    for (const [index, demo] of DEMO_USERS.entries()) {
+      const id = randomUUID();
+      await tx.insert(users).values({ id, email: demo.email, name: demo.name, passwordHash, isSiteAdmin: index === 0 && !admin });
+      ids[demo.role] = id;
+    }
+    const projectId = randomUUID();
+    await tx.insert(projects).values({ id: projectId, name: DEMO_PROJECT.name, description: DEMO_PROJECT.description, createdBy: ids.owner });
+    for (const demo of DEMO_USERS) {
+      await tx.insert(memberships).values({ projectId, userId: ids[demo.role], role: demo.role });
+    }
+    await recordAudit(tx, { actor: null, projectId, action: "demo.seed", target: DEMO_PROJECT.name });
+    for (const step of extraSteps) await step({ tx, projectId, users: ids });
+    return { seeded: true, projectId };
+  });
+}

@@ -1,0 +1,23 @@
+import "server-only";
+import { getEnv } from "@/lib/env";
+import { migrateDatabase } from "./migrate";
+import { seedDemo } from "./seed";
+
+const globalForStartup = globalThis as unknown as { portolanStartup?: Promise<void> };
+
+/** Migrate, seed the demo (unless SEED_DEMO=0) and start the fake SMTP server (if enabled). Runs once per process. */
+export function startApp(): Promise<void> {
+  globalForStartup.portolanStartup ??= (async () => {
+    const env = getEnv();
+    await migrateDatabase();
+    if (env.seedDemo) {
+      const result = await seedDemo();
+      if (result.seeded) console.log("[seed] demo project and users created (password: portolan-demo)");
+    }
+    if (env.fakeSmtp) {
+      const { ensureFakeSmtpServer } = await import("@/lib/mail/fake-smtp");
+      await ensureFakeSmtpServer(env.fakeSmtpPort);
+    }
+  })();
+  return globalForStartup.portolanStartup;
+}

@@ -1,0 +1,8 @@
+import "server-only";
+import { AppError } from "@/lib/errors";
+import type { SessionUser } from "@/lib/auth/session";
+
+/** Site-admin-only operations (users, settings). */
+export function assertSiteAdmin(user: SessionUser): void {
+  if (!user.isSiteAdmin) throw new AppError("forbidden", 403, "Only site admins can do this.");
+}

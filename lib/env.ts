@@ -1,0 +1,77 @@
+import "server-only";
+import { z } from "zod";
+
+// Read once; every other module imports `env` instead of touching process.env.
+const flag = (fallback: boolean) =>
+  z
+    .enum(["1", "0", "true", "false", "yes", "no", "on", "off", ""])
+    .optional()
+    .transform((value) => {
+      if (value === undefined || value === "") return fallback;
+      return value === "1" || value === "true" || value === "yes" || value === "on";
+    });
+
+function readEnv() {
+  const raw = process.env;
+  const isProduction = raw.NODE_ENV === "production";
+  const schema = z.object({
+    NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+    DATABASE_URL: z
+      .string()
+      .default("file:data/portolan.db")
+      .refine((url) => /^(file:|libsql:|https?:|wss?:)/.test(url), {
+        message: "DATABASE_URL must start with file:, libsql:, http(s): or ws(s):",
+      }),
+    DATABASE_AUTH_TOKEN: z.string().optional(),
+    SMTP_URL: z.string().optional(),
+    SMTP_FROM: z.string().default("Portolan <no-reply@portolan.example>"),
+    FAKE_SMTP: flag(!(isProduction && Boolean(raw.SMTP_URL))),
+    FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+    OUTBOX_ENABLED: flag(!isProduction),
+    APP_URL: z.string().url().optional(),
+    APP_ORIGIN: z.string().url().optional(),
+    COOKIE_SECURE: flag(isProduction),
+    SIGNUP_MODE: z.enum(["open", "invite"]).default("open"),
+    SEED_DEMO: flag(true),
+  });
+  const parsed = schema.safeParse(raw);
+  if (!parsed.success) {
+    const problems = parsed.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`);
+    throw new Error(`Invalid environment: ${problems.join("; ")}`);
+  }
+  const value = parsed.data;
+  const appUrl = (value.APP_URL ?? value.APP_ORIGIN ?? "http://localhost:3000").replace(/\/+$/, "");
+  return {
+    nodeEnv: value.NODE_ENV,
+    isProduction: value.NODE_ENV === "production",
+    databaseUrl: value.DATABASE_URL,
+    databaseAuthToken: value.DATABASE_AUTH_TOKEN,
+    smtpUrl: value.SMTP_URL ?? `smtp://127.0.0.1:${value.FAKE_SMTP_PORT}`,
+    smtpFrom: value.SMTP_FROM,
+    fakeSmtp: value.FAKE_SMTP,
+    fakeSmtpPort: value.FAKE_SMTP_PORT,
+    outboxEnabled: value.OUTBOX_ENABLED,
+    appUrl,
+    /** Extra origin accepted for state-changing requests besides the request's own Host. */
+    appOrigin: value.APP_ORIGIN ? new URL(value.APP_ORIGIN).origin : value.APP_URL ? new URL(value.APP_URL).origin : null,
+    cookieSecure: value.COOKIE_SECURE,
+    signupMode: value.SIGNUP_MODE,
+    seedDemo: value.SEED_DEMO,
+  };
+}
+
+export type Env = ReturnType<typeof readEnv>;
+
+let cached: Env | null = null;
+
+/** The validated environment, read on first use. */
+export function getEnv(): Env {
+  cached ??= readEnv();
+  return cached;
+}
+
+export const env: Env = new Proxy({} as Env, {
+  get(_target, key: string) {
+    return getEnv()[key as keyof Env];
+  },
+});

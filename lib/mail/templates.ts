@@ -1,0 +1,52 @@
+import "server-only";
+import type { Role } from "@/db/schema";
+import { getEnv } from "@/lib/env";
+import type { MailInput } from "./send";
+
+function escapeHtml(value: string): string {
+  return value.replace(/[&<>"']/g, (ch) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[ch] ?? ch);
+}
+
+export function appLink(pathname: string): string {
+  return `${getEnv().appUrl}${pathname}`;
+}
+
+export function invitationMail({
+  to,
+  token,
+  projectName,
+  role,
+  inviterName,
+}: {
+  to: string;
+  token: string;
+  projectName: string;
+  role: Role;
+  inviterName: string;
+}): MailInput {
+  const link = appLink(`/invite/${token}`);
+  const subject = `${inviterName} invited you to ${projectName} on Portolan`;
+  const text = [
+    `${inviterName} invited you to join the project "${projectName}" on Portolan as ${role}.`,
+    "",
+    `Accept the invitation: ${link}`,
+    "",
+    "The link works once and expires in 7 days. If you did not expect this, ignore this message.",
+  ].join("\n");
+  const html = `<p>${escapeHtml(inviterName)} invited you to join the project <strong>${escapeHtml(projectName)}</strong> on Portolan as ${role}.</p><p><a href="${escapeHtml(link)}">Accept the invitation</a></p><p>The link works once and expires in 7 days. If you did not expect this, ignore this message.</p>`;
+  return { to, subject, text, html };
+}
+
+export function passwordResetMail({ to, token }: { to: string; token: string }): MailInput {
+  const link = appLink(`/reset-password/${token}`);
+  const subject = "Reset your Portolan password";
+  const text = [
+    "Someone asked to reset the password of your Portolan account.",
+    "",
+    `Choose a new password: ${link}`,
+    "",
+    "The link works once and expires in 1 hour. If it was not you, ignore this message; your password stays as it is.",
+  ].join("\n");
+  const html = `<p>Someone asked to reset the password of your Portolan account.</p><p><a href="${escapeHtml(link)}">Choose a new password</a></p><p>The link works once and expires in 1 hour. If it was not you, ignore this message; your password stays as it is.</p>`;
+  return { to, subject, text, html };
+}

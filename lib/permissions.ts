@@ -1,0 +1,44 @@
+import "server-only";
+import { and, eq } from "drizzle-orm";
+import { db, type Executor } from "@/db/client";
+import { memberships, projects } from "@/db/schema";
+import { AppError } from "@/lib/errors";
+import { can, type Action, type Role } from "@/lib/permission-table";
+
+export { ACTIONS, PERMISSIONS, can } from "@/lib/permission-table";
+export type { Action, Role } from "@/lib/permission-table";
+
+/** The user's role in the project, or null when they are not a member (or the project does not exist). */
+export async function getRole({ userId, projectId, executor = db }: { userId: string; projectId: string; executor?: Executor }): Promise<Role | null> {
+  const rows = await executor
+    .select({ role: memberships.role })
+    .from(memberships)
+    .innerJoin(projects, eq(projects.id, memberships.projectId))
+    .where(and(eq(memberships.userId, userId), eq(memberships.projectId, projectId)))
+    .limit(1);
+  return rows[0]?.role ?? null;
+}
+
+/**
+ * Check on the server that `userId` may do `action` in `projectId` and return their role.
+ * Throws 404 when the user is not a member, so a project's existence is not revealed, and 403 when
+ * the user is a member whose role does not allow the action.
+ */
+export async function authorize({
+  userId,
+  projectId,
+  action,
+  executor,
+}: {
+  userId: string;
+  projectId: string;
+  action: Action;
+  executor?: Executor;
+}): Promise<Role> {
+  const role = await getRole({ userId, projectId, executor });
+  if (!role) throw new AppError("not_found", 404, "Project not found.");
+  if (!can(role, action)) {
+    throw new AppError("forbidden", 403, `Your role (${role}) does not allow this (${action}).`);
+  }
+  return role;
+}
