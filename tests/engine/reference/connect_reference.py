@@ -2,7 +2,7 @@
 
 Reads a JSON description of a system on stdin and prints the composite S-parameters as JSON.
 
-Input:
+Input (one case, or { "cases": [case, ...] } answered by { "results": [s, ...] }):
   { "system_z0": 50,
     "blocks": [ { "z0": [per-port real ohms], "s": [nf][n][n][2] } ],   # each block's S, own references
     "links": [[p, q], ...],          # global block-port indices (blocks in order, ports in order)
@@ -59,8 +59,7 @@ def renormalise(s, z_old, z_new):
     return np.swapaxes(np.linalg.solve(np.swapaxes(den, 1, 2), np.swapaxes(num, 1, 2)), 1, 2)
 
 
-def main():
-    spec = json.load(sys.stdin)
+def solve_case(spec):
     z0 = float(spec["system_z0"])
     components = []  # each: [S (nf, m, m), [global port ids]]
     owner = {}
@@ -97,7 +96,15 @@ def main():
             if ci is cj:
                 out[:, i, j] = ci[0][:, ci[1].index(pi["at"]), ci[1].index(pj["at"])]
     out = renormalise(out, [z0] * m, [float(p["z0"]) for p in sys_ports])
-    json.dump({"s": np.stack([out.real, out.imag], axis=-1).tolist(), "skrf": skrf.__version__}, sys.stdout)
+    return np.stack([out.real, out.imag], axis=-1).tolist()
+
+
+def main():
+    spec = json.load(sys.stdin)
+    if "cases" in spec:
+        json.dump({"results": [solve_case(c) for c in spec["cases"]], "skrf": skrf.__version__}, sys.stdout)
+    else:
+        json.dump({"s": solve_case(spec), "skrf": skrf.__version__}, sys.stdout)
 
 
 if __name__ == "__main__":

@@ -1,0 +1,65 @@
+/**
+ * Timing helpers for the benchmark (and for rows other areas add).
+ */
+import { performance } from "node:perf_hooks";
+
+/** One line of the benchmark table. */
+export type BenchRow = {
+  /** what was timed, e.g. "chain of 100 two-ports: composite" */
+  name: string;
+  /** size of the case, e.g. "100 blocks, 200 ports, 1001 pts" */
+  size: string;
+  /** median time, ms */
+  ms: number;
+  /** median time of the dense numpy reference, ms, when measured */
+  numpyMs?: number;
+  /** the target in words, e.g. "≤ 30 ms and faster than numpy" */
+  target?: string;
+  /** whether the target is met (undefined: no target) */
+  pass?: boolean;
+  note?: string;
+};
+
+/**
+ * Median wall time of `fn` over `runs` runs, after `warmup` untimed runs (so that the JIT has compiled it).
+ *
+ * @param fn - the work to time
+ * @param runs - timed runs (default 7)
+ * @param warmup - untimed runs first (default 2)
+ * @returns { median, runs } in ms
+ * @example
+ * const { median } = timeMedian(() => solveSystem(sys));
+ */
+export function timeMedian(fn: () => unknown, runs = 7, warmup = 2): { median: number; runs: number[] } {
+  for (let i = 0; i < warmup; i++) fn();
+  const times: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now();
+    fn();
+    times.push(performance.now() - t0);
+  }
+  const sorted = times.slice().sort((a, b) => a - b);
+  return { median: sorted[Math.floor(sorted.length / 2)], runs: times };
+}
+
+/**
+ * The benchmark table as text.
+ *
+ * @param rows - rows in order
+ * @returns aligned columns: case, size, Portolan ms, numpy ms, numpy / Portolan, target, verdict
+ */
+export function formatTable(rows: BenchRow[]): string {
+  const head = ["case", "size", "Portolan ms", "numpy ms", "numpy/Portolan", "target", "result"];
+  const body = rows.map((r) => [
+    r.name,
+    r.size,
+    r.ms.toFixed(2),
+    r.numpyMs === undefined ? "-" : r.numpyMs.toFixed(2),
+    r.numpyMs === undefined ? "-" : `${(r.numpyMs / r.ms).toFixed(1)}×`,
+    r.target ?? "",
+    r.pass === undefined ? "" : r.pass ? "PASS" : "MISS",
+  ]);
+  const widths = head.map((h, c) => Math.max(h.length, ...body.map((row) => row[c].length)));
+  const line = (cells: string[]) => cells.map((cell, c) => (c >= 2 && c <= 4 ? cell.padStart(widths[c]) : cell.padEnd(widths[c]))).join("  ");
+  return [line(head), widths.map((w) => "-".repeat(w)).join("  "), ...body.map(line)].join("\n");
+}
