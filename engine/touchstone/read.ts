@@ -113,6 +113,7 @@ class Reader {
   private readonly freqs: number[] = [];
   private readonly recLines: number[] = [];
   private lastDataLine = 0;
+  private lastContentLine = 0;
 
   // noise data
   private noiseLastFreq = -Infinity;
@@ -190,6 +191,7 @@ class Reader {
     }
     const content = text.slice(start, bang >= 0 ? bang : end).trim();
     if (content === "") return;
+    this.lastContentLine = lineNo;
     if (this.section === "information") {
       if (/^\[\s*end\s+information\s*\]/i.test(content)) this.section = "header";
       return;
@@ -527,7 +529,8 @@ class Reader {
   // ---------------------------------------------------------------------------------------------
   // Result
 
-  private finish(lastLine: number): TouchstoneData {
+  private finish(lineCount: number): TouchstoneData {
+    const lastLine = this.lastContentLine || lineCount;
     if (this.refPending > 0) {
       this.fail(this.referenceLine, `[Reference] needs ${this.ports} values, one per port; found ${this.reference!.length}`);
     }

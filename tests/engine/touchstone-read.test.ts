@@ -99,7 +99,7 @@ describe("parseTouchstone() against scikit-rf 0.15.4 on the same data", () => {
     "4port_ri.s4p",
     "6port_db.s6p",
   ];
-  const v20 = ["v2_twoport_21_12.ts", "v2_twoport_12_21.ts", "v2_threeport_full.ts", "v2_fiveport_wrapped.ts"];
+  const v20 = ["v2_twoport_21_12.s2p", "v2_twoport_12_21.s2p", "v2_threeport_full.s3p", "v2_fiveport_wrapped.s5p"];
 
   it("reads every 1.1 and 2.0 fixture like scikit-rf 0.15.4 Network(path), to 1e-12", (ctx) => {
     if (!hasSkrf) ctx.skip(SKRF_ABSENT);
@@ -112,7 +112,7 @@ describe("parseTouchstone() against scikit-rf 0.15.4 on the same data", () => {
       expectClose(t.frequencies, Float64Array.from(ref.f), 1e-15);
       const expected = interleave(ref.s);
       // The 12_21 file holds N11 N12 N21 N22, which scikit-rf 0.15.4 ignores; it reads it transposed.
-      expectClose(t.s.data, file === "v2_twoport_12_21.ts" ? transpose2(expected) : expected, 1e-12);
+      expectClose(t.s.data, file === "v2_twoport_12_21.s2p" ? transpose2(expected) : expected, 1e-12);
     });
   });
 
@@ -123,7 +123,7 @@ describe("parseTouchstone() against scikit-rf 0.15.4 on the same data", () => {
     const cases = [
       { file: "zparams_ri.s2p", n: 2, order: "21_12", format: "RI", param: "Z", scale: 50, z0: [50, 50], fscale: 1e9 },
       { file: "yparams_ma.s1p", n: 1, order: "21_12", format: "MA", param: "Y", scale: 1 / 75, z0: [75], fscale: 1e6 },
-      { file: "v2_zparams_ri.ts", n: 2, order: "12_21", format: "RI", param: "Z", scale: 1, z0: [50, 75], fscale: 1e9 },
+      { file: "v2_zparams_ri.s2p", n: 2, order: "12_21", format: "RI", param: "Z", scale: 1, z0: [50, 75], fscale: 1e9 },
     ];
     const refs = runSkrf<SkrfRead>(cases.map((c) => ({ kind: "zy", path: join(DIR, c.file), ...c })));
     cases.forEach((c, idx) => {
@@ -192,17 +192,17 @@ describe("parseTouchstone() dialects", () => {
     expect([b.s.data[2], b.s.data[4]]).toEqual([0.21, 0.12]);
     expect(b.twoPortOrder).toBe("12_21");
     // and the two fixtures holding the same matrices in the two orders agree
-    expect(parseFixture("v2_twoport_12_21.ts").s.data).toEqual(parseFixture("v2_twoport_21_12.ts").s.data);
+    expect(parseFixture("v2_twoport_12_21.s2p").s.data).toEqual(parseFixture("v2_twoport_21_12.s2p").s.data);
   });
 
   it("fills the symmetric part of Lower and Upper matrices (Touchstone 2.0, [Matrix Format])", () => {
-    const full = parseFixture("v2_threeport_full.ts");
-    expect(parseFixture("v2_threeport_lower.ts").s.data).toEqual(full.s.data);
-    expect(parseFixture("v2_threeport_upper.ts").s.data).toEqual(full.s.data);
+    const full = parseFixture("v2_threeport_full.s3p");
+    expect(parseFixture("v2_threeport_lower.s3p").s.data).toEqual(full.s.data);
+    expect(parseFixture("v2_threeport_upper.s3p").s.data).toEqual(full.s.data);
   });
 
   it("reads [Reference] values continued over several lines, one per port", () => {
-    const t = parseFixture("v2_threeport_lower.ts");
+    const t = parseFixture("v2_threeport_lower.s3p");
     expect(Array.from(t.z0)).toEqual([50, 0, 75, 0, 100, 0]);
     expect(t.version).toBe("2.0");
   });
@@ -211,12 +211,12 @@ describe("parseTouchstone() dialects", () => {
     const a = parseFixture("twoport_noise.s2p");
     expect(a.s.nf).toBe(5);
     expect(a.frequencies[4]).toBe(3e9);
-    const b = parseFixture("v2_twoport_21_12.ts");
+    const b = parseFixture("v2_twoport_21_12.s2p");
     expect(b.s.nf).toBe(4);
   });
 
   it("skips a 2.0 [Begin Information] block and reads values wrapped freely across lines", () => {
-    const t = parseFixture("v2_fiveport_wrapped.ts");
+    const t = parseFixture("v2_fiveport_wrapped.s5p");
     expect([t.ports, t.s.nf]).toEqual([5, 3]);
     expect(Array.from(t.frequencies)).toEqual([5e8, 7.5e8, 1e9]);
   });
