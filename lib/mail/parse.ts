@@ -73,7 +73,8 @@ function collectParts(part: Part, out: { text: string | null; html: string | nul
     const sections = part.body.split(`--${boundary}`);
     for (const section of sections.slice(1)) {
       if (section.startsWith("--")) break;
-      collectParts(splitHeadersAndBody(section.replace(/^\n/, "")), out, depth + 1);
+      // The line break before a boundary belongs to the boundary (RFC 2046 §5.1.1).
+      collectParts(splitHeadersAndBody(section.replace(/^\n/, "").replace(/\n$/, "")), out, depth + 1);
     }
     return;
   }
