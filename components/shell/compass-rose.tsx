@@ -5,9 +5,9 @@ type Point = { angle: number; length: number; width: number };
 // Sixteen points: four long cardinals, four intercardinals, eight short by-points.
 const points: Point[] = Array.from({ length: 16 }, (_, i) => {
   const angle = (i * Math.PI) / 8;
-  if (i % 4 === 0) return { angle, length: 1, width: 0.16 };
-  if (i % 2 === 0) return { angle, length: 0.68, width: 0.13 };
-  return { angle, length: 0.46, width: 0.09 };
+  if (i % 4 === 0) return { angle, length: 1, width: 0.22 };
+  if (i % 2 === 0) return { angle, length: 0.7, width: 0.17 };
+  return { angle, length: 0.5, width: 0.1 };
 });
 
 function polar(r: number, a: number): string {
@@ -25,7 +25,10 @@ export type CompassRoseProps = {
 
 /** Portolan's mark: a sixteen-point rose, each point split into a filled and an open half. */
 export function CompassRose({ size = 28, className, title }: CompassRoseProps) {
-  const ordered = [...points].sort((a, b) => a.length - b.length);
+  // Below about 32 px the by-points only blur the mark.
+  const shown = size < 32 ? points.filter((_, i) => i % 2 === 0) : points;
+  const ordered = [...shown].sort((a, b) => a.length - b.length);
+  const stroke = size < 32 ? 0.06 : 0.03;
   return (
     <svg
       width={size}
@@ -36,8 +39,8 @@ export function CompassRose({ size = 28, className, title }: CompassRoseProps) {
       aria-hidden={title ? undefined : true}
       aria-label={title}
     >
-      <circle r="0.62" fill="none" stroke="currentColor" strokeWidth="0.045" opacity="0.55" />
-      <circle r="0.74" fill="none" stroke="currentColor" strokeWidth="0.02" opacity="0.4" />
+      <circle r="0.6" fill="none" stroke="currentColor" strokeWidth={stroke * 1.4} opacity="0.6" />
+      {size >= 32 ? <circle r="0.72" fill="none" stroke="currentColor" strokeWidth="0.02" opacity="0.45" /> : null}
       {ordered.map((p) => {
         const tip = polar(p.length, p.angle);
         const left = polar(p.width, p.angle - Math.PI / 4);
@@ -45,11 +48,11 @@ export function CompassRose({ size = 28, className, title }: CompassRoseProps) {
         return (
           <g key={p.angle}>
             <polygon points={`0,0 ${tip} ${left}`} fill="currentColor" />
-            <polygon points={`0,0 ${tip} ${right}`} fill="var(--pt-paper)" stroke="currentColor" strokeWidth="0.035" strokeLinejoin="round" />
+            <polygon points={`0,0 ${tip} ${right}`} fill="var(--pt-paper)" stroke="currentColor" strokeWidth={stroke} strokeLinejoin="round" />
           </g>
         );
       })}
-      <circle r="0.07" fill="var(--pt-fail)" />
+      <circle r={size < 32 ? 0.1 : 0.07} fill="var(--pt-fail)" />
     </svg>
   );
 }
