@@ -223,7 +223,8 @@ export function evaluateQuantity(text: string, q: Quantity, scope: Map<string, u
     if (!target) return fail(q, `got a value in ${u.formatUnits()}`);
     if (!u.equalBase(math.unit(target))) return fail(q, `got a value in ${u.formatUnits()}`);
     try {
-      return finishNumber(u.toNumber(target), q);
+      // 15 significant digits drop the conversion noise (35 cm → 0.35, not 0.35000000000000003)
+      return finishNumber(Number(u.toNumber(target).toPrecision(15)), q);
     } catch (e) {
       return { ok: false, error: e instanceof Error ? e.message : String(e) };
     }

@@ -7,6 +7,8 @@ import {
   validateVariableName,
 } from "@/lib/client/expressions";
 import type { Scenario } from "@/engine/types";
+import type { ParamInfo } from "@/engine/blocks/params";
+import { readParamInput, valueToText } from "@/lib/client/param-input";
 
 function value(text: string, q: Parameters<typeof evaluateQuantity>[1], scope?: Map<string, unknown>): number | [number, number] {
   const r = evaluateQuantity(text, q, scope);
@@ -119,5 +121,35 @@ describe("quantityForParam", () => {
     expect(quantityForParam("impedance")).toBe("impedance");
     expect(quantityForParam("order")).toBe("integer");
     expect(quantityForParam("velocity_factor")).toBe("number");
+  });
+});
+
+describe("readParamInput with catalogue rules", () => {
+  // Parameter declarations as engine/blocks/catalogue.ts states them (line and switch).
+  const length: ParamInfo = { name: "length_m", label: "Length", unit: "m", kind: "number", required: true, min: 0, help: "" };
+  const vf: ParamInfo = { name: "velocity_factor", label: "VF", unit: "", kind: "number", required: false, min: 0, minExclusive: true, max: 1, help: "" };
+  const iso: ParamInfo = { name: "isolation_db", label: "Isolation", unit: "dB", kind: "number", required: true, min: 0, infinite: true, help: "" };
+  const off: ParamInfo = { name: "off_state", label: "Off", unit: "", kind: "enum", required: false, options: ["absorptive", "reflective"], help: "" };
+
+  it("evaluates, checks the range and leaves optional empty fields out", () => {
+    expect(readParamInput(length, "35 cm", new Map())).toMatchObject({ ok: true, value: 0.35 });
+    expect(readParamInput(length, "-1 m", new Map()).ok).toBe(false);
+    expect(readParamInput(length, "", new Map()).ok).toBe(false);
+    expect(readParamInput(vf, "", new Map())).toMatchObject({ ok: true, value: undefined });
+    expect(readParamInput(vf, "1.2", new Map()).ok).toBe(false);
+    expect(readParamInput(vf, "0", new Map()).ok).toBe(false);
+  });
+
+  it("accepts ∞ only where the catalogue allows it, and enum options only", () => {
+    expect(readParamInput(iso, "∞", new Map())).toMatchObject({ ok: true, value: null });
+    expect(readParamInput(length, "inf", new Map()).ok).toBe(false);
+    expect(readParamInput(off, "reflective", new Map())).toMatchObject({ ok: true, value: "reflective" });
+    expect(readParamInput(off, "open", new Map()).ok).toBe(false);
+  });
+
+  it("round-trips stored values to field text", () => {
+    expect(valueToText([25, -10])).toBe("25 - 10i");
+    expect(readParamInput({ ...length, name: "impedance", kind: "complex", unit: "Ω", min: 0 }, valueToText([25, -10]), new Map())).toMatchObject({ value: [25, -10] });
+    expect(valueToText(null)).toBe("∞");
   });
 });
