@@ -67,7 +67,7 @@ export function interpolateS(s: SData, from: Float64Array, to: Float64Array, opt
     throw new EngineInputError(
       name,
       `the frequency plan spans ${formatHz(planMin)} to ${formatHz(planMax)} but part "${name}" has data only from ` +
-        `${formatHz(lo)} to ${formatHz(hi)} (${below} plan points below, ${above} above); ` +
+        `${formatHz(lo)} to ${formatHz(hi)} (plan points: ${below} below, ${above} above); ` +
         `extend the data, narrow the plan, or allow holding the edge values (extrapolate: "hold")`,
     );
   }
