@@ -32,7 +32,7 @@ export function AppHeader({ user, signOutAction, showOutbox, actions, hrefs }: A
   }
 
   return (
-    <header className="sticky top-0 z-40 border-b border-rule bg-paper/92 backdrop-blur-sm">
+    <header className="sticky top-0 z-40 border-b border-rule bg-paper">
       <a
         href={`#${MAIN_CONTENT_ID}`}
         className="sr-only focus:not-sr-only focus:absolute focus:top-2 focus:left-2 focus:z-50 focus:rounded-md focus:bg-ink focus:px-3 focus:py-2 focus:text-sm focus:text-on-ink"
