@@ -32,8 +32,8 @@ export function worstVerdict(verdicts: Verdict[]): Verdict {
  * - every rule (evaluateRule);
  * - the power ledger of every system port (closure within 1e-9);
  * - passivity and reciprocity of every block and of the composite where expected (dataQuality);
- * - stability of every amplifier block and of a two-port composite (verdict "warn" when only conditionally
- *   stable, since the terminations decide).
+ * - stability of every amplifier block, and of a two-port composite that holds one (verdict "warn" when
+ *   only conditionally stable, since the terminations decide).
  *
  * @param scenario the scenario (its rules are run)
  * @param prepared the prepared system (solution.system when solved from it)
@@ -46,7 +46,7 @@ export function runAllChecks(scenario: Scenario, prepared: PreparedSystem, solut
   const rules = evaluateRules(solution, scenario.rules ?? []);
   const ledgers = solution.ports.map((p) => powerLedger(solution, p));
   const quality = dataQuality(solution);
-  const stability = stabilityCheck(solution);
+  const stability = stabilityCheck(solution, { composite: "active" });
   const checks: CheckSummary[] = [];
   for (const r of rules) checks.push({ name: `rule:${r.id}`, title: `${r.kind} ${r.direction ?? ""}`.trim(), verdict: r.verdict, messages: r.messages });
   for (const l of ledgers) checks.push({ name: `ledger:${l.port}`, title: `power ledger closure from ${l.port}`, verdict: l.verdict, messages: l.messages });

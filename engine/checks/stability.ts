@@ -101,14 +101,18 @@ export function stabilityOfStack(subject: string, s: SData, frequencies: ArrayLi
 /**
  * Stability of every amplifier block and, when the system has exactly two ports, of the composite.
  * @param solution solved composite
- * @returns one StabilityResult per amplifier block (subject = block id), then "composite" if two-port
+ * @param opts composite: "always" (default) includes a two-port composite; "active" only when the system
+ *   holds a block that is not passive (a passive composite is stable with any passive terminations, and a
+ *   lossless one sits at K = 1, which would read as a false alarm)
+ * @returns one StabilityResult per amplifier block (subject = block id), then "composite" if included
  * @example stabilityCheck(sol).map((r) => r.verdict)
  */
-export function stabilityCheck(solution: Solution): StabilityResult[] {
+export function stabilityCheck(solution: Solution, opts: { composite?: "always" | "active" } = {}): StabilityResult[] {
   const out: StabilityResult[] = [];
   for (const b of solution.system.blocks) {
     if (b.kind === "amplifier" && b.s.n === 2) out.push(stabilityOfStack(b.id, b.s, solution.frequencies));
   }
-  if (solution.s.n === 2) out.push(stabilityOfStack("composite", solution.s, solution.frequencies));
+  const active = solution.system.blocks.some((b) => !b.traits.passive && b.kind !== "touchstone");
+  if (solution.s.n === 2 && (opts.composite !== "active" || active)) out.push(stabilityOfStack("composite", solution.s, solution.frequencies));
   return out;
 }
