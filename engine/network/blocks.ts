@@ -28,8 +28,11 @@ export function resolveBlockS(sys: PreparedSystem, replace?: Record<string, SDat
       throw new EngineInputError(`blocks.${blk.id}`, `S has shape ${s.n} ports × ${s.nf} frequencies (data length ${s.data.length}); expected ${expectedN} × ${nf}`);
     }
     const d = s.data;
-    for (let j = 0; j < d.length; j++) {
-      if (!Number.isFinite(d[j])) throw new EngineInputError(`blocks.${blk.id}`, `S holds a non-finite value at frequency index ${Math.floor(j / (2 * s.n * s.n))}`);
+    let probe = 0;
+    for (let j = 0; j < d.length; j++) probe += d[j] * 0; // NaN as soon as one value is ±Infinity or NaN
+    if (probe !== 0) {
+      const j = d.findIndex((v) => !Number.isFinite(v));
+      throw new EngineInputError(`blocks.${blk.id}`, `S holds a non-finite value at frequency index ${Math.floor(j / (2 * s.n * s.n))}`);
     }
   });
   return out;

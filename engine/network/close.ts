@@ -4,7 +4,7 @@
 //   (Γ − S_ιι) a_ι = S_ιε a_ε,   S' = S_εε + S_ει (Γ − S_ιι)⁻¹ S_ιε.
 
 import { conditionEstimate1, luFactorUnchecked, luSolve, norm1 } from "../linalg";
-import { SINGULAR_JOIN, type ConditionTrack } from "./join";
+import { SINGULAR_JOIN, scratchOf, type ConditionTrack, type StackOffsets } from "./join";
 import type { CloseStep } from "./plan";
 
 /**
@@ -16,23 +16,25 @@ import type { CloseStep } from "./plan";
  * @param a stack of the sub-network (nA×nA per frequency)
  * @param step the planned close step
  * @param nf frequency count
- * @param cond receives the worst condition estimate and its frequency index
+ * @param cond receives the worst condition estimate and its frequency index (within the range)
+ * @param off start of each stack in its array (b unused)
  * @returns −1 on success, else the first frequency index where the system is singular
  * @example closeStack(out, null, a, 3, step, nf, new Float64Array(2)) // −1
  */
-export function closeStack(out: Float64Array, map: Float64Array | null, a: Float64Array, nA: number, step: CloseStep, nf: number, cond: ConditionTrack): number {
+export function closeStack(out: Float64Array, map: Float64Array | null, a: Float64Array, nA: number, step: CloseStep, nf: number, cond: ConditionTrack, off: StackOffsets = { out: 0, map: 0, a: 0, b: 0 }): number {
   const { keep, linked, partner } = step;
   const ni = linked.length;
   const ne = keep.length;
-  const g = new Float64Array(2 * ni * ni);
-  const w = new Float64Array(2 * ni * ne);
+  const sc = scratchOf(2 * ni * ni + 2 * ni * ne + 4 * ni);
+  const g = sc.subarray(0, 2 * ni * ni);
+  const w = sc.subarray(2 * ni * ni, 2 * ni * ni + 2 * ni * ne);
+  const work = sc.subarray(2 * ni * ni + 2 * ni * ne, 2 * ni * ni + 2 * ni * ne + 4 * ni);
   const piv = new Int32Array(ni);
-  const work = new Float64Array(4 * ni);
   const sA = 2 * nA * nA;
   const sC = 2 * ne * ne;
   for (let f = 0; f < nf; f++) {
-    const ao = f * sA;
-    const co = f * sC;
+    const ao = off.a + f * sA;
+    const co = off.out + f * sC;
     for (let i = 0; i < ni; i++) {
       for (let j = 0; j < ni; j++) {
         const idx = ao + 2 * (linked[i] * nA + linked[j]);
@@ -72,7 +74,10 @@ export function closeStack(out: Float64Array, map: Float64Array | null, a: Float
         out[oi + 2 * j + 1] = si;
       }
     }
-    if (map) map.set(w, f * 2 * ni * ne);
+    if (map) {
+      const mo = off.map + f * 2 * ni * ne;
+      for (let j = 0; j < 2 * ni * ne; j++) map[mo + j] = w[j];
+    }
   }
   return -1;
 }

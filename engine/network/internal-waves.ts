@@ -48,13 +48,12 @@ function fillGrowth(a: Float64Array, st: GrowthWaveState, incident: Float64Array
     }
     for (let s = steps.length - 1; s >= 0; s--) {
       const step = steps[s];
-      const map = st.maps[s];
-      if (!map) throw new EngineInputError("solution", "internal waves need a solution solved with waves kept");
+      const map = st.maps;
       const inner = step.inner;
       const ports = step.ports;
       const nC = ports.length;
       const R = inner.length;
-      const mo = 2 * f * R * nC;
+      const mo = st.mapOffset[s] + 2 * f * R * nC;
       for (let r = 0; r < R; r++) {
         let sr = 0;
         let si = 0;

@@ -11,6 +11,17 @@ import type { JoinStep } from "./plan";
 /** Worst condition seen by a kernel: [estimate, frequency index]. */
 export type ConditionTrack = Float64Array;
 
+/** Where each stack starts (element index of frequency 0 of the range): out, map, a, b. */
+export type StackOffsets = { out: number; map: number; a: number; b: number };
+const NO_OFFSETS: StackOffsets = { out: 0, map: 0, a: 0, b: 0 };
+
+let scratch = new Float64Array(1024);
+/** A module-level scratch area (kernels never nest), grown on demand. */
+export function scratchOf(length: number): Float64Array {
+  if (scratch.length < length) scratch = new Float64Array(Math.max(length, 2 * scratch.length));
+  return scratch;
+}
+
 /** Above this estimate a join is reported as singular. */
 export const SINGULAR_JOIN = 2 ** 52 / 64;
 
@@ -25,8 +36,9 @@ export const SINGULAR_JOIN = 2 ** 52 / 64;
  * @param b stack of B (nB×nB per frequency)
  * @param step the planned join (positions of kept and linked ports)
  * @param nf frequency count
- * @param cond receives the worst condition estimate and its frequency index
- * @returns −1 on success, else the first frequency index where the join is singular
+ * @param cond receives the worst condition estimate and its frequency index (within the range)
+ * @param offsets start of each stack in its array (to run a range of frequencies in place)
+ * @returns −1 on success, else the first frequency index (within the range) where the join is singular
  * @example joinStack(out, null, a, 2, b, 2, step, nf, new Float64Array(2)) // −1
  */
 export function joinStack(
@@ -39,13 +51,14 @@ export function joinStack(
   step: JoinStep,
   nf: number,
   cond: ConditionTrack,
+  offsets: StackOffsets = NO_OFFSETS,
 ): number {
   const m = step.aLink.length;
-  if (m === 1) return joinOne(out, map, a, nA, b, nB, step, nf, cond);
-  return joinMany(out, map, a, nA, b, nB, step, nf, cond);
+  if (m === 1) return joinOne(out, map, a, nA, b, nB, step, nf, cond, offsets);
+  return joinMany(out, map, a, nA, b, nB, step, nf, cond, offsets);
 }
 
-function joinOne(out: Float64Array, map: Float64Array | null, A: Float64Array, nA: number, B: Float64Array, nB: number, step: JoinStep, nf: number, cond: ConditionTrack): number {
+function joinOne(out: Float64Array, map: Float64Array | null, A: Float64Array, nA: number, B: Float64Array, nB: number, step: JoinStep, nf: number, cond: ConditionTrack, off: StackOffsets): number {
   const aKeep = step.aKeep;
   const bKeep = step.bKeep;
   const na = aKeep.length;
@@ -53,15 +66,16 @@ function joinOne(out: Float64Array, map: Float64Array | null, A: Float64Array, n
   const nC = na + nb;
   const k = step.aLink[0];
   const l = step.bLink[0];
-  const xs = new Float64Array(2 * nC);
-  const ys = new Float64Array(2 * nC);
+  const sc = scratchOf(4 * nC);
+  const xs = sc.subarray(0, 2 * nC);
+  const ys = sc.subarray(2 * nC, 4 * nC);
   const sA = 2 * nA * nA;
   const sB = 2 * nB * nB;
   const sC = 2 * nC * nC;
   for (let f = 0; f < nf; f++) {
-    const ao = f * sA;
-    const bo = f * sB;
-    const co = f * sC;
+    const ao = off.a + f * sA;
+    const bo = off.b + f * sB;
+    const co = off.out + f * sC;
     const akr = A[ao + 2 * (k * nA + k)];
     const aki = A[ao + 2 * (k * nA + k) + 1];
     const blr = B[bo + 2 * (l * nB + l)];
@@ -153,34 +167,40 @@ function joinOne(out: Float64Array, map: Float64Array | null, A: Float64Array, n
       }
     }
     if (map) {
-      const mo = f * 4 * nC;
-      map.set(ys, mo);
-      map.set(xs, mo + 2 * nC);
+      // element-wise copy: TypedArray.set on tiny views costs more than the arithmetic here
+      const mo = off.map + f * 4 * nC;
+      const n2 = 2 * nC;
+      for (let j = 0; j < n2; j++) {
+        map[mo + j] = ys[j];
+        map[mo + n2 + j] = xs[j];
+      }
     }
   }
   return -1;
 }
 
-function joinMany(out: Float64Array, map: Float64Array | null, A: Float64Array, nA: number, B: Float64Array, nB: number, step: JoinStep, nf: number, cond: ConditionTrack): number {
+function joinMany(out: Float64Array, map: Float64Array | null, A: Float64Array, nA: number, B: Float64Array, nB: number, step: JoinStep, nf: number, cond: ConditionTrack, off: StackOffsets): number {
   const { aKeep, aLink, bKeep, bLink } = step;
   const m = aLink.length;
   const na = aKeep.length;
   const nb = bKeep.length;
   const nC = na + nb;
-  const akk = new Float64Array(2 * m * m);
-  const bll = new Float64Array(2 * m * m);
-  const mm = new Float64Array(2 * m * m);
+  const mm2 = 2 * m * m;
+  const sc = scratchOf(3 * mm2 + 4 * m + 4 * m * nC);
+  const akk = sc.subarray(0, mm2);
+  const bll = sc.subarray(mm2, 2 * mm2);
+  const mm = sc.subarray(2 * mm2, 3 * mm2);
+  const work = sc.subarray(3 * mm2, 3 * mm2 + 4 * m);
+  const x = sc.subarray(3 * mm2 + 4 * m, 3 * mm2 + 4 * m + 2 * m * nC);
+  const y = sc.subarray(3 * mm2 + 4 * m + 2 * m * nC, 3 * mm2 + 4 * m + 4 * m * nC);
   const piv = new Int32Array(m);
-  const work = new Float64Array(4 * m);
-  const x = new Float64Array(2 * m * nC);
-  const y = new Float64Array(2 * m * nC);
   const sA = 2 * nA * nA;
   const sB = 2 * nB * nB;
   const sC = 2 * nC * nC;
   for (let f = 0; f < nf; f++) {
-    const ao = f * sA;
-    const bo = f * sB;
-    const co = f * sC;
+    const ao = off.a + f * sA;
+    const bo = off.b + f * sB;
+    const co = off.out + f * sC;
     for (let i = 0; i < m; i++) {
       for (let j = 0; j < m; j++) {
         akk[2 * (i * m + j)] = A[ao + 2 * (aLink[i] * nA + aLink[j])];
@@ -311,9 +331,12 @@ function joinMany(out: Float64Array, map: Float64Array | null, A: Float64Array, 
       }
     }
     if (map) {
-      const mo = f * 4 * m * nC;
-      map.set(y, mo);
-      map.set(x, mo + 2 * m * nC);
+      const mo = off.map + f * 4 * m * nC;
+      const n2 = 2 * m * nC;
+      for (let j = 0; j < n2; j++) {
+        map[mo + j] = y[j];
+        map[mo + n2 + j] = x[j];
+      }
     }
   }
   return -1;

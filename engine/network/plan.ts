@@ -76,7 +76,8 @@ type Candidate = { size: number; sum: number; a: number; b: number; seq: number 
 function better(x: Candidate, y: Candidate): boolean {
   if (x.size !== y.size) return x.size < y.size;
   if (x.sum !== y.sum) return x.sum < y.sum;
-  return x.seq < y.seq;
+  // newest first: keeps growing the sub-network just made (depth-first), so few are alive at once
+  return x.seq > y.seq;
 }
 
 class Heap {

@@ -58,89 +58,155 @@ export function solveSystem(sys: PreparedSystem, opts: SolveOptions = {}): Solut
   const blockS = resolveBlockS(sys, opts.replace);
   const nf = sys.frequencies.length;
   const keepWaves = opts.waves !== false;
-  const nClusters = plan.leaves.length + plan.steps.length;
-  const bufs: (Float64Array | null)[] = new Array(nClusters).fill(null);
+  const { leaves, steps } = plan;
+  const nLeaves = leaves.length;
+  const nClusters = nLeaves + steps.length;
   const sizes = new Int32Array(nClusters);
+  let maxN = 1;
+  leaves.forEach((leaf, id) => (sizes[id] = leaf.keep.length));
+  for (const step of steps) sizes[step.c] = step.ports.length;
+  for (let i = 0; i < nClusters; i++) maxN = Math.max(maxN, sizes[i]);
+  // frequencies run in chunks so that the working set of intermediate sub-networks stays in cache
+  const chunk = Math.max(1, Math.min(nf, Math.floor(16384 / (maxN * maxN))));
 
-  plan.leaves.forEach((leaf, id) => {
-    const n = leaf.keep.length;
-    sizes[id] = n;
-    const buf = new Float64Array(2 * nf * n * n);
-    if (leaf.block >= 0) {
-      const s = blockS[leaf.block];
-      const N = s.n;
-      const d = s.data;
-      const keep = leaf.keep;
-      for (let f = 0; f < nf; f++) {
-        const so = 2 * f * N * N;
-        const o = 2 * f * n * n;
-        for (let i = 0; i < n; i++) {
-          const ri = so + 2 * keep[i] * N;
-          for (let j = 0; j < n; j++) {
-            buf[o + 2 * (i * n + j)] = d[ri + 2 * keep[j]];
-            buf[o + 2 * (i * n + j) + 1] = d[ri + 2 * keep[j] + 1];
-          }
-        }
-      }
-    } else {
-      const m = -1 - leaf.block;
-      const rho = plan.rho[m];
-      const t = plan.t[m];
-      for (let f = 0; f < nf; f++) {
-        buf[8 * f] = rho;
-        buf[8 * f + 2] = t;
-        buf[8 * f + 4] = t;
-        buf[8 * f + 6] = -rho;
-      }
-    }
-    bufs[id] = buf;
+  const mapOffset = new Int32Array(steps.length); // integer offsets keep index arithmetic in small integers
+  let mapTotal = 0;
+  steps.forEach((step, i) => {
+    mapOffset[i] = mapTotal;
+    mapTotal += 2 * nf * step.inner.length * step.ports.length;
   });
+  const maps = keepWaves ? new Float64Array(mapTotal) : null;
 
-  const warnings = [...sys.warnings];
-  const maps: (Float64Array | null)[] = [];
+  // a leaf that keeps every port of its block reads the block's data in place
+  const direct = leaves.map((leaf) => leaf.block >= 0 && leaf.keep.length === blockS[leaf.block].n);
+  const pool = new Map<number, Float64Array[]>();
+  const take = (n: number): Float64Array => {
+    const len = 2 * chunk * n * n;
+    const free = pool.get(len);
+    return free && free.length > 0 ? (free.pop() as Float64Array) : new Float64Array(len);
+  };
+  const give = (buf: Float64Array) => {
+    const free = pool.get(buf.length);
+    if (free) free.push(buf);
+    else pool.set(buf.length, [buf]);
+  };
+  const bufs: (Float64Array | null)[] = new Array(nClusters).fill(null);
+  const bufOff = new Int32Array(nClusters);
+  const owned = new Uint8Array(nClusters);
+  const condWorst = new Float64Array(steps.length);
+  const condAt = new Int32Array(steps.length);
   const cond = new Float64Array(2);
-  for (const step of plan.steps) {
-    const nC = step.ports.length;
-    sizes[step.c] = nC;
-    const out = new Float64Array(2 * nf * nC * nC);
-    const map = keepWaves ? new Float64Array(2 * nf * step.inner.length * nC) : null;
-    cond[0] = 0;
-    cond[1] = 0;
-    let bad: number;
-    if (step.kind === "join") {
-      bad = joinStack(out, map, bufs[step.a] as Float64Array, sizes[step.a], bufs[step.b] as Float64Array, sizes[step.b], step, nf, cond);
-      bufs[step.b] = null;
-    } else {
-      bad = closeStack(out, map, bufs[step.a] as Float64Array, sizes[step.a], step, nf, cond);
-    }
-    bufs[step.a] = null;
-    if (bad >= 0) {
-      const f = sys.frequencies[bad];
-      throw new SingularSystemError(`the interconnection is singular at ${formatHz(f)} (a lossless resonance or an unstable loop) through links ${step.links.join(", ")}`, step.links, f);
-    }
-    if (cond[0] > ILL_CONDITIONED) {
-      warnings.push(`ill-conditioned interconnection through links ${step.links.join(", ")}: condition estimate ${cond[0].toExponential(1)} at ${formatHz(sys.frequencies[cond[1]])}; results there may lose about ${Math.round(Math.log10(cond[0]))} significant digits`);
-    }
-    bufs[step.c] = out;
-    maps.push(map);
-  }
-
+  const offsets = { out: 0, map: 0, a: 0, b: 0 };
   const E = sys.systemPorts.length;
   const data = new Float64Array(2 * nf * E * E);
-  for (let i = 0; i < E; i++) {
-    for (let j = 0; j < E; j++) {
-      const c = plan.outCluster[i];
-      if (plan.outCluster[j] !== c) continue;
-      const buf = bufs[c] as Float64Array;
-      const n = sizes[c];
-      const pi = plan.outPos[i];
-      const pj = plan.outPos[j];
-      for (let f = 0; f < nf; f++) {
-        data[2 * ((f * E + i) * E + j)] = buf[2 * ((f * n + pi) * n + pj)];
-        data[2 * ((f * E + i) * E + j) + 1] = buf[2 * ((f * n + pi) * n + pj) + 1];
+
+  for (let f0 = 0; f0 < nf; f0 += chunk) {
+    const nfc = Math.min(chunk, nf - f0);
+    for (let id = 0; id < nLeaves; id++) {
+      const leaf = leaves[id];
+      const n = sizes[id];
+      if (direct[id]) {
+        bufs[id] = blockS[leaf.block].data;
+        bufOff[id] = 2 * f0 * n * n;
+        owned[id] = 0;
+        continue;
+      }
+      const buf = take(n);
+      bufs[id] = buf;
+      bufOff[id] = 0;
+      owned[id] = 1;
+      if (leaf.block >= 0) {
+        const s = blockS[leaf.block];
+        const N = s.n;
+        const d = s.data;
+        const keep = leaf.keep;
+        for (let f = 0; f < nfc; f++) {
+          const so = 2 * (f0 + f) * N * N;
+          const o = 2 * f * n * n;
+          for (let i = 0; i < n; i++) {
+            const ri = so + 2 * keep[i] * N;
+            for (let j = 0; j < n; j++) {
+              buf[o + 2 * (i * n + j)] = d[ri + 2 * keep[j]];
+              buf[o + 2 * (i * n + j) + 1] = d[ri + 2 * keep[j] + 1];
+            }
+          }
+        }
+      } else {
+        const m = -1 - leaf.block;
+        const rho = plan.rho[m];
+        const t = plan.t[m];
+        for (let f = 0; f < nfc; f++) {
+          buf[8 * f] = rho;
+          buf[8 * f + 1] = 0;
+          buf[8 * f + 2] = t;
+          buf[8 * f + 3] = 0;
+          buf[8 * f + 4] = t;
+          buf[8 * f + 5] = 0;
+          buf[8 * f + 6] = -rho;
+          buf[8 * f + 7] = 0;
+        }
       }
     }
+    for (let si = 0; si < steps.length; si++) {
+      const step = steps[si];
+      const out = take(sizes[step.c]);
+      offsets.out = 0;
+      offsets.map = mapOffset[si] + 2 * f0 * step.inner.length * step.ports.length;
+      offsets.a = bufOff[step.a];
+      cond[0] = 0;
+      cond[1] = 0;
+      let bad: number;
+      if (step.kind === "join") {
+        offsets.b = bufOff[step.b];
+        bad = joinStack(out, maps, bufs[step.a] as Float64Array, sizes[step.a], bufs[step.b] as Float64Array, sizes[step.b], step, nfc, cond, offsets);
+        if (owned[step.b]) give(bufs[step.b] as Float64Array);
+        bufs[step.b] = null;
+      } else {
+        bad = closeStack(out, maps, bufs[step.a] as Float64Array, sizes[step.a], step, nfc, cond, offsets);
+      }
+      if (owned[step.a]) give(bufs[step.a] as Float64Array);
+      bufs[step.a] = null;
+      if (bad >= 0) {
+        const f = sys.frequencies[f0 + bad];
+        throw new SingularSystemError(`the interconnection is singular at ${formatHz(f)} (a lossless resonance or an unstable loop) through links ${step.links.join(", ")}`, step.links, f);
+      }
+      if (cond[0] > condWorst[si]) {
+        condWorst[si] = cond[0];
+        condAt[si] = f0 + cond[1];
+      }
+      bufs[step.c] = out;
+      bufOff[step.c] = 0;
+      owned[step.c] = 1;
+    }
+    for (let i = 0; i < E; i++) {
+      const c = plan.outCluster[i];
+      const buf = bufs[c] as Float64Array;
+      const bo = bufOff[c];
+      const n = sizes[c];
+      const pi = plan.outPos[i];
+      for (let j = 0; j < E; j++) {
+        if (plan.outCluster[j] !== c) continue;
+        const pj = plan.outPos[j];
+        for (let f = 0; f < nfc; f++) {
+          const src = bo + 2 * ((f * n + pi) * n + pj);
+          const dst = 2 * (((f0 + f) * E + i) * E + j);
+          data[dst] = buf[src];
+          data[dst + 1] = buf[src + 1];
+        }
+      }
+    }
+    for (let id = 0; id < nClusters; id++) {
+      if (bufs[id] && owned[id]) give(bufs[id] as Float64Array);
+      bufs[id] = null;
+    }
   }
+
+  const warnings = [...sys.warnings];
+  steps.forEach((step, si) => {
+    if (condWorst[si] > ILL_CONDITIONED) {
+      warnings.push(`ill-conditioned interconnection through links ${step.links.join(", ")}: condition estimate ${condWorst[si].toExponential(1)} at ${formatHz(sys.frequencies[condAt[si]])}; results there may lose about ${Math.round(Math.log10(condWorst[si]))} significant digits`);
+    }
+  });
   const sol: Solution = {
     system: sys,
     frequencies: sys.frequencies,
@@ -150,6 +216,6 @@ export function solveSystem(sys: PreparedSystem, opts: SolveOptions = {}): Solut
     warnings,
     solveMs: performance.now() - t0,
   };
-  if (keepWaves) waveStates.set(sol, { kind: "growth", plan, maps, blockS });
+  if (maps) waveStates.set(sol, { kind: "growth", plan, maps, mapOffset, blockS });
   return sol;
 }

@@ -6,8 +6,9 @@ import type { Plan } from "./plan";
 export type GrowthWaveState = {
   kind: "growth";
   plan: Plan;
-  /** per step, the wave map stack (rows: step.inner, columns: step.ports), or null when not kept */
-  maps: (Float64Array | null)[];
+  /** all wave maps; step i's stack (rows: step.inner, columns: step.ports, per frequency) starts at mapOffset[i] */
+  maps: Float64Array;
+  mapOffset: Int32Array;
   /** S used for each block (after replacements) */
   blockS: SData[];
 };

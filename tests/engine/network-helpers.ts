@@ -1,6 +1,7 @@
 // Test helpers for the interconnection: PreparedSystem objects built directly from small S matrices,
 // seeded random S (general, passive, reciprocal, lossless) and comparisons.
 
+import { spawnSync } from "node:child_process";
 import type { EvaluatedBlock, PreparedSystem, SData } from "../../engine/types";
 
 export type BlockDef = { id: string; s: SData };
@@ -166,4 +167,132 @@ export function maxDiff(x: Float64Array, y: Float64Array): number {
     if (!(d <= worst)) worst = Number.isNaN(d) ? Infinity : d;
   }
   return worst;
+}
+
+/**
+ * Run a Python script with Debian's /usr/bin/python3 (numpy, scikit-rf 0.15.4). The script reads JSON
+ * from stdin as `data` and must print JSON. Complex arrays travel as interleaved re/im lists; in Python
+ * `cx(list)` turns one into a complex numpy vector.
+ */
+export function runPython<T>(script: string, input: unknown): T {
+  const prelude = [
+    "import sys, json",
+    "import numpy as np",
+    "np.complex = complex; np.float = float; np.int = int",
+    "data = json.load(sys.stdin)",
+    "def cx(v): return np.array(v, dtype=float).view(complex)",
+    "def flat(a): return np.ascontiguousarray(np.asarray(a, dtype=complex)).view(float).ravel().tolist()",
+    "",
+  ].join("\n");
+  const env = { ...process.env, MPLBACKEND: "Agg", MPLCONFIGDIR: "/tmp" };
+  const r = spawnSync("/usr/bin/python3", ["-c", prelude + script], { input: JSON.stringify(input), encoding: "utf8", maxBuffer: 1 << 28, env });
+  if (r.status !== 0) throw new Error(`python failed: ${r.stderr}`);
+  // the library may print notices before our JSON: the answer is the last line
+  const lines = r.stdout.trim().split("\n");
+  return JSON.parse(lines[lines.length - 1]) as T;
+}
+
+export type BlockFlavour = "general" | "passive" | "reciprocal" | "lossless" | "lossless-reciprocal";
+
+/** Random S of the given flavour (passive ones scaled so that σ_max ≤ 0.99 at every frequency). */
+export function randomBlockS(r: () => number, n: number, nf: number, flavour: BlockFlavour): SData {
+  if (flavour === "lossless") return randomUnitary(r, n, nf);
+  if (flavour === "lossless-reciprocal") return randomUnitary(r, n, nf, true);
+  const s = randomS(r, n, nf, flavour === "general" ? 0.45 : 1);
+  if (flavour === "general") return s;
+  const t = flavour === "reciprocal" ? symmetrise(s) : s;
+  for (let k = 0; k < nf; k++) {
+    const block = t.data.subarray(2 * k * n * n, 2 * (k + 1) * n * n);
+    const smax = largestSingular(block, n);
+    const target = 0.2 + 0.79 * r();
+    for (let i = 0; i < block.length; i++) block[i] *= target / smax;
+  }
+  return t;
+}
+
+/** σ_max by power iteration on MᴴM (test-side, independent of engine/linalg). */
+function largestSingular(m: Float64Array, n: number): number {
+  let v = Array.from({ length: 2 * n }, (_, i) => (i % 2 === 0 ? 1 + i / n : 0.3));
+  let lambda = 0;
+  for (let it = 0; it < 500; it++) {
+    const w = new Array(2 * n).fill(0);
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++) {
+        const ar = m[2 * (i * n + j)];
+        const ai = m[2 * (i * n + j) + 1];
+        w[2 * i] += ar * v[2 * j] - ai * v[2 * j + 1];
+        w[2 * i + 1] += ar * v[2 * j + 1] + ai * v[2 * j];
+      }
+    const u = new Array(2 * n).fill(0);
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++) {
+        const ar = m[2 * (j * n + i)];
+        const ai = -m[2 * (j * n + i) + 1];
+        u[2 * i] += ar * w[2 * j] - ai * w[2 * j + 1];
+        u[2 * i + 1] += ar * w[2 * j + 1] + ai * w[2 * j];
+      }
+    const norm = Math.sqrt(u.reduce((s, x) => s + x * x, 0));
+    const next = Math.sqrt(norm / Math.sqrt(v.reduce((s, x) => s + x * x, 0)));
+    v = u.map((x) => x / norm);
+    if (Math.abs(next - lambda) < 1e-15 * next) return next;
+    lambda = next;
+  }
+  return lambda;
+}
+
+export type TopologyOptions = {
+  blocks: number;
+  maxPorts: number;
+  /** extra links beyond a spanning tree (each may close a loop, or link two ports of one block) */
+  extraLinks: number;
+  flavour: BlockFlavour;
+  /** leave some ports unlinked (matched) instead of making every free port a system port */
+  unterminated: boolean;
+  nf: number;
+  /** own Z0 of each system port drawn from this list (default: all 50 Ω) */
+  portZ0?: number[];
+};
+
+/** A random connected topology (spanning tree plus extra links, so loops and self links occur). */
+export function randomTopology(r: () => number, o: TopologyOptions): SystemDef {
+  const pick = <T>(xs: T[]): T => xs[Math.floor(r() * xs.length)];
+  const blocks: BlockDef[] = [];
+  const free: string[][] = [];
+  for (let i = 0; i < o.blocks; i++) {
+    const n = 1 + Math.floor(r() * o.maxPorts);
+    const nPorts = i === 0 ? Math.max(n, 2) : n;
+    blocks.push({ id: `B${i}`, s: randomBlockS(r, nPorts, o.nf, o.flavour) });
+    free.push(Array.from({ length: nPorts }, (_, j) => `B${i}:${j + 1}`));
+  }
+  const links: [string, string][] = [];
+  const take = (i: number): string => free[i].splice(Math.floor(r() * free[i].length), 1)[0];
+  for (let i = 1; i < o.blocks; i++) {
+    const candidates = Array.from({ length: i }, (_, j) => j).filter((j) => free[j].length > 0);
+    if (candidates.length === 0 || free[i].length === 0) continue;
+    const j = pick(candidates);
+    links.push([take(j), take(i)]);
+  }
+  for (let e = 0; e < o.extraLinks; e++) {
+    const withFree = free.map((f, i) => (f.length > 0 ? i : -1)).filter((i) => i >= 0);
+    if (withFree.length === 0) break;
+    const i = pick(withFree);
+    const p = take(i);
+    const rest = free.map((f, j) => (f.length > 0 ? j : -1)).filter((j) => j >= 0);
+    if (rest.length === 0) {
+      free[i].push(p);
+      break;
+    }
+    links.push([p, take(pick(rest))]);
+  }
+  const remaining = free.flat();
+  const ports: SystemDef["ports"] = [];
+  remaining.forEach((p, i) => {
+    if (i === 0 || !o.unterminated || r() < 0.5) ports.push({ name: `P${ports.length + 1}`, at: p, z0: o.portZ0 ? pick(o.portZ0) : undefined });
+  });
+  if (ports.length === 0) {
+    // every port got linked: free one link end up as a system port by unlinking the last link
+    const [p, q] = links.pop() as [string, string];
+    ports.push({ name: "P1", at: p }, { name: "P2", at: q });
+  }
+  return { blocks, links, ports };
 }
