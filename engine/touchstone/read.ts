@@ -362,6 +362,8 @@ class Reader {
         once("format");
         this.format = t.toUpperCase() as DataFormat;
       } else if (t === "r") {
+        // One value (1.1 and 2.0), or one per port in a 1.1 file: the Touchstone 2.1 specification shows that form
+        // as Version 1.1 syntax in its examples (from a public reader's copy of those examples).
         once("reference resistance");
         const rs: number[] = [];
         while (i + 1 < toks.length) {

@@ -147,6 +147,37 @@ describe("renormalize() against closed forms", () => {
   });
 });
 
+describe("renormalize() against conversion through Z (networks that have one)", () => {
+  it("a non-reciprocal 2-port 50 → 75 Ω equals S → Z at 50 Ω → S at 75 Ω by Pozar's conversion table", () => {
+    // Pozar, Microwave Engineering, 4th ed., Table 4.2 (2-port S ↔ Z for equal real Z0 at both ports).
+    const s11: C = [0.2, -0.1];
+    const s12: C = [0.05, 0.3];
+    const s21: C = [0.7, -0.2];
+    const s22: C = [-0.3, 0.25];
+    const one: C = [1, 0];
+    const z0 = 50;
+    const zp = 75;
+    const dS = sub(mul(sub(one, s11), sub(one, s22)), mul(s12, s21));
+    const k = (c: C, x: number): C => [c[0] * x, c[1] * x];
+    const z11 = div(k(add(mul(add(one, s11), sub(one, s22)), mul(s12, s21)), z0), dS);
+    const z12 = div(k(s12, 2 * z0), dS);
+    const z21 = div(k(s21, 2 * z0), dS);
+    const z22 = div(k(add(mul(sub(one, s11), add(one, s22)), mul(s12, s21)), z0), dS);
+    const Z: C = [zp, 0];
+    const dZ = sub(mul(add(z11, Z), add(z22, Z)), mul(z12, z21));
+    const want = [
+      div(sub(mul(sub(z11, Z), add(z22, Z)), mul(z12, z21)), dZ),
+      div(k(z12, 2 * zp), dZ),
+      div(k(z21, 2 * zp), dZ),
+      div(sub(mul(add(z11, Z), sub(z22, Z)), mul(z12, z21)), dZ),
+    ].flat();
+    const s: SData = { n: 2, nf: 1, data: new Float64Array([...s11, ...s12, ...s21, ...s22]) };
+    for (const kind of ["power", "pseudo"] as const) {
+      expect(maxDiff(renormalize(null, s, z0Vector(z0, 2), z0Vector(zp, 2), kind).data, Float64Array.from(want))).toBeLessThan(1e-14);
+    }
+  });
+});
+
 describe("renormalize() identities", () => {
   it("50 → 75 → 50 returns the original to 1e-12, for networks with and without a Z matrix", () => {
     const through: SData = { n: 2, nf: 1, data: new Float64Array([0, 0, 1, 0, 1, 0, 0, 0]) };
