@@ -136,3 +136,22 @@ export function nearestFrequencyIndex(frequencies: Float64Array, hz: number): nu
   }
   return best;
 }
+
+/** What a trace shows of S_ij. */
+export type TraceQuantity = "db" | "phase" | "delay";
+
+export const TRACE_UNITS: Record<TraceQuantity, string> = { db: "dB", phase: "deg", delay: "ns" };
+
+/** Values of one trace: |S_ij| dB, arg S_ij in degrees, or group delay in ns. */
+export function traceValues(view: SolvedView, i: number, j: number, quantity: TraceQuantity): Float64Array {
+  if (quantity === "db") return magnitudeDb(view.s, i, j);
+  if (quantity === "phase") return phaseDeg(view.s, i, j);
+  const tau = groupDelay(view.frequencies, view.s, i, j);
+  for (let k = 0; k < tau.length; k++) tau[k] *= 1e9;
+  return tau;
+}
+
+/** "S21 (TX → ANT)": the wave leaves port j and arrives at port i. */
+export function traceLabel(ports: readonly string[], i: number, j: number): string {
+  return `${sName(i, j)} (${ports[j]} → ${ports[i]})`;
+}

@@ -1,0 +1,337 @@
+"use client";
+
+import { useEffect, useMemo, useState } from "react";
+import { Download, X } from "lucide-react";
+import { writeTouchstone } from "@/engine/touchstone";
+import type { Scenario } from "@/engine/types";
+import { Alert, Badge, Button, EmptyState, Input, Select, Spinner } from "@/components/ui";
+import { evaluateQuantity } from "@/lib/client/expressions";
+import { formatFixed, formatFrequency, formatNumber } from "@/lib/client/format";
+import {
+  nearestFrequencyIndex,
+  solutionToCsv,
+  TRACE_UNITS,
+  traceLabel,
+  traceValues,
+  type SolvedView,
+  type TraceQuantity,
+} from "@/lib/client/results-math";
+import type { SolverState } from "@/lib/client/use-solver";
+import { PortMatrix } from "./port-matrix";
+import { SmithChart } from "./smith-chart";
+import { TracePlot } from "./trace-plot";
+
+export type ResultsPanelProps = {
+  scenario: Scenario;
+  state: SolverState;
+};
+
+const QUANTITY_LABEL: Record<TraceQuantity, string> = { db: "Magnitude (dB)", phase: "Phase (deg)", delay: "Group delay (ns)" };
+
+function download(name: string, text: string, type: string): void {
+  const url = URL.createObjectURL(new Blob([text], { type }));
+  const a = document.createElement("a");
+  a.href = url;
+  a.download = name;
+  document.body.appendChild(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
+function fileStem(name: string): string {
+  return name.trim().replace(/[^A-Za-z0-9._-]+/g, "_").replace(/^_+|_+$/g, "") || "scenario";
+}
+
+/** Touchstone text of the composite; per-port references when the system ports' Z0 differ. */
+export function compositeTouchstone(view: SolvedView, scenarioName: string): string {
+  const same = view.portZ0.every((z) => z === view.portZ0[0]);
+  const z0 = same ? view.portZ0[0] : Float64Array.from(view.portZ0.flatMap((z) => [z, 0]));
+  return writeTouchstone(
+    { frequencies: view.frequencies, s: view.s, z0, comments: [`Composite of scenario "${scenarioName}"`, `Ports: ${view.ports.map((p, k) => `${k + 1}=${p}`).join(" ")}`] },
+    { format: "RI", unit: "GHz" },
+  );
+}
+
+/** Traces, markers, the port matrix, the Smith chart, warnings and downloads of the latest solve. */
+export function ResultsPanel({ scenario, state }: ResultsPanelProps) {
+  if (state.status === "empty") {
+    return (
+      <EmptyState
+        title={state.reason === "no-blocks" ? "No blocks yet" : "No system ports"}
+        description={
+          state.reason === "no-blocks"
+            ? "Add a block to the chart (Add block, or press A) and mark at least one system port to see results."
+            : "Mark at least one system port to see results: right-click a port handle, or use Mark as system port in the inspector."
+        }
+      />
+    );
+  }
+  const result = state.status === "done" ? state.result : state.status === "solving" ? state.last : undefined;
+  return (
+    <div className="flex flex-col gap-4" aria-busy={state.status === "solving"}>
+      <StatusLine state={state} />
+      {state.status === "error" ? (
+        <Alert tone="error" title={state.kind === "SingularSystemError" ? "The system cannot be solved" : "The scenario cannot be solved"}>
+          <span className="font-mono text-xs" data-testid="solve-error">
+            {state.error}
+          </span>
+        </Alert>
+      ) : null}
+      {result ? <SolvedResults key={result.view.ports.join("\u0000")} scenario={scenario} result={result} stale={state.status !== "done"} /> : null}
+      {!result && state.status === "solving" ? <Spinner label="Solving" /> : null}
+    </div>
+  );
+}
+
+function StatusLine({ state }: { state: SolverState }) {
+  if (state.status === "solving") {
+    return (
+      <p role="status" aria-label="Solve status" className="flex items-center gap-2 text-sm text-muted">
+        <Spinner size="sm" /> solving…
+      </p>
+    );
+  }
+  if (state.status === "done") {
+    const r = state.result;
+    return (
+      <p role="status" aria-label="Solve status" className="figures text-sm text-muted">
+        Solved in {formatFixed(r.solveMs, r.solveMs < 10 ? 1 : 0)} ms · {r.view.s.nf} points · {r.view.s.n} system port{r.view.s.n === 1 ? "" : "s"}
+      </p>
+    );
+  }
+  if (state.status === "error") {
+    return (
+      <p role="status" aria-label="Solve status" className="text-sm text-fail-strong">
+        Not solved
+      </p>
+    );
+  }
+  return null;
+}
+
+type Solved = Extract<SolverState, { status: "done" }>["result"];
+
+function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result: Solved; stale: boolean }) {
+  const view = result.view;
+  const n = view.s.n;
+  const [pair, setPair] = useState<[number, number]>(n > 1 ? [1, 0] : [0, 0]);
+  const [quantity, setQuantity] = useState<TraceQuantity>("db");
+  const [hover, setHover] = useState<number | null>(null);
+  const [markers, setMarkers] = useState<number[]>([]); // Hz
+  const [matrixHz, setMatrixHz] = useState<number>(() => view.frequencies[Math.floor(view.s.nf / 2)]);
+  const [smithPort, setSmithPort] = useState(0);
+  const [markerText, setMarkerText] = useState("");
+  const [markerError, setMarkerError] = useState<string | null>(null);
+
+  const [i, j] = [Math.min(pair[0], n - 1), Math.min(pair[1], n - 1)];
+  const values = useMemo(() => traceValues(view, i, j, quantity), [view, i, j, quantity]);
+  const label = traceLabel(view.ports, i, j);
+  const unit = TRACE_UNITS[quantity];
+  const markerIdx = useMemo(() => markers.map((hz) => nearestFrequencyIndex(view.frequencies, hz)), [markers, view]);
+  const matrixIndex = nearestFrequencyIndex(view.frequencies, matrixHz);
+
+  useEffect(() => {
+    if (smithPort >= n) setSmithPort(0);
+  }, [n, smithPort]);
+
+  const options = [];
+  for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) options.push({ value: `${a},${b}`, label: traceLabel(view.ports, a, b) });
+
+  const fmt = (v: number) => (quantity === "db" ? formatFixed(v, 2) : quantity === "phase" ? formatFixed(v, 1) : formatNumber(v, 4));
+  const readout =
+    hover === null
+      ? "Point at the trace to read a value; click to place a marker."
+      : `${formatFrequency(view.frequencies[hover])} · ${label} ${fmt(values[hover])} ${unit}`;
+
+  const addMarkerAt = (hz: number) => setMarkers((m) => (m.includes(hz) ? m : [...m, hz]));
+
+  return (
+    <div className={stale ? "flex flex-col gap-5 opacity-60 transition-opacity" : "flex flex-col gap-5"}>
+      <div className="flex flex-wrap gap-2">
+        <Button
+          variant="secondary"
+          size="sm"
+          onClick={() => download(`${fileStem(scenario.name)}.s${n}p`, compositeTouchstone(view, scenario.name), "text/plain")}
+        >
+          <Download aria-hidden="true" className="h-4 w-4" /> Download Touchstone
+        </Button>
+        <Button variant="secondary" size="sm" onClick={() => download(`${fileStem(scenario.name)}.csv`, solutionToCsv(view), "text/csv")}>
+          <Download aria-hidden="true" className="h-4 w-4" /> Download CSV
+        </Button>
+      </div>
+
+      <section aria-labelledby="results-traces" className="flex flex-col gap-2">
+        <h3 id="results-traces" className="text-sm font-semibold text-ink">
+          Traces
+        </h3>
+        <div className="grid grid-cols-2 gap-2">
+          <label className="flex flex-col gap-1 text-xs text-muted">
+            Trace
+            <Select
+              aria-label="Trace"
+              value={`${i},${j}`}
+              onChange={(e) => {
+                const [a, b] = e.target.value.split(",").map(Number);
+                setPair([a, b]);
+              }}
+              options={options}
+            />
+          </label>
+          <label className="flex flex-col gap-1 text-xs text-muted">
+            Quantity
+            <Select
+              aria-label="Quantity"
+              value={quantity}
+              onChange={(e) => setQuantity(e.target.value as TraceQuantity)}
+              options={(Object.keys(QUANTITY_LABEL) as TraceQuantity[]).map((q) => ({ value: q, label: QUANTITY_LABEL[q] }))}
+            />
+          </label>
+        </div>
+        <TracePlot
+          frequencies={view.frequencies}
+          values={values}
+          label={label}
+          unit={unit}
+          markers={markerIdx}
+          onHover={setHover}
+          onPick={(k) => addMarkerAt(view.frequencies[k])}
+        />
+        <output aria-label="Trace read-out" className="figures min-h-5 text-xs text-ink">
+          {readout}
+        </output>
+        <form
+          className="flex items-start gap-2"
+          aria-label="Add marker"
+          onSubmit={(e) => {
+            e.preventDefault();
+            const r = evaluateQuantity(markerText, "Hz");
+            if (!r.ok || typeof r.value !== "number") {
+              setMarkerError(r.ok ? "Enter a frequency." : r.error);
+              return;
+            }
+            setMarkerError(null);
+            addMarkerAt(view.frequencies[nearestFrequencyIndex(view.frequencies, r.value)]);
+            setMarkerText("");
+          }}
+        >
+          <div className="flex flex-1 flex-col gap-1">
+            <Input
+              aria-label="Marker frequency"
+              placeholder="Marker at… e.g. 2.45 GHz"
+              className="font-mono"
+              value={markerText}
+              aria-invalid={markerError ? true : undefined}
+              onChange={(e) => setMarkerText(e.target.value)}
+            />
+            {markerError ? <p className="text-xs text-fail-strong">{markerError}</p> : null}
+          </div>
+          <Button type="submit" variant="secondary" size="md">
+            Add marker
+          </Button>
+        </form>
+        {markers.length > 0 ? (
+          <table className="w-full text-xs" aria-label="Markers">
+            <thead>
+              <tr className="text-left text-muted">
+                <th scope="col" className="py-1 font-normal">
+                  Marker
+                </th>
+                <th scope="col" className="py-1 text-right font-normal">
+                  Frequency
+                </th>
+                <th scope="col" className="py-1 text-right font-normal">
+                  {sLabelShort(label)} ({unit})
+                </th>
+                <th scope="col" className="sr-only">
+                  Remove
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {markers.map((hz, m) => {
+                const k = markerIdx[m];
+                return (
+                  <tr key={hz} className="border-t border-rule">
+                    <td className="py-1 font-mono">M{m + 1}</td>
+                    <td className="figures py-1 text-right">{formatFrequency(view.frequencies[k])}</td>
+                    <td className="figures py-1 text-right">{fmt(values[k])}</td>
+                    <td className="py-1 text-right">
+                      <Button variant="ghost" size="sm" aria-label={`Remove marker M${m + 1}`} onClick={() => setMarkers(markers.filter((x) => x !== hz))}>
+                        <X aria-hidden="true" className="h-3.5 w-3.5" />
+                      </Button>
+                    </td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+        ) : null}
+      </section>
+
+      <section aria-labelledby="results-matrix" className="flex flex-col gap-2">
+        <h3 id="results-matrix" className="text-sm font-semibold text-ink">
+          Port matrix
+        </h3>
+        <PortMatrix
+          view={view}
+          index={matrixIndex}
+          onIndexChange={(k) => setMatrixHz(view.frequencies[k])}
+          active={[i, j]}
+          onPick={(a, b) => setPair([a, b])}
+        />
+      </section>
+
+      <section aria-labelledby="results-smith" className="flex flex-col gap-2">
+        <div className="flex items-center justify-between gap-2">
+          <h3 id="results-smith" className="text-sm font-semibold text-ink">
+            Smith chart
+          </h3>
+          <label className="flex items-center gap-2 text-xs text-muted">
+            Port
+            <Select
+              aria-label="Smith chart port"
+              value={String(Math.min(smithPort, n - 1))}
+              onChange={(e) => setSmithPort(Number(e.target.value))}
+              options={view.ports.map((p, k) => ({ value: String(k), label: p }))}
+            />
+          </label>
+        </div>
+        <SmithChart view={view} port={Math.min(smithPort, n - 1)} highlight={matrixIndex} />
+      </section>
+
+      <Warnings result={result} z0={scenario.z0} />
+    </div>
+  );
+}
+
+function sLabelShort(label: string): string {
+  return label.split(" ")[0];
+}
+
+function Warnings({ result, z0 }: { result: Solved; z0: number }) {
+  const count = result.warnings.length + result.unterminated.length;
+  return (
+    <section aria-labelledby="results-warnings" className="flex flex-col gap-2">
+      <h3 id="results-warnings" className="flex items-center gap-2 text-sm font-semibold text-ink">
+        Warnings <Badge tone={count > 0 ? "warn" : "neutral"}>{count}</Badge>
+      </h3>
+      {count === 0 ? (
+        <p className="text-sm text-muted">None: every block port is linked or a system port, and no part data was extrapolated.</p>
+      ) : (
+        <ul className="flex flex-col gap-1 text-sm" aria-label="Warnings">
+          {result.unterminated.map((ref) => (
+            <li key={`u:${ref}`} className="border-l-2 border-warn pl-2">
+              <span className="font-mono">{ref}</span> is not linked and not a system port: it is terminated in the system Z0 ({formatNumber(z0)} Ω).
+            </li>
+          ))}
+          {result.warnings.map((w) => (
+            <li key={`w:${w}`} className="border-l-2 border-warn pl-2">
+              {w}
+            </li>
+          ))}
+        </ul>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,127 @@
+"use client";
+
+import { useEffect, useRef } from "react";
+import uPlot from "uplot";
+import "uplot/dist/uPlot.min.css";
+import { formatSi } from "@/lib/client/format";
+
+export type TracePlotProps = {
+  /** Hz */
+  frequencies: Float64Array;
+  values: Float64Array;
+  /** series name, e.g. "S21 (TX → ANT)" */
+  label: string;
+  /** y unit: "dB", "deg", "ns" */
+  unit: string;
+  /** marker frequency indices */
+  markers: number[];
+  /** hovered index, or null when the cursor leaves */
+  onHover: (index: number | null) => void;
+  /** a click on the plot: add a marker at this index */
+  onPick: (index: number) => void;
+  height?: number;
+};
+
+function cssColour(name: string, fallback: string): string {
+  if (typeof window === "undefined") return fallback;
+  const v = getComputedStyle(document.documentElement).getPropertyValue(name).trim();
+  return v || fallback;
+}
+
+function finiteOrNull(values: Float64Array): (number | null)[] {
+  return Array.from(values, (v) => (Number.isFinite(v) ? v : null));
+}
+
+/** One trace over frequency (uPlot): hover read-out through onHover, click to place a marker. */
+export function TracePlot({ frequencies, values, label, unit, markers, onHover, onPick, height = 220 }: TracePlotProps) {
+  const box = useRef<HTMLDivElement>(null);
+  const plot = useRef<uPlot | null>(null);
+  const markersRef = useRef(markers);
+  const callbacks = useRef({ onHover, onPick });
+  callbacks.current = { onHover, onPick };
+
+  useEffect(() => {
+    const el = box.current;
+    if (!el) return;
+    const ink = cssColour("--pt-ink", "#1D2936");
+    const rule = cssColour("--pt-rule", "#CDBF9F");
+    const sea = cssColour("--pt-sea", "#2A5D7C");
+    const fail = cssColour("--pt-fail", "#B8432B");
+    const axis = { stroke: ink, grid: { stroke: rule, width: 1 }, ticks: { stroke: rule, width: 1 }, font: "11px var(--font-mono, monospace)" };
+    const opts: uPlot.Options = {
+      width: Math.max(200, el.clientWidth),
+      height,
+      legend: { show: false },
+      cursor: { drag: { x: false, y: false }, points: { size: 7, fill: sea } },
+      scales: { x: { time: false } },
+      axes: [
+        { ...axis, values: (_u, splits) => splits.map((v) => formatSi(v, "Hz", 4)), size: 34 },
+        { ...axis, label: unit, labelSize: 14, labelFont: "11px var(--font-sans, sans-serif)", size: 56 },
+      ],
+      series: [{}, { label, stroke: sea, width: 1.75, spanGaps: false }],
+      hooks: {
+        setCursor: [
+          (u) => {
+            const idx = u.cursor.idx;
+            callbacks.current.onHover(idx === null || idx === undefined ? null : idx);
+          },
+        ],
+        draw: [
+          (u) => {
+            const ctx = u.ctx;
+            const { top, height: h } = u.bbox;
+            ctx.save();
+            ctx.strokeStyle = fail;
+            ctx.fillStyle = fail;
+            ctx.lineWidth = Math.max(1, devicePixelRatio);
+            ctx.font = `${Math.round(10 * devicePixelRatio)}px monospace`;
+            markersRef.current.forEach((k, n) => {
+              const f = u.data[0][k];
+              if (f === undefined) return;
+              const x = u.valToPos(f, "x", true);
+              ctx.setLineDash([4 * devicePixelRatio, 3 * devicePixelRatio]);
+              ctx.beginPath();
+              ctx.moveTo(x, top);
+              ctx.lineTo(x, top + h);
+              ctx.stroke();
+              ctx.setLineDash([]);
+              ctx.fillText(`M${n + 1}`, x + 3 * devicePixelRatio, top + 12 * devicePixelRatio);
+            });
+            ctx.restore();
+          },
+        ],
+      },
+    };
+    const u = new uPlot(opts, [Array.from(frequencies), finiteOrNull(values)] as uPlot.AlignedData, el);
+    plot.current = u;
+    const click = () => {
+      const idx = u.cursor.idx;
+      if (idx !== null && idx !== undefined) callbacks.current.onPick(idx);
+    };
+    u.over.addEventListener("click", click);
+    const leave = () => callbacks.current.onHover(null);
+    u.over.addEventListener("mouseleave", leave);
+    const resize = new ResizeObserver(() => u.setSize({ width: Math.max(200, el.clientWidth), height }));
+    resize.observe(el);
+    return () => {
+      resize.disconnect();
+      u.over.removeEventListener("click", click);
+      u.over.removeEventListener("mouseleave", leave);
+      u.destroy();
+      plot.current = null;
+    };
+    // re-created when what the axes say changes; data updates go through setData below
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [label, unit, height]);
+
+  useEffect(() => {
+    plot.current?.setData([Array.from(frequencies), finiteOrNull(values)] as uPlot.AlignedData);
+  }, [frequencies, values]);
+
+  useEffect(() => {
+    markersRef.current = markers;
+    plot.current?.redraw(false);
+  }, [markers]);
+
+  return <div ref={box} className="w-full" role="img" aria-label={`Trace plot of ${label} in ${unit}`} />;
+}

@@ -1,0 +1,416 @@
+"use client";
+
+import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from "react";
+import { ReactFlowProvider, useReactFlow } from "@xyflow/react";
+import { Copy, ClipboardPaste, Maximize, Plus, Redo2, Trash2, Undo2 } from "lucide-react";
+import type { PortRef, Scenario } from "@/engine/types";
+import { Badge, Button, Kbd, Spinner } from "@/components/ui";
+import { cn } from "@/components/ui/cn";
+import { AddBlockPalette, ScenarioChart, CARD_WIDTH, type AddBlockChoice, type ChartSelection } from "@/components/chart";
+import { BlockInspector, ScenarioPanel } from "@/components/inspector";
+import { ResultsPanel } from "@/components/results";
+import { resolveVariables } from "@/lib/client/expressions";
+import { createHistory, recordEdit, redo, undo, type History } from "@/lib/client/history";
+import {
+  addBlock,
+  addLink,
+  copyBlocks,
+  moveBlocks,
+  nextSystemPortName,
+  parsePortRef,
+  pasteBlocks,
+  removeBlocks,
+  removeLinkAt,
+  removeSystemPort,
+  setSwitchState,
+  setSystemPort,
+  type Clipboard,
+  type PartSummary,
+} from "@/lib/client/scenario-model";
+import { useSolver } from "@/lib/client/use-solver";
+import { PortMenu, type PortMenuAction } from "./port-menu";
+
+export type SaveState = "saved" | "unsaved" | "saving" | "conflict" | "error";
+
+export type WorkspaceProps = {
+  /** the scenario shown; the workspace never keeps its own copy (fully controlled) */
+  scenario: Scenario;
+  /** the project's parts: offered in the add-block list and resolved by file name when solving */
+  parts: PartSummary[];
+  /** reviewers: everything visible, nothing editable */
+  readOnly: boolean;
+  /** every edit, undo and redo produces the next scenario here */
+  onChange: (next: Scenario) => void;
+  saveState: SaveState;
+  /** extra toolbar content from the host page (save button, revision menu…) */
+  toolbarExtras?: ReactNode;
+};
+
+const EMPTY_SELECTION: ChartSelection = { blocks: [], links: [] };
+
+/** The scenario workspace: chart, inspector and results, with undo/redo and keyboard commands. */
+export function Workspace(props: WorkspaceProps) {
+  return (
+    <ReactFlowProvider>
+      <WorkspaceInner {...props} />
+    </ReactFlowProvider>
+  );
+}
+
+function isEditable(target: EventTarget | null): boolean {
+  if (!(target instanceof HTMLElement)) return false;
+  if (target.isContentEditable) return true;
+  const tag = target.tagName;
+  return tag === "INPUT" || tag === "TEXTAREA" || tag === "SELECT" || target.closest("[role=dialog],[role=menu]") !== null;
+}
+
+function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolbarExtras }: WorkspaceProps) {
+  const flow = useReactFlow();
+  const root = useRef<HTMLDivElement>(null);
+  const chartBox = useRef<HTMLDivElement>(null);
+  const [history, setHistory] = useState<History>(createHistory);
+  const [selection, setSelection] = useState<ChartSelection>(EMPTY_SELECTION);
+  const [paletteOpen, setPaletteOpen] = useState(false);
+  const [notice, setNotice] = useState<string | null>(null);
+  const [portMenu, setPortMenu] = useState<{ ref: PortRef; anchor: { x: number; y: number } } | null>(null);
+  const [resetToken, setResetToken] = useState(0);
+  const clipboard = useRef<Clipboard | null>(null);
+  const solver = useSolver(scenario, parts);
+  const scope = useMemo(() => resolveVariables(scenario.variables).scope, [scenario.variables]);
+
+  // the selection, restricted to what still exists (after undo, delete, rename)
+  const live = useMemo<ChartSelection>(() => {
+    const ids = new Set(scenario.blocks.map((b) => b.id));
+    const links = new Set(scenario.links.map(([a, b]) => `${a}~${b}`));
+    return { blocks: selection.blocks.filter((id) => ids.has(id)), links: selection.links.filter((id) => links.has(id)) };
+  }, [selection, scenario]);
+
+  const notify = useCallback((message: string) => setNotice(message), []);
+  useEffect(() => {
+    if (!notice) return;
+    const t = window.setTimeout(() => setNotice(null), 7000);
+    return () => window.clearTimeout(t);
+  }, [notice]);
+
+  // commits read the latest scenario even when two edits land before the host re-renders
+  const latest = useRef(scenario);
+  latest.current = scenario;
+
+  const commit = useCallback(
+    (next: Scenario, key?: string) => {
+      if (readOnly || next === latest.current) return;
+      setHistory((h) => recordEdit(h, latest.current, { key }));
+      latest.current = next;
+      onChange(next);
+    },
+    [readOnly, onChange],
+  );
+
+  const doUndo = useCallback(() => {
+    if (readOnly) return;
+    const r = undo(history, latest.current);
+    if (!r) return;
+    setHistory(r.history);
+    latest.current = r.scenario;
+    onChange(r.scenario);
+    setResetToken((t) => t + 1);
+  }, [history, onChange, readOnly]);
+
+  const doRedo = useCallback(() => {
+    if (readOnly) return;
+    const r = redo(history, latest.current);
+    if (!r) return;
+    setHistory(r.history);
+    latest.current = r.scenario;
+    onChange(r.scenario);
+    setResetToken((t) => t + 1);
+  }, [history, onChange, readOnly]);
+
+  const centre = useCallback((): { x: number; y: number } => {
+    const rect = chartBox.current?.getBoundingClientRect();
+    if (!rect) return { x: 0, y: 0 };
+    const p = flow.screenToFlowPosition({ x: rect.left + rect.width / 2, y: rect.top + rect.height / 2 });
+    let at = { x: p.x - CARD_WIDTH / 2, y: p.y - 36 };
+    // do not drop a block exactly on top of another
+    while (latest.current.blocks.some((b) => b.position && Math.abs(b.position.x - at.x) < 12 && Math.abs(b.position.y - at.y) < 12)) {
+      at = { x: at.x + 28, y: at.y + 28 };
+    }
+    return at;
+  }, [flow]);
+
+  const onAddChoice = useCallback(
+    (choice: AddBlockChoice) => {
+      if (readOnly) return;
+      const { scenario: next, id } = addBlock(latest.current, choice.kind, centre(), choice.part);
+      commit(next);
+      setSelection({ blocks: [id], links: [] });
+    },
+    [centre, commit, readOnly],
+  );
+
+  const deleteSelection = useCallback(() => {
+    if (readOnly) return;
+    let next = removeBlocks(latest.current, live.blocks);
+    for (const id of live.links) {
+      const [a] = id.split("~");
+      next = removeLinkAt(next, a);
+    }
+    if (next !== latest.current) commit(next);
+    setSelection(EMPTY_SELECTION);
+  }, [commit, live, readOnly]);
+
+  const copy = useCallback(() => {
+    if (live.blocks.length === 0) return;
+    clipboard.current = copyBlocks(latest.current, live.blocks);
+    notify(`Copied ${live.blocks.length} block${live.blocks.length === 1 ? "" : "s"}.`);
+  }, [live.blocks, notify]);
+
+  const paste = useCallback(() => {
+    if (readOnly || !clipboard.current || clipboard.current.blocks.length === 0) return;
+    const { scenario: next, ids } = pasteBlocks(latest.current, clipboard.current, { x: 40, y: 40 });
+    commit(next);
+    setSelection({ blocks: ids, links: [] });
+    // a second paste lands further along
+    clipboard.current = {
+      ...clipboard.current,
+      blocks: clipboard.current.blocks.map((b) => ({ ...b, position: b.position ? { x: b.position.x + 40, y: b.position.y + 40 } : b.position })),
+    };
+  }, [commit, readOnly]);
+
+  const fit = useCallback(() => void flow.fitView({ padding: 0.25, maxZoom: 1.25, duration: 200 }), [flow]);
+
+  // keyboard commands while the workspace is on screen (not while typing in a field or a dialog)
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      if (isEditable(e.target)) return;
+      const inside = root.current?.contains(e.target as Node) || e.target === document.body;
+      if (!inside) return;
+      const mod = e.ctrlKey || e.metaKey;
+      const key = e.key.toLowerCase();
+      if (mod && key === "z" && !e.shiftKey) {
+        e.preventDefault();
+        doUndo();
+      } else if (mod && ((key === "z" && e.shiftKey) || key === "y")) {
+        e.preventDefault();
+        doRedo();
+      } else if (mod && key === "c") {
+        copy();
+      } else if (mod && key === "v") {
+        e.preventDefault();
+        paste();
+      } else if (!mod && !e.altKey && (e.key === "Delete" || e.key === "Backspace")) {
+        if (live.blocks.length > 0 || live.links.length > 0) {
+          e.preventDefault();
+          deleteSelection();
+        }
+      } else if (!mod && !e.altKey && key === "a" && !readOnly) {
+        e.preventDefault();
+        setPaletteOpen(true);
+      } else if (!mod && !e.altKey && key === "f") {
+        fit();
+      } else if (e.key === "Escape") {
+        setSelection(EMPTY_SELECTION);
+      }
+    };
+    document.addEventListener("keydown", onKey);
+    return () => document.removeEventListener("keydown", onKey);
+  }, [copy, deleteSelection, doRedo, doUndo, fit, live, paste, readOnly]);
+
+  const onLink = useCallback(
+    (a: PortRef, b: PortRef) => {
+      if (readOnly) return;
+      const r = addLink(latest.current, a, b, parts);
+      if (r.ok) commit(r.scenario);
+      else notify(`Link refused: ${r.reason}`);
+    },
+    [commit, notify, parts, readOnly],
+  );
+
+  const onMoveBlocks = useCallback(
+    (positions: Record<string, { x: number; y: number }>) => {
+      const current = latest.current;
+      const changed = Object.entries(positions).some(([id, p]) => {
+        const b = current.blocks.find((x) => x.id === id);
+        return b && (!b.position || Math.round(p.x) !== b.position.x || Math.round(p.y) !== b.position.y);
+      });
+      if (changed) commit(moveBlocks(current, positions));
+    },
+    [commit],
+  );
+
+  const onSetSwitch = useCallback(
+    (id: string, state: number) => {
+      const r = setSwitchState(latest.current, id, state);
+      if (r.ok) commit(r.scenario);
+      else notify(r.reason);
+    },
+    [commit, notify],
+  );
+
+  const onPortMenu = useCallback((ref: PortRef, anchor: { x: number; y: number }) => setPortMenu({ ref, anchor }), []);
+
+  const onPortAction = (action: PortMenuAction) => {
+    if (!portMenu) return;
+    const ref = portMenu.ref;
+    const block = parsePortRef(ref)?.block;
+    setPortMenu(null);
+    if (action === "inspect" || action === "mark") {
+      if (block) setSelection({ blocks: [block], links: [] });
+    }
+    if (action === "mark") {
+      const r = setSystemPort(latest.current, ref, { name: nextSystemPortName(latest.current) }, parts);
+      if (r.ok) commit(r.scenario);
+      else notify(r.reason);
+    } else if (action === "unmark") commit(removeSystemPort(latest.current, ref));
+    else if (action === "unlink") commit(removeLinkAt(latest.current, ref));
+  };
+
+  const single = live.blocks.length === 1 ? live.blocks[0] : null;
+
+  return (
+    <div ref={root} className="flex h-full min-h-[640px] flex-col gap-2" data-testid="workspace">
+      <div role="toolbar" aria-label="Workspace" className="flex flex-wrap items-center gap-1.5 border-b border-rule pb-2">
+        <Button size="sm" onClick={() => setPaletteOpen(true)} disabled={readOnly} aria-keyshortcuts="A">
+          <Plus aria-hidden="true" className="h-4 w-4" /> Add block <Kbd className="ml-1 bg-transparent text-on-ink/80">A</Kbd>
+        </Button>
+        <Button size="sm" variant="ghost" onClick={doUndo} disabled={readOnly || history.past.length === 0} aria-label="Undo" aria-keyshortcuts="Control+Z" title="Undo (Ctrl+Z)">
+          <Undo2 aria-hidden="true" className="h-4 w-4" />
+        </Button>
+        <Button
+          size="sm"
+          variant="ghost"
+          onClick={doRedo}
+          disabled={readOnly || history.future.length === 0}
+          aria-label="Redo"
+          aria-keyshortcuts="Control+Shift+Z"
+          title="Redo (Ctrl+Shift+Z)"
+        >
+          <Redo2 aria-hidden="true" className="h-4 w-4" />
+        </Button>
+        <span className="mx-1 h-5 w-px bg-rule" aria-hidden="true" />
+        <Button size="sm" variant="ghost" onClick={copy} disabled={live.blocks.length === 0} aria-label="Copy selected blocks" title="Copy (Ctrl+C)">
+          <Copy aria-hidden="true" className="h-4 w-4" />
+        </Button>
+        <Button size="sm" variant="ghost" onClick={paste} disabled={readOnly} aria-label="Paste blocks" title="Paste (Ctrl+V)">
+          <ClipboardPaste aria-hidden="true" className="h-4 w-4" />
+        </Button>
+        <Button
+          size="sm"
+          variant="ghost"
+          onClick={deleteSelection}
+          disabled={readOnly || (live.blocks.length === 0 && live.links.length === 0)}
+          aria-label="Delete selection"
+          title="Delete (Delete or Backspace)"
+        >
+          <Trash2 aria-hidden="true" className="h-4 w-4" />
+        </Button>
+        <Button size="sm" variant="ghost" onClick={fit} aria-label="Fit view" title="Fit view (F)">
+          <Maximize aria-hidden="true" className="h-4 w-4" />
+        </Button>
+        <div className="ml-auto flex items-center gap-2">
+          {readOnly ? <Badge tone="info">Read only</Badge> : null}
+          <SaveBadge state={saveState} />
+          {toolbarExtras}
+        </div>
+      </div>
+
+      {notice ? (
+        <div role="alert" className="flex items-center justify-between gap-3 rounded-card border border-warn/70 bg-warn/12 px-3 py-1.5 text-sm text-ink">
+          <span>{notice}</span>
+          <button type="button" className="text-xs text-muted underline" onClick={() => setNotice(null)}>
+            Dismiss
+          </button>
+        </div>
+      ) : null}
+
+      <div className="grid min-h-0 flex-1 grid-cols-1 gap-3 lg:grid-cols-[minmax(0,1fr)_20rem] 2xl:grid-cols-[minmax(0,1fr)_20rem_28rem]">
+        <div ref={chartBox} className="relative min-h-[420px] overflow-hidden rounded-card border border-rule-strong">
+          <ScenarioChart
+            scenario={scenario}
+            parts={parts}
+            readOnly={readOnly}
+            selection={live}
+            onSelectionChange={setSelection}
+            onMoveBlocks={onMoveBlocks}
+            onLink={onLink}
+            onSetSwitch={onSetSwitch}
+            onPortMenu={onPortMenu}
+          />
+          {scenario.blocks.length === 0 ? (
+            <div className="pointer-events-none absolute inset-0 flex items-center justify-center">
+              <p className="rounded-card border border-dashed border-rule-strong bg-surface/90 px-4 py-3 text-sm text-muted">
+                An empty chart. Add a block with <span className="font-medium text-ink">Add block</span> or press <Kbd>A</Kbd>.
+              </p>
+            </div>
+          ) : null}
+        </div>
+
+        <aside aria-label="Inspector" className="min-h-0 overflow-y-auto rounded-card border border-rule bg-surface/60 p-3">
+          {single ? (
+            <BlockInspector
+              scenario={scenario}
+              blockId={single}
+              parts={parts}
+              readOnly={readOnly}
+              scope={scope}
+              resetToken={resetToken}
+              commit={commit}
+              notify={notify}
+              onRenamed={(_, to) => setSelection({ blocks: [to], links: [] })}
+            />
+          ) : live.blocks.length > 1 ? (
+            <div className="flex flex-col gap-2 text-sm">
+              <p className="text-ink">{live.blocks.length} blocks selected.</p>
+              <p className="font-mono text-xs text-muted">{live.blocks.join(", ")}</p>
+              <div className="flex gap-2">
+                <Button size="sm" variant="secondary" onClick={copy}>
+                  Copy
+                </Button>
+                <Button size="sm" variant="danger" onClick={deleteSelection} disabled={readOnly}>
+                  Delete
+                </Button>
+              </div>
+            </div>
+          ) : (
+            <ScenarioPanel scenario={scenario} readOnly={readOnly} resetToken={resetToken} commit={commit} />
+          )}
+        </aside>
+
+        <section aria-label="Results" className="min-h-0 overflow-y-auto rounded-card border border-rule bg-surface/60 p-3 lg:col-span-2 2xl:col-span-1">
+          <h2 className="mb-2 text-base font-semibold text-ink">Results</h2>
+          <ResultsPanel scenario={scenario} state={solver} />
+        </section>
+      </div>
+
+      <AddBlockPalette open={paletteOpen} onOpenChange={setPaletteOpen} parts={parts} onChoose={onAddChoice} />
+      {portMenu ? (
+        <PortMenu
+          scenario={scenario}
+          refId={portMenu.ref}
+          anchor={portMenu.anchor}
+          readOnly={readOnly}
+          onAction={onPortAction}
+          onClose={() => setPortMenu(null)}
+        />
+      ) : null}
+    </div>
+  );
+}
+
+const SAVE_TEXT: Record<SaveState, string> = {
+  saved: "Saved",
+  unsaved: "Unsaved changes",
+  saving: "Saving…",
+  conflict: "Conflict: changed elsewhere",
+  error: "Not saved: error",
+};
+
+function SaveBadge({ state }: { state: SaveState }) {
+  const tone = state === "saved" ? "pass" : state === "unsaved" || state === "saving" ? "warn" : "fail";
+  return (
+    <Badge tone={tone} role="status" aria-label={`Save state: ${SAVE_TEXT[state]}`} className={cn(state === "saving" && "gap-1.5")}>
+      {state === "saving" ? <Spinner size="sm" /> : null}
+      {SAVE_TEXT[state]}
+    </Badge>
+  );
+}
