@@ -55,7 +55,8 @@ type Section = "header" | "network" | "noise" | "information" | "done";
  *
  * Supported: the option line `# [unit] [parameter] [format] R [n]` with its fields in any order and the
  * defaults GHz, S, MA, R 50 (§ "Option Line"); "!" comments anywhere; Hz/kHz/MHz/GHz; RI/MA/DB; S data,
- * and Y or Z data converted to S (1.1: Y and Z are normalised to R; 2.0: they are in siemens and ohms);
+ * and Y or Z data converted to S (1.1: Y and Z are normalised to R; 2.0: they are in siemens and ohms —
+ * both from memory of the specification, and read the same way by other public readers);
  * any port count (1.1: 1- and 2-port records on one line, 2-port order N11 N21 N12 N22; 3 or more ports
  * wrap, each frequency starting on a new line); 2.0 keywords [Version], [Number of Ports],
  * [Two-Port Data Order], [Number of Frequencies], [Number of Noise Frequencies], [Reference],
