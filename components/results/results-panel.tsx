@@ -2,9 +2,9 @@
 
 import { useEffect, useMemo, useState } from "react";
 import { Download, X } from "lucide-react";
-import { writeTouchstone } from "@/engine/touchstone";
 import type { Scenario } from "@/engine/types";
 import { Alert, Badge, Button, EmptyState, Input, Select, Spinner } from "@/components/ui";
+import { compositeTouchstone, downloadText as download, fileStem } from "@/lib/client/downloads";
 import { evaluateQuantity } from "@/lib/client/expressions";
 import { formatFixed, formatFrequency, formatNumber } from "@/lib/client/format";
 import {
@@ -27,31 +27,6 @@ export type ResultsPanelProps = {
 };
 
 const QUANTITY_LABEL: Record<TraceQuantity, string> = { db: "Magnitude (dB)", phase: "Phase (deg)", delay: "Group delay (ns)" };
-
-function download(name: string, text: string, type: string): void {
-  const url = URL.createObjectURL(new Blob([text], { type }));
-  const a = document.createElement("a");
-  a.href = url;
-  a.download = name;
-  document.body.appendChild(a);
-  a.click();
-  a.remove();
-  setTimeout(() => URL.revokeObjectURL(url), 1000);
-}
-
-function fileStem(name: string): string {
-  return name.trim().replace(/[^A-Za-z0-9._-]+/g, "_").replace(/^_+|_+$/g, "") || "scenario";
-}
-
-/** Touchstone text of the composite; per-port references when the system ports' Z0 differ. */
-export function compositeTouchstone(view: SolvedView, scenarioName: string): string {
-  const same = view.portZ0.every((z) => z === view.portZ0[0]);
-  const z0 = same ? view.portZ0[0] : Float64Array.from(view.portZ0.flatMap((z) => [z, 0]));
-  return writeTouchstone(
-    { frequencies: view.frequencies, s: view.s, z0, comments: [`Composite of scenario "${scenarioName}"`, `Ports: ${view.ports.map((p, k) => `${k + 1}=${p}`).join(" ")}`] },
-    { format: "RI", unit: "GHz" },
-  );
-}
 
 /** Traces, markers, the port matrix, the Smith chart, warnings and downloads of the latest solve. */
 export function ResultsPanel({ scenario, state }: ResultsPanelProps) {
