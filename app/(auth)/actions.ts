@@ -1,0 +1,91 @@
+"use server";
+
+import { redirect } from "next/navigation";
+import { z } from "zod";
+import { actionClientAddress, parseForm, runAction, safeNextPath } from "@/lib/actions";
+import { signIn, signUp } from "@/lib/auth/accounts";
+import { confirmPasswordReset, RESET_REQUESTED_MESSAGE, requestPasswordReset } from "@/lib/auth/password-reset";
+import {
+  blankSessionCookie,
+  getCurrentSession,
+  invalidateSessionToken,
+  readSessionTokenFromCookies,
+  setSessionCookie,
+} from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import type { FormState } from "@/lib/form-state";
+import { acceptInvitation } from "@/lib/invitations";
+import { signInSchema, signUpSchema } from "@/lib/validation/auth";
+import { emailSchema, passwordSchema, personNameSchema, tokenSchema } from "@/lib/validation/common";
+
+export async function signInAction(_previous: FormState, formData: FormData): Promise<FormState> {
+  let next = "/projects";
+  const state = await runAction(formData, async (values) => {
+    const input = parseForm(signInSchema, values);
+    const { cookie } = await signIn({ ...input, ip: await actionClientAddress() });
+    await setSessionCookie(cookie);
+    next = safeNextPath(values.next);
+  });
+  if (state.status === "success") redirect(next);
+  return state;
+}
+
+export async function signUpAction(_previous: FormState, formData: FormData): Promise<FormState> {
+  const state = await runAction(formData, async (values) => {
+    const input = parseForm(signUpSchema, values);
+    const { cookie } = await signUp(input);
+    await setSessionCookie(cookie);
+  });
+  if (state.status === "success") redirect("/projects");
+  return state;
+}
+
+export async function signOutAction(): Promise<void> {
+  await invalidateSessionToken(await readSessionTokenFromCookies());
+  await setSessionCookie(blankSessionCookie());
+  redirect("/sign-in");
+}
+
+export async function requestResetAction(_previous: FormState, formData: FormData): Promise<FormState> {
+  return runAction(formData, async (values) => {
+    const { email } = parseForm(z.object({ email: emailSchema }), values);
+    await requestPasswordReset({ email });
+    return { status: "success", message: RESET_REQUESTED_MESSAGE };
+  });
+}
+
+const resetFormSchema = z
+  .object({ token: tokenSchema, password: passwordSchema, confirmPassword: z.string() })
+  .refine((value) => value.password === value.confirmPassword, { error: "The two passwords differ.", path: ["confirmPassword"] });
+
+export async function resetPasswordAction(_previous: FormState, formData: FormData): Promise<FormState> {
+  const state = await runAction(formData, async (values) => {
+    const { token, password } = parseForm(resetFormSchema, values);
+    await confirmPasswordReset({ token, password });
+  });
+  if (state.status === "success") redirect("/sign-in?reset=1");
+  return state;
+}
+
+const acceptFormSchema = z.object({
+  token: tokenSchema,
+  name: personNameSchema.optional(),
+  password: passwordSchema.optional(),
+});
+
+export async function acceptInvitationAction(_previous: FormState, formData: FormData): Promise<FormState> {
+  let projectId = "";
+  const state = await runAction(formData, async (values) => {
+    const cleaned = Object.fromEntries(Object.entries(values).filter(([, v]) => v !== ""));
+    const input = parseForm(acceptFormSchema, cleaned);
+    const { user } = await getCurrentSession();
+    const result = await acceptInvitation({ ...input, currentUser: user });
+    if (result.signedIn) await setSessionCookie(result.signedIn.cookie);
+    projectId = result.projectId;
+  });
+  if (state.status === "success") {
+    if (!projectId) throw new AppError("internal", 500, "Invitation accepted without a project.");
+    redirect(`/projects/${projectId}`);
+  }
+  return state;
+}

@@ -1,0 +1,47 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { Alert } from "@/components/ui/alert";
+import { getUserByEmail } from "@/db/queries/users";
+import { getCurrentSession } from "@/lib/auth/session";
+import { findUsableInvitation } from "@/lib/invitations";
+import { tokenSchema } from "@/lib/validation/common";
+import { AcceptInvitationForm } from "./accept-invitation-form";
+
+export const metadata: Metadata = { title: "Invitation" };
+
+export default async function InvitationPage({ params }: { params: Promise<{ token: string }> }) {
+  const { token } = await params;
+  const invitation = tokenSchema.safeParse(token).success ? await findUsableInvitation({ token }) : null;
+  if (!invitation) {
+    return (
+      <div className="flex flex-col gap-5">
+        <h1 className="text-2xl font-semibold">Invitation</h1>
+        <Alert tone="error" title="This invitation cannot be used">
+          It has expired or was already used. Ask the project owner to invite you again.
+        </Alert>
+      </div>
+    );
+  }
+  const { user } = await getCurrentSession();
+  const hasAccount = !user && (await getUserByEmail({ email: invitation.email })) !== null;
+  return (
+    <div className="flex flex-col gap-5">
+      <div className="flex flex-col gap-1">
+        <h1 className="text-2xl font-semibold">Join {invitation.projectName}</h1>
+        <p className="text-sm text-muted">
+          You are invited as <span className="font-medium text-ink">{invitation.role}</span> ({invitation.email}).
+        </p>
+      </div>
+      {hasAccount ? (
+        <Alert tone="info" title="You already have an account">
+          <Link className="text-link" href={`/sign-in?next=${encodeURIComponent(`/invite/${token}`)}`}>
+            Sign in as {invitation.email}
+          </Link>{" "}
+          to accept.
+        </Alert>
+      ) : (
+        <AcceptInvitationForm token={token} signedInAs={user?.email ?? null} />
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,18 @@
+import type { ReactNode } from "react";
+import { AppHeader, MAIN_CONTENT_ID } from "@/components/shell/app-header";
+import { signOutAction } from "@/app/(auth)/actions";
+import { requireUser } from "@/lib/auth/session";
+import { isOutboxAvailable } from "@/lib/outbox";
+
+/** Every signed-in page: the header, then the page. Signed-out visitors go to /sign-in. */
+export default async function WorkspaceLayout({ children }: { children: ReactNode }) {
+  const user = await requireUser();
+  return (
+    <div className="flex min-h-dvh flex-col">
+      <AppHeader user={user} signOutAction={signOutAction} showOutbox={isOutboxAvailable()} />
+      <main id={MAIN_CONTENT_ID} className="mx-auto flex w-full max-w-[96rem] flex-1 flex-col px-4 py-6 sm:px-6">
+        {children}
+      </main>
+    </div>
+  );
+}

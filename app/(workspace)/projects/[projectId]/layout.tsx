@@ -1,0 +1,28 @@
+import type { ReactNode } from "react";
+import { PageHeader } from "@/components/shell/page-header";
+import { Badge } from "@/components/ui/badge";
+import { can } from "@/lib/permission-table";
+import { loadProject } from "./load-project";
+import { ProjectTabs, type ProjectTab } from "./project-tabs";
+
+export default async function ProjectLayout({ children, params }: { children: ReactNode; params: Promise<{ projectId: string }> }) {
+  const { projectId } = await params;
+  const { project } = await loadProject(projectId);
+  const base = `/projects/${project.id}`;
+  const tabs: ProjectTab[] = [
+    { href: base, label: "Overview", exact: true },
+    { href: `${base}/members`, label: "Members" },
+  ];
+  if (can(project.role, "audit.read")) tabs.push({ href: `${base}/audit`, label: "Audit log" });
+  return (
+    <div className="flex flex-col gap-5">
+      <PageHeader
+        breadcrumbs={[{ label: "Projects", href: "/projects" }, { label: project.name }]}
+        title={project.name}
+        actions={<Badge tone={project.role === "owner" ? "info" : "neutral"}>Your role: {project.role}</Badge>}
+      />
+      <ProjectTabs tabs={tabs} />
+      <div>{children}</div>
+    </div>
+  );
+}

@@ -1,0 +1,62 @@
+import "server-only";
+import { headers } from "next/headers";
+import { unstable_rethrow } from "next/navigation";
+import type { ZodType } from "zod";
+import { validationError } from "@/lib/api";
+import { AppError, isAppError } from "@/lib/errors";
+import type { FormState } from "@/lib/form-state";
+
+/** Fields never sent back to the browser in `values`. */
+const SECRET_FIELDS = new Set(["password", "confirmPassword", "token"]);
+
+/** Plain string entries of a form, for validation. */
+export function formEntries(formData: FormData): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [key, value] of formData.entries()) {
+    if (typeof value === "string" && !key.startsWith("$ACTION")) out[key] = value;
+  }
+  return out;
+}
+
+function safeValues(values: Record<string, string>): Record<string, string> {
+  return Object.fromEntries(Object.entries(values).filter(([key]) => !SECRET_FIELDS.has(key)));
+}
+
+/** Validate with zod or throw AppError 400 (rendered as field messages by `runAction`). */
+export function parseForm<T>(schema: ZodType<T>, values: unknown): T {
+  const result = schema.safeParse(values);
+  if (!result.success) throw validationError(result.error);
+  return result.data;
+}
+
+/**
+ * Run a server action body and turn AppErrors into form state. Redirects and other Next.js control
+ * flow pass through. Unexpected errors are logged without their input and shown as a general message.
+ */
+export async function runAction(formData: FormData, work: (values: Record<string, string>) => Promise<FormState | void>): Promise<FormState> {
+  const values = formEntries(formData);
+  try {
+    return (await work(values)) ?? { status: "success" };
+  } catch (error) {
+    unstable_rethrow(error);
+    if (isAppError(error)) {
+      return { status: "error", message: error.message, fields: error.fields, values: safeValues(values) };
+    }
+    console.error("[action] unexpected error:", error instanceof Error ? `${error.name}: ${error.message}` : String(error));
+    return { status: "error", message: "Something went wrong on the server. Try again.", values: safeValues(values) };
+  }
+}
+
+/** The client address of the current request (server actions), for throttling. */
+export async function actionClientAddress(): Promise<string> {
+  const { clientAddress } = await import("@/lib/auth/accounts");
+  return clientAddress(await headers());
+}
+
+/** A same-site relative path to go to after signing in, or the fallback. */
+export function safeNextPath(value: string | null | undefined, fallback = "/projects"): string {
+  if (!value || !value.startsWith("/") || value.startsWith("//") || value.startsWith("/\\")) return fallback;
+  return value;
+}
+
+export { AppError };
