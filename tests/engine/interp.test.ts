@@ -89,7 +89,7 @@ describe("interpolateS()", () => {
     expect(() => interpolateS(ramp(f(1, 1)), f(1, 1), f(1), { name: "BAD" })).toThrow(/strictly increasing/);
   });
 
-  it("costs O(nf + m): 200 000 plan points over 100 000 data points of a 4-port in well under a second", () => {
+  it("costs O(nf + m): 200 000 plan points over 100 000 data points of a 4-port in a few seconds at most", () => {
     const nf = 100_000;
     const from = new Float64Array(nf);
     for (let k = 0; k < nf; k++) from[k] = 1e9 + k * 1e4;
@@ -98,7 +98,8 @@ describe("interpolateS()", () => {
     for (let i = 0; i < plan.length; i++) plan[i] = 1e9 + i * 4.99e3;
     const t0 = performance.now();
     interpolateS(s, from, plan, { name: "BIG" });
-    expect(performance.now() - t0).toBeLessThan(1500);
+    // a quadratic search would take minutes here; the bound leaves room for a busy shared machine
+    expect(performance.now() - t0).toBeLessThan(5000);
   });
 
   it("matches scikit-rf 0.15.4 Network.interpolate (linear, cartesian) on a 4-port fixture to 1e-12", (ctx) => {

@@ -165,7 +165,7 @@ describe("parseTouchstone() never hangs", () => {
       const t0 = performance.now();
       const e = refusal(text, { name: "junk.s2p" });
       expect(e.line).toBeGreaterThanOrEqual(1);
-      expect(performance.now() - t0).toBeLessThan(2000);
+      expect(performance.now() - t0).toBeLessThan(5000);
     }
   });
 
@@ -178,7 +178,7 @@ describe("parseTouchstone() never hangs", () => {
       const t0 = performance.now();
       const e = refusal(text, { name });
       expect(e.line).toBeGreaterThanOrEqual(1);
-      expect(performance.now() - t0).toBeLessThan(2000);
+      expect(performance.now() - t0).toBeLessThan(5000);
     }
   });
 
