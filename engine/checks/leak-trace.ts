@@ -7,6 +7,7 @@ import { evaluateBlock, idealizeBlock } from "../blocks";
 import { solveSystem } from "../network";
 import { bandIndices, formatHz, nearestIndex, portIndex } from "./band";
 import { db20 } from "./conversions";
+import { DB_FLOOR } from "./types";
 import { addEdge, createGraph, kShortestPaths } from "./k-shortest-paths";
 import { sliceS, sliceSystem } from "./slice-system";
 
@@ -291,7 +292,9 @@ function idealWhatIf(one: PreparedSystem, id: string, m: number, t: number, true
     const valueDb = db20(Math.hypot(sol.s.data[o], sol.s.data[o + 1]));
     const improvementDb = trueDb - valueDb;
     const what = self ? `${pair.replace(" reflection", "")} return loss` : `${pair} isolation`;
-    const message = Math.abs(improvementDb) < 0.005
+    const message = valueDb <= DB_FLOOR
+      ? `if ${id} were ideal, ${pair} would carry nothing (below ${DB_FLOOR} dB): every leak path runs through ${id}`
+      : Math.abs(improvementDb) < 0.005
       ? `if ${id} were ideal, ${what} would not change (${valueDb.toFixed(2)} dB)`
       : `if ${id} were ideal, ${what} would ${improvementDb > 0 ? "improve" : "worsen"} by ${Math.abs(improvementDb).toFixed(2)} dB`;
     return { block: id, kind, ideal, valueDb, improvementDb, message };

@@ -61,7 +61,7 @@ describe("portolan check", () => {
     expect((await run(["nope.json"])).code).toBe(2);
     const unknown = await run([scenarioFile("unknown.json", [{ kind: "match", port: "ANT", band: [1e9, 2e9], max_vswr: 2 }])]);
     expect(unknown.code).toBe(2);
-    expect(unknown.err).toMatch(/unknown system port "ANT"/);
+    expect(unknown.err).toMatch(/rules\[0\]\.port.*ANT/);
     const empty = await run([scenarioFile("empty.json", [{ kind: "match", id: "m", port: "IN", band: [3e9, 4e9], max_vswr: 2 }])]);
     expect(empty.code).toBe(2);
     expect(empty.err).toMatch(/rule "m"/);

@@ -1,5 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { solveSystem } from "@/engine/network";
+import { prepareSystem } from "@/engine/system";
+import { idealizeBlock } from "@/engine/blocks";
+import type { Scenario } from "@/engine/types";
 import { leakTrace } from "@/engine/checks/leak-trace";
 import { buildSystem, c, fromDb, onePort, twoPort, type C, type TestBlock } from "./checks-helpers";
 
@@ -113,5 +116,53 @@ describe("leakTrace()", () => {
     expect(lt.ranking).toBe("exact");
     expect(lt.paths[0].db).toBeCloseTo(14, 10);
     expect(lt.paths.every((p, i) => i === 0 || p.db <= lt.paths[i - 1].db + 1e-12)).toBe(true);
+  });
+});
+
+describe("leakTrace() on block models", () => {
+  // The same transmit/receive arrangement from built-in models: circulator (IL 1 dB, isolation 20 dB; with
+  // t + ι = 0.891 + 0.1 ≤ 1 the model keeps both as entered), antenna (return loss 10 dB), SPDT switch
+  // (IL 0.4 dB, isolation 25 dB) set to its second throw while transmitting. The reflection off the antenna
+  // through the circulator and the switch isolation (−1 − 10 − 1 − 25 = −37 dB) dominates the circulator's
+  // own isolation (−20 − 25 = −45 dB).
+  const scenario: Scenario = {
+    format: "portolan.scenario/1",
+    name: "T/R leak",
+    z0: 50,
+    frequency: { list: [2.4e9, 2.45e9, 2.5e9] },
+    blocks: [
+      { id: "CIRC", kind: "circulator", params: { insertion_loss_db: 1, isolation_db: 20 } },
+      { id: "ANT", kind: "antenna", params: { return_loss_db: 10 } },
+      { id: "SW", kind: "switch", params: { throws: 2, insertion_loss_db: 0.4, isolation_db: 25 }, state: 2 },
+    ],
+    links: [["CIRC:2", "ANT:1"], ["CIRC:3", "SW:1"]],
+    ports: [{ name: "TX", at: "CIRC:1" }, { name: "RX", at: "SW:2" }],
+  };
+  const sol = solveSystem(prepareSystem(scenario));
+  const r = leakTrace(sol, { from: "TX", to: "RX", frequencyHz: 2.45e9 });
+
+  it("finds the antenna reflection first and the circulator isolation second", () => {
+    expect(r.frequencyHz).toBe(2.45e9);
+    expect(r.paths[0].hops.map((h) => h.block)).toEqual(["CIRC", "ANT", "CIRC", "SW"]);
+    expect(r.paths[0].db).toBeCloseTo(-37, 6);
+    expect(r.paths[1].hops.map((h) => h.block)).toEqual(["CIRC", "SW"]);
+    expect(r.paths[1].db).toBeCloseTo(-45, 6);
+    expect(Math.abs(r.accountedDb)).toBeLessThan(0.01);
+  });
+
+  it("each ideal-block what-if equals a separate solve of the scenario with that block idealised", () => {
+    for (const w of r.whatIf) {
+      const modified: Scenario = { ...scenario, blocks: scenario.blocks.map((b) => (b.id === w.block ? idealizeBlock(b) : b)) };
+      const sep = solveSystem(prepareSystem(modified));
+      const k = 1; // 2.45 GHz
+      const o = 2 * ((k * 2 + 1) * 2 + 0);
+      const sepDb = Math.max(-400, db(Math.hypot(sep.s.data[o], sep.s.data[o + 1])));
+      expect(w.valueDb).toBeCloseTo(sepDb, 9);
+      expect(w.improvementDb).toBeCloseTo(r.trueDb - sepDb, 9);
+    }
+    const ant = r.whatIf.find((w) => w.block === "ANT");
+    expect(ant?.valueDb).toBeCloseTo(-45, 6); // only the circulator-isolation path is left
+    const sw = r.whatIf.find((w) => w.block === "SW");
+    expect(sw?.message).toMatch(/every leak path runs through SW/);
   });
 });
