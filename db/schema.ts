@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 
 export const ROLES = ["owner", "engineer", "reviewer"] as const;
 export type Role = (typeof ROLES)[number];
@@ -163,3 +163,133 @@ export const outboxMessages = sqliteTable(
 );
 export type OutboxMessage = typeof outboxMessages.$inferSelect;
 export type NewOutboxMessage = typeof outboxMessages.$inferInsert;
+
+// ---------------------------------------------------------------------------------------------------
+// Scenarios, their revisions, parts, project rules and check runs (issue 5).
+
+/** A named chart in a project; its content lives in revisions, the newest being the current one. */
+export const scenarios = sqliteTable(
+  "scenarios",
+  {
+    id: text("id").primaryKey(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    /** Id of the newest revision (null only inside the transaction that creates the scenario). */
+    latestRevisionId: text("latest_revision_id"),
+    /** Number of the newest revision; revisions count 1, 2, 3… per scenario. */
+    latestRevisionNumber: integer("latest_revision_number").notNull().default(0),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+      .notNull()
+      .default(sql`(unixepoch() * 1000)`),
+  },
+  (table) => [index("scenarios_project_id_idx").on(table.projectId, table.name)],
+);
+export type ScenarioRow = typeof scenarios.$inferSelect;
+export type NewScenarioRow = typeof scenarios.$inferInsert;
+
+/** One saved state of a scenario. Never updated: a restore writes a new revision with the old content. */
+export const scenarioRevisions = sqliteTable(
+  "scenario_revisions",
+  {
+    id: text("id").primaryKey(),
+    scenarioId: text("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    number: integer("number").notNull(),
+    /** The scenario file JSON (DESIGN "Scenario file"), plus the workspace's `expr` and `position` per block. */
+    content: text("content", { mode: "json" }).notNull().$type<Record<string, unknown>>(),
+    /** SHA-256 (hex) of the canonical JSON of `content` (keys sorted); sign-offs bind to it. */
+    contentHash: text("content_hash").notNull(),
+    /** Engine reference problems found when saving (a draft may be incomplete); empty when it solves. */
+    warnings: text("warnings", { mode: "json" }).notNull().$type<string[]>(),
+    /** Why this revision exists: "create", "save", "restore", "duplicate", "seed". */
+    origin: text("origin").notNull().default("save"),
+    /** For a restore: the number of the revision whose content was restored. */
+    restoredFrom: integer("restored_from"),
+    authorId: text("author_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("scenario_revisions_number_idx").on(table.scenarioId, table.number)],
+);
+export type ScenarioRevision = typeof scenarioRevisions.$inferSelect;
+export type NewScenarioRevision = typeof scenarioRevisions.$inferInsert;
+
+/** An uploaded Touchstone data set in a project's library; blocks name it as `parts/<file_name>`. */
+export const parts = sqliteTable(
+  "parts",
+  {
+    id: text("id").primaryKey(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    fileName: text("file_name").notNull(),
+    /** The file exactly as uploaded. */
+    text: text("text").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    ports: integer("ports").notNull(),
+    version: text("version").notNull(),
+    points: integer("points").notNull(),
+    startHz: real("start_hz").notNull(),
+    stopHz: real("stop_hz").notNull(),
+    /** Per-port reference impedance, Ω, as [re, im] pairs. */
+    referenceOhms: text("reference_ohms", { mode: "json" }).notNull().$type<[number, number][]>(),
+    /** Largest singular value of S over frequency (≤ 1 for passive data) and where. */
+    maxSingular: real("max_singular").notNull(),
+    maxSingularHz: real("max_singular_hz").notNull(),
+    /** Largest |S_ij − S_ji| over frequency (0 for reciprocal data) and where. */
+    reciprocityError: real("reciprocity_error").notNull(),
+    reciprocityHz: real("reciprocity_hz").notNull(),
+    uploadedBy: text("uploaded_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("parts_project_file_name_idx").on(table.projectId, table.fileName)],
+);
+export type Part = typeof parts.$inferSelect;
+export type NewPart = typeof parts.$inferInsert;
+
+/** A project-level saved requirement (the `RuleSpec` of a scenario file, kept for reuse across scenarios). */
+export const rules = sqliteTable(
+  "rules",
+  {
+    id: text("id").primaryKey(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    kind: text("kind").notNull(),
+    spec: text("spec", { mode: "json" }).notNull().$type<Record<string, unknown>>(),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+      .notNull()
+      .default(sql`(unixepoch() * 1000)`),
+  },
+  (table) => [index("rules_project_id_idx").on(table.projectId)],
+);
+export type RuleRow = typeof rules.$inferSelect;
+export type NewRuleRow = typeof rules.$inferInsert;
+
+/** One check run over a scenario revision, with its verdict and figures. */
+export const checkRuns = sqliteTable(
+  "check_runs",
+  {
+    id: text("id").primaryKey(),
+    scenarioId: text("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    revisionId: text("revision_id").references(() => scenarioRevisions.id, { onDelete: "set null" }),
+    userId: text("user_id").references(() => users.id, { onDelete: "set null" }),
+    check: text("check").notNull(),
+    inputs: text("inputs", { mode: "json" }).$type<Record<string, unknown>>(),
+    verdict: text("verdict", { enum: ["pass", "fail", "warn"] }).notNull(),
+    figures: text("figures", { mode: "json" }).$type<Record<string, unknown>>(),
+    createdAt: createdAt(),
+  },
+  (table) => [index("check_runs_scenario_id_idx").on(table.scenarioId, table.createdAt)],
+);
+export type CheckRun = typeof checkRuns.$inferSelect;
+export type NewCheckRun = typeof checkRuns.$inferInsert;
