@@ -11,9 +11,9 @@
  * - off_state absorptive: unselected throws matched (S = 0 on the diagonal);
  *   off_state reflective: unselected throws reflect Γ = +t (real), what the closed switching element
  *   passes when the selected path is lossless; Γ → 1 as IL → 0.
- * The opposite signs of the common and selected-throw leakage are chosen so that, for the reflective
- * switch without off↔off terms, the columns are orthogonal and σ_max² = t² + 2(n−1)ι² exactly; these
- * choices keep the most transmission once passivity is enforced. Passive for every legal value: when
+ * The opposite signs of the common and selected-throw leakage are chosen so that the columns of the
+ * reflective switch without off↔off terms (exactly the SPDT) are orthogonal and σ_max² = t² + 2(n−1)ι²;
+ * these choices keep the most transmission once passivity is enforced. Passive for every legal value: when
  * t and the leakage together exceed the energy balance (for example IL = 0 with finite isolation),
  * the selected path (and the reflective Γ with it) is reduced by passivate and a warning says by how
  * much; the leakage stays as entered. Lossless: the reflective switch with ISO = ∞ and IL = 0.
