@@ -20,7 +20,11 @@ export function placeBlockError(blockWhere: string, blockId: string, err: unknow
   const message = err.message.startsWith(`${err.where}: `) ? err.message.slice(err.where.length + 2) : err.message;
   const prefix = `block ${blockId}`;
   let sub: string;
-  if (err.where.startsWith(`${prefix}, parameter `)) sub = `.params.${err.where.slice(prefix.length + 12)}`;
+  if (err.where.startsWith(`${prefix}, parameter `)) {
+    const name = err.where.slice(prefix.length + 12);
+    // a switch's state sits on the block, beside its params
+    sub = name === "state" ? ".state" : `.params.${name}`;
+  }
   else if (err.where.startsWith(`${prefix}, `)) sub = `.${err.where.slice(prefix.length + 2)}`;
   else if (err.where === prefix || err.where === blockId) sub = "";
   else if (err.where.startsWith("params")) sub = `.${err.where}`;

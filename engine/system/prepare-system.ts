@@ -58,7 +58,8 @@ function evaluatePart(
       result = interpolateS(referenced, part.frequencies, frequencies, { name: block.id, extrapolate: mode });
     } catch (err) {
       if (err instanceof EngineInputError) {
-        throw new EngineInputError(block.data !== undefined ? `${where}.data` : `${where}.file`, `${err.message} (set "extrapolate": "hold" to hold the end values, with a warning)`);
+        const inner = err.message.startsWith(`${err.where}: `) ? err.message.slice(err.where.length + 2) : err.message;
+        throw new EngineInputError(block.data !== undefined ? `${where}.data` : `${where}.file`, inner);
       }
       throw err;
     }

@@ -1,0 +1,130 @@
+/**
+ * The command line, run as a separate process as a person would run it:
+ * `node --import tsx engine/cli.ts solve <scenario.json> [--json] [--out file.sNp]`.
+ */
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { afterAll, describe, expect, it } from "vitest";
+import { parseTouchstone } from "../../engine/touchstone";
+
+const ROOT = fileURLToPath(new URL("../../", import.meta.url));
+const FIXTURES = "tests/fixtures/scenarios";
+const work = mkdtempSync(join(tmpdir(), "portolan-cli-"));
+afterAll(() => rmSync(work, { recursive: true, force: true }));
+
+function cli(...args: string[]): { code: number | null; stdout: string; stderr: string } {
+  const run = spawnSync(process.execPath, ["--import", "tsx", "engine/cli.ts", ...args], { cwd: ROOT, encoding: "utf8", maxBuffer: 1 << 28 });
+  return { code: run.status, stdout: run.stdout, stderr: run.stderr };
+}
+
+/** Writes a scenario (or raw text) to the temporary folder and returns its path. */
+function scenarioFile(name: string, content: unknown): string {
+  const path = join(work, name);
+  writeFileSync(path, typeof content === "string" ? content : JSON.stringify(content, null, 2));
+  return path;
+}
+
+const twoPads = () => JSON.parse(readFileSync(join(ROOT, FIXTURES, "two-pads.json"), "utf8"));
+
+describe("portolan solve", () => {
+  it("prints the composite as Touchstone 1.1 that reads back (two 3 dB pads give 6 dB)", () => {
+    const r = cli("solve", `${FIXTURES}/two-pads.json`);
+    expect(r.stderr).toBe("");
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/^! Portolan composite of scenario "Two 3 dB pads"/);
+    expect(r.stdout).toMatch(/port 1: IN/);
+    expect(r.stdout).toMatch(/^# Hz S RI R 50$/m);
+    const back = parseTouchstone(r.stdout, { name: "out.s2p" });
+    expect(back.ports).toBe(2);
+    expect(Array.from(back.frequencies)).toEqual([1e9, 1.5e9, 2e9]);
+    // cascaded matched pads add in dB (common practice): |S21| = 10^(−6/20)
+    expect(back.s.data[2 * 2]).toBeCloseTo(Math.pow(10, -6 / 20), 10);
+  });
+
+  it("prints JSON with frequencies, ports, S as [re, im], warnings and the solve time", () => {
+    const r = cli("solve", `${FIXTURES}/telemetry-front-end.json`, "--json");
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.ports).toEqual(["TX", "RX", "DET"]);
+    expect(out.frequencies).toHaveLength(101);
+    expect(out.frequencies[0]).toBe(2.2e9);
+    expect(out.s).toHaveLength(101);
+    expect(out.s[0]).toHaveLength(3);
+    expect(out.s[0][0]).toHaveLength(3);
+    expect(out.s[0][0][0]).toHaveLength(2);
+    expect(typeof out.s[50][1][0][0]).toBe("number");
+    expect(out.warnings).toContain("block CPL port 4 is not linked and not a system port: treated as a matched termination");
+    expect(typeof out.solve_ms).toBe("number");
+  });
+
+  it("writes Touchstone 2.0 with [Reference] when system ports have their own Z0", () => {
+    const r = cli("solve", `${FIXTURES}/mixed-z0-pad.json`);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/\[Version\] 2\.0/);
+    const back = parseTouchstone(r.stdout, { name: "out.s2p" });
+    expect(Array.from(back.z0)).toEqual([50, 0, 75, 0]);
+  });
+
+  it("writes the file named by --out and refuses a name with the wrong port count", () => {
+    const out = join(work, "pads.s2p");
+    const r = cli("solve", `${FIXTURES}/two-pads.json`, "--out", out);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toBe("");
+    expect(parseTouchstone(readFileSync(out, "utf8"), { name: "pads.s2p" }).ports).toBe(2);
+    const wrong = cli("solve", `${FIXTURES}/two-pads.json`, "--out", join(work, "pads.s3p"));
+    expect(wrong.code).toBe(2);
+    expect(wrong.stderr).toMatch(/must end \.s2p/);
+  });
+
+  it("exits 2 with one line naming the JSON path of a bad parameter", () => {
+    const s = twoPads();
+    s.blocks[1].params.loss_db = -3;
+    const path = scenarioFile("bad-loss.json", s);
+    const r = cli("solve", path);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe("");
+    expect(r.stderr.trim().split("\n")).toHaveLength(1);
+    expect(r.stderr).toMatch(/bad-loss\.json: blocks\[1\]\.params\.loss_db: .*-3/);
+  });
+
+  it("exits 2 for a link to an unknown block", () => {
+    const s = twoPads();
+    s.links[0][1] = "PAD9:1";
+    const r = cli("solve", scenarioFile("bad-link.json", s));
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/bad-link\.json: links\[0\]\[1\]: no block with id "PAD9"/);
+  });
+
+  it("exits 2 for invalid JSON with line and column", () => {
+    const r = cli("solve", scenarioFile("broken.json", '{\n  "format": "portolan.scenario/1",\n  "name": "x"\n  "z0": 50\n}'));
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/broken\.json: line 4, column 3: invalid JSON/);
+  });
+
+  it("exits 2 for a missing scenario file", () => {
+    const r = cli("solve", "no/such/scenario.json");
+    expect(r.code).toBe(2);
+    expect(r.stderr.trim()).toBe("no/such/scenario.json: cannot read scenario file: no such file");
+  });
+
+  it("exits 2 for a missing part file, naming the block's file field", () => {
+    const s = JSON.parse(readFileSync(join(ROOT, FIXTURES, "telemetry-front-end.json"), "utf8"));
+    const r = cli("solve", scenarioFile("no-part.json", s));
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/no-part\.json: blocks\[5\]\.file: cannot read part file "parts\/telemetry-patch\.s1p"/);
+  });
+
+  it("exits 2 for an unknown option or command, and prints usage for --help", () => {
+    expect(cli("solve", `${FIXTURES}/two-pads.json`, "--bogus").code).toBe(2);
+    expect(cli("frobnicate").code).toBe(2);
+    const help = cli("--help");
+    expect(help.code).toBe(0);
+    expect(help.stdout).toMatch(/portolan solve <scenario\.json> \[--json\] \[--out file\.sNp\]/);
+    const solveHelp = cli("solve", "--help");
+    expect(solveHelp.code).toBe(0);
+    expect(solveHelp.stdout).toMatch(/--json/);
+  });
+});
