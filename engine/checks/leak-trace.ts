@@ -145,6 +145,9 @@ function buildGraph(sys: PreparedSystem, k: number) {
  * with the diagonal set to zero (perfect match at every port, transmissions and leakage kept as measured).
  * The modified system is solved exactly (solveSystem with `replace`) at the traced frequency.
  *
+ * The graph is built from solution.system's blocks: trace a solution solved without `replace` (the
+ * Solution does not record replacements).
+ *
  * @param solution solved composite
  * @param opts source and target system port names, frequency or band, K, what-ifs on/off
  * @returns LeakTraceResult (plain JSON)
@@ -230,7 +233,7 @@ export function leakTrace(solution: Solution, opts: LeakTraceOptions): LeakTrace
   if (opts.whatIf !== false) {
     const onPaths: string[] = [];
     for (const p of paths) for (const h of p.hops) if (h.kind === "block" && !onPaths.includes(h.block)) onPaths.push(h.block);
-    const one = sliceSystem(sys, [k]);
+    const one = oneFrequency(sys, k);
     for (const id of onPaths) whatIf.push(idealWhatIf(one, id, m, t, trueDb, pair, m === t));
   }
   return {
@@ -253,6 +256,28 @@ export function leakTrace(solution: Solution, opts: LeakTraceOptions): LeakTrace
     whatIf,
     messages,
   };
+}
+
+const slices = new WeakMap<PreparedSystem, PreparedSystem>();
+
+/**
+ * A one-frequency copy of `sys` at plan index k, kept per system and refilled in place on later calls so
+ * that the join plan cached on it (by solveSystem) is built once per system, not once per trace.
+ * Callers must use it before the next call (the engine runs single-threaded).
+ */
+function oneFrequency(sys: PreparedSystem, k: number): PreparedSystem {
+  const one = slices.get(sys);
+  if (!one) {
+    const made = sliceSystem(sys, [k]);
+    slices.set(sys, made);
+    return made;
+  }
+  one.frequencies[0] = sys.frequencies[k];
+  sys.blocks.forEach((b, i) => {
+    const nn = 2 * b.s.n * b.s.n;
+    one.blocks[i].s.data.set(b.s.data.subarray(k * nn, (k + 1) * nn));
+  });
+  return one;
 }
 
 /**
@@ -286,7 +311,7 @@ function idealWhatIf(one: PreparedSystem, id: string, m: number, t: number, true
   try {
     const r = idealS(one, id);
     ideal = r.ideal;
-    const sol = solveSystem(one, { replace: { [id]: r.s } });
+    const sol = solveSystem(one, { replace: { [id]: r.s }, waves: false });
     const n = sol.s.n;
     const o = 2 * (t * n + m);
     const valueDb = db20(Math.hypot(sol.s.data[o], sol.s.data[o + 1]));

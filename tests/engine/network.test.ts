@@ -288,6 +288,29 @@ describe("bookkeeping", () => {
     expect(() => solveSystem(twice)).toThrow(EngineInputError);
   });
 
+  it("internalWaves() of an older solution stays right after later solves of the same system (and writes into `out`)", () => {
+    const r = rng(21);
+    const def = randomTopology(r, { blocks: 5, maxPorts: 3, extraLinks: 1, flavour: "passive", unterminated: true, nf: 3, portZ0: [50, 75] });
+    const sys = makeSystem(def);
+    const E = sys.systemPorts.length;
+    const inc = Float64Array.from({ length: 2 * 3 * E }, () => 2 * r() - 1);
+    const first = solveSystem(sys);
+    const other = randomS(r, def.blocks[1].s.n, 3, 0.3);
+    const second = solveSystem(sys, { replace: { B1: other } });
+    // dense solves keep their own data: the references
+    const want1 = internalWaves(solveDense(sys), inc);
+    const want2 = internalWaves(solveDense(sys, { replace: { B1: other } }), inc);
+    const got1 = internalWaves(first, inc);
+    expect(maxDiff(got1.a, want1.a)).toBeLessThan(1e-12);
+    expect(maxDiff(got1.b, want1.b)).toBeLessThan(1e-12);
+    const out = { a: new Float64Array(got1.a.length).fill(7), b: new Float64Array(got1.b.length).fill(7) };
+    const got2 = internalWaves(second, inc, out);
+    expect(got2.a).toBe(out.a);
+    expect(maxDiff(got2.a, want2.a)).toBeLessThan(1e-12);
+    expect(maxDiff(got2.b, want2.b)).toBeLessThan(1e-12);
+    expect(maxDiff(internalWaves(first, inc).a, want1.a)).toBeLessThan(1e-12);
+  });
+
   it("internalWaves() needs the wave data of a solve and an excitation of the right length", () => {
     const r = rng(2);
     const sys = makeSystem({ blocks: [{ id: "A", s: randomS(r, 2, 3) }], links: [], ports: [{ name: "X", at: "A:1" }] });
