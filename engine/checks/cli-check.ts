@@ -36,7 +36,7 @@ export function formatCheckTable(r: AllChecksResult): string {
   const w0 = Math.max(...rows.map((x) => x[0].length));
   const w1 = Math.max(...rows.map((x) => x[1].length));
   for (const [a, b, c] of rows) lines.push(`${(a === "verdict" ? a : a.toUpperCase()).padEnd(w0)}  ${b.padEnd(w1)}  ${c}`);
-  const notes = r.checks.filter((c) => c.verdict !== "pass").flatMap((c) => c.messages.slice(0, 3).map((m) => `  ${c.name}: ${m}`));
+  const notes = r.checks.filter((c) => c.verdict !== "pass").flatMap((c) => c.messages.slice(0, 3).map((m) => `  ${m}`));
   if (notes.length > 0) lines.push("", "Details:", ...notes);
   if (r.warnings.length > 0) lines.push("", "Warnings:", ...r.warnings.map((w) => `  ${w}`));
   return `${lines.join("\n")}\n`;
