@@ -1,0 +1,69 @@
+import { createPart, listParts } from "@/db/queries/parts";
+import { apiRoute, json, parseWith } from "@/lib/api";
+import { AppError } from "@/lib/errors";
+import { PART_MAX_BYTES, partFileNameSchema, partNameSchema } from "@/lib/validation/parts";
+
+type Params = { projectId: string };
+
+/** Room for the multipart boundaries and the other fields around the file. */
+const MULTIPART_OVERHEAD_BYTES = 64 * 1024;
+
+const tooLarge = () =>
+  new AppError("payload_too_large", 413, `The file is larger than the limit of ${PART_MAX_BYTES / (1024 * 1024)} MB for a part. Reduce the number of frequency points or split the file.`);
+
+/** The body as bytes, refusing more than `limit` (413) before anything is parsed. */
+async function readLimitedBytes(request: Request, limit: number): Promise<Buffer> {
+  const declared = Number(request.headers.get("content-length"));
+  if (Number.isFinite(declared) && declared > limit) throw tooLarge();
+  if (!request.body) return Buffer.alloc(0);
+  const reader = request.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let total = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    total += value.byteLength;
+    if (total > limit) {
+      await reader.cancel().catch(() => undefined);
+      throw tooLarge();
+    }
+    chunks.push(value);
+  }
+  return Buffer.concat(chunks);
+}
+
+/** GET …/parts[?text=1] → { parts } with figures and a preview trace; `text=1` adds each Touchstone text. */
+export const GET = apiRoute<Params>(async (ctx) => {
+  const withText = new URL(ctx.request.url).searchParams.get("text") === "1";
+  const user = await ctx.requireUser();
+  return json({ parts: await listParts({ userId: user.id, projectId: ctx.params.projectId, withText }) });
+});
+
+/**
+ * POST multipart/form-data { file, name? } → 201 { part } (engineers, owners).
+ * 413 above 5 MB, 415 when not multipart, 422 when the file cannot be read (the message names the line),
+ * 409 when the project already has a part file of that name. Nothing is written unless all is well.
+ */
+export const POST = apiRoute<Params>(async (ctx) => {
+  const type = ctx.request.headers.get("content-type") ?? "";
+  if (!type.toLowerCase().startsWith("multipart/form-data")) {
+    throw new AppError("unsupported_media_type", 415, "Upload the Touchstone file as multipart/form-data with a field named file.");
+  }
+  const user = await ctx.requireUser();
+  const bytes = await readLimitedBytes(ctx.request, PART_MAX_BYTES + MULTIPART_OVERHEAD_BYTES);
+  let form: FormData;
+  try {
+    form = await new Response(new Blob([new Uint8Array(bytes)]), { headers: { "content-type": type } }).formData();
+  } catch {
+    throw new AppError("bad_request", 400, "The upload could not be read as a form.");
+  }
+  const file = form.get("file");
+  if (!(file instanceof Blob)) throw new AppError("validation_failed", 400, "Choose a Touchstone file to upload.", { file: "Choose a Touchstone file." });
+  if (file.size > PART_MAX_BYTES) throw tooLarge();
+  const fileName = parseWith(partFileNameSchema, "name" in file && typeof file.name === "string" ? file.name : "");
+  const nameField = form.get("name");
+  const name = parseWith(partNameSchema, typeof nameField === "string" ? nameField : "");
+  const text = new TextDecoder("utf-8", { fatal: false }).decode(await file.arrayBuffer());
+  const part = await createPart({ actor: user, projectId: ctx.params.projectId, name, fileName, text });
+  return json({ part }, { status: 201 });
+});

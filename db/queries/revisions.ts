@@ -1,0 +1,228 @@
+import "server-only";
+import { createHash, randomUUID } from "node:crypto";
+import { and, desc, eq } from "drizzle-orm";
+import { db, runInTransaction, type Executor } from "@/db/client";
+import { scenarioRevisions, scenarios, users, type ScenarioRevision } from "@/db/schema";
+import { parseScenario } from "@/engine/scenario";
+import type { Scenario } from "@/engine/types";
+import { scenarioForEngine } from "@/lib/client/scenario-model";
+import { recordAudit } from "@/lib/audit";
+import type { SessionUser } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { authorize } from "@/lib/permissions";
+import type { DraftScenario } from "@/lib/validation/scenarios";
+import { getPartTexts } from "./parts";
+
+export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed";
+
+/** A revision as the API returns it. */
+export type RevisionDetail = {
+  id: string;
+  number: number;
+  content: Scenario;
+  contentHash: string;
+  warnings: string[];
+  origin: string;
+  restoredFrom: number | null;
+  authorName: string | null;
+  createdAt: Date;
+};
+
+/** A revision in the history list (no content). */
+export type RevisionSummary = Omit<RevisionDetail, "content">;
+
+/** JSON with object keys sorted at every level, no whitespace: equal content gives equal text. */
+export function canonicalJson(value: unknown): string {
+  if (value === null || typeof value !== "object") return JSON.stringify(value) ?? "null";
+  if (Array.isArray(value)) return `[${value.map((v) => canonicalJson(v === undefined ? null : v)).join(",")}]`;
+  const entries = Object.entries(value as Record<string, unknown>)
+    .filter(([, v]) => v !== undefined)
+    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+  return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
+}
+
+/** SHA-256 (hex) of the canonical JSON of a scenario: what a sign-off binds to. */
+export function hashScenarioContent(content: unknown): string {
+  return createHash("sha256").update(canonicalJson(content), "utf8").digest("hex");
+}
+
+/**
+ * What the engine says about a (possibly incomplete) scenario: reference problems, missing parts.
+ * Saving never fails on these; they are stored with the revision and shown as warnings.
+ */
+export function scenarioWarnings(content: Scenario, partTexts: Record<string, string>): string[] {
+  const warnings: string[] = [];
+  if (content.blocks.length === 0) warnings.push("The chart has no blocks yet.");
+  if (content.ports.length === 0) warnings.push("No system ports are marked yet.");
+  for (const block of content.blocks) {
+    if (block.kind === "touchstone" && block.data === undefined && block.file !== undefined && partTexts[block.file] === undefined) {
+      warnings.push(`Block ${block.id} uses ${block.file}, which is not among the project's parts.`);
+    }
+  }
+  if (warnings.length > 0) return warnings;
+  try {
+    parseScenario(scenarioForEngine(content), { parts: partTexts });
+  } catch (error) {
+    warnings.push(error instanceof Error ? error.message : String(error));
+  }
+  return warnings;
+}
+
+const revisionColumns = {
+  id: scenarioRevisions.id,
+  number: scenarioRevisions.number,
+  contentHash: scenarioRevisions.contentHash,
+  warnings: scenarioRevisions.warnings,
+  origin: scenarioRevisions.origin,
+  restoredFrom: scenarioRevisions.restoredFrom,
+  authorName: users.name,
+  createdAt: scenarioRevisions.createdAt,
+};
+
+/**
+ * Write revision `latestRevisionNumber + 1` of a scenario and make it the latest. Call inside the
+ * transaction of the change (the scenario row must exist).
+ */
+export async function insertRevision(
+  tx: Executor,
+  {
+    scenarioId,
+    projectId,
+    content,
+    authorId,
+    origin,
+    restoredFrom = null,
+  }: { scenarioId: string; projectId: string; content: Scenario | DraftScenario; authorId: string | null; origin: RevisionOrigin; restoredFrom?: number | null },
+): Promise<RevisionDetail> {
+  const [row] = await tx
+    .select({ number: scenarios.latestRevisionNumber, name: scenarios.name })
+    .from(scenarios)
+    .where(eq(scenarios.id, scenarioId));
+  if (!row) throw new AppError("not_found", 404, "Scenario not found.");
+  const number = row.number + 1;
+  // the row's name is the scenario's name; the file's `name` follows it
+  const stored = { ...(content as Scenario), name: row.name };
+  const warnings = scenarioWarnings(stored, await getPartTexts({ projectId, executor: tx }));
+  const id = randomUUID();
+  const now = new Date();
+  const contentHash = hashScenarioContent(stored);
+  await tx.insert(scenarioRevisions).values({
+    id,
+    scenarioId,
+    number,
+    content: stored as unknown as Record<string, unknown>,
+    contentHash,
+    warnings,
+    origin,
+    restoredFrom,
+    authorId,
+    createdAt: now,
+  });
+  await tx.update(scenarios).set({ latestRevisionId: id, latestRevisionNumber: number, updatedAt: now }).where(eq(scenarios.id, scenarioId));
+  let authorName: string | null = null;
+  if (authorId) {
+    const [author] = await tx.select({ name: users.name }).from(users).where(eq(users.id, authorId));
+    authorName = author?.name ?? null;
+  }
+  return { id, number, content: stored, contentHash, warnings, origin, restoredFrom, authorName, createdAt: now };
+}
+
+/** The scenario row if it belongs to the project; 404 otherwise. */
+export async function requireScenarioRow(executor: Executor, { projectId, scenarioId }: { projectId: string; scenarioId: string }) {
+  const [row] = await executor
+    .select()
+    .from(scenarios)
+    .where(and(eq(scenarios.id, scenarioId), eq(scenarios.projectId, projectId)));
+  if (!row) throw new AppError("not_found", 404, "Scenario not found.");
+  return row;
+}
+
+/** One revision of a scenario with its content; 404 if it is not one of this scenario's. */
+export async function loadRevision(executor: Executor, { scenarioId, revisionId }: { scenarioId: string; revisionId: string }): Promise<RevisionDetail> {
+  const [row] = await executor
+    .select({ ...revisionColumns, content: scenarioRevisions.content })
+    .from(scenarioRevisions)
+    .leftJoin(users, eq(users.id, scenarioRevisions.authorId))
+    .where(and(eq(scenarioRevisions.id, revisionId), eq(scenarioRevisions.scenarioId, scenarioId)));
+  if (!row) throw new AppError("not_found", 404, "Revision not found.");
+  return { ...row, content: row.content as unknown as Scenario };
+}
+
+/** A save that started from an older revision than the latest. */
+export class StaleRevisionError extends AppError {
+  readonly current: { revisionId: string; number: number; authorName: string | null; createdAt: Date };
+  constructor(current: StaleRevisionError["current"]) {
+    super(
+      "conflict",
+      409,
+      `Someone saved this scenario (revision ${current.number}${current.authorName ? ` by ${current.authorName}` : ""}) after you opened it. Reload the latest revision or save your edits as a new scenario.`,
+    );
+    this.current = current;
+  }
+}
+
+/**
+ * Save the workspace's scenario as a new revision, if `baseRevisionId` is still the latest one;
+ * otherwise StaleRevisionError (409) naming the current revision. Engineers and owners.
+ */
+export async function saveRevision({
+  actor,
+  projectId,
+  scenarioId,
+  baseRevisionId,
+  content,
+}: {
+  actor: SessionUser;
+  projectId: string;
+  scenarioId: string;
+  baseRevisionId: string;
+  content: DraftScenario;
+}): Promise<RevisionDetail> {
+  return runInTransaction(async (tx) => {
+    await authorize({ userId: actor.id, projectId, action: "scenario.edit", executor: tx });
+    const row = await requireScenarioRow(tx, { projectId, scenarioId });
+    if (row.latestRevisionId !== baseRevisionId) {
+      const current = await loadRevision(tx, { scenarioId, revisionId: row.latestRevisionId ?? "" });
+      throw new StaleRevisionError({ revisionId: current.id, number: current.number, authorName: current.authorName, createdAt: current.createdAt });
+    }
+    const revision = await insertRevision(tx, { scenarioId, projectId, content, authorId: actor.id, origin: "save" });
+    await recordAudit(tx, { actor, projectId, action: "scenario.save", target: revision.content.name, detail: { scenarioId, revision: revision.number } });
+    return revision;
+  });
+}
+
+/** Every revision of a scenario, newest first, without content. Anyone in the project. */
+export async function listRevisions({ userId, projectId, scenarioId }: { userId: string; projectId: string; scenarioId: string }): Promise<RevisionSummary[]> {
+  await authorize({ userId, projectId, action: "scenario.read" });
+  await requireScenarioRow(db, { projectId, scenarioId });
+  return db
+    .select(revisionColumns)
+    .from(scenarioRevisions)
+    .leftJoin(users, eq(users.id, scenarioRevisions.authorId))
+    .where(eq(scenarioRevisions.scenarioId, scenarioId))
+    .orderBy(desc(scenarioRevisions.number));
+}
+
+/** Restore = a new revision with the content of an older one (history is never rewritten). */
+export async function restoreRevision({
+  actor,
+  projectId,
+  scenarioId,
+  revisionId,
+}: {
+  actor: SessionUser;
+  projectId: string;
+  scenarioId: string;
+  revisionId: string;
+}): Promise<RevisionDetail> {
+  return runInTransaction(async (tx) => {
+    await authorize({ userId: actor.id, projectId, action: "scenario.edit", executor: tx });
+    await requireScenarioRow(tx, { projectId, scenarioId });
+    const old = await loadRevision(tx, { scenarioId, revisionId });
+    const revision = await insertRevision(tx, { scenarioId, projectId, content: old.content, authorId: actor.id, origin: "restore", restoredFrom: old.number });
+    await recordAudit(tx, { actor, projectId, action: "scenario.restore", target: revision.content.name, detail: { scenarioId, from: old.number, revision: revision.number } });
+    return revision;
+  });
+}
+
+export type { ScenarioRevision };

@@ -1,0 +1,175 @@
+import "server-only";
+import { randomUUID } from "node:crypto";
+import { asc, eq } from "drizzle-orm";
+import { db, runInTransaction } from "@/db/client";
+import { scenarioRevisions, scenarios, users, type Role } from "@/db/schema";
+import type { Scenario } from "@/engine/types";
+import { scenarioFromTemplate } from "@/components/scenarios/templates";
+import { recordAudit } from "@/lib/audit";
+import type { SessionUser } from "@/lib/auth/session";
+import { authorize } from "@/lib/permissions";
+import type { DraftScenario, ScenarioTemplate } from "@/lib/validation/scenarios";
+import { insertRevision, loadRevision, requireScenarioRow, type RevisionDetail } from "./revisions";
+
+/** A scenario in the project's list. */
+export type ScenarioSummary = {
+  id: string;
+  name: string;
+  latestRevisionId: string | null;
+  revisionNumber: number;
+  blockCount: number;
+  portNames: string[];
+  warningCount: number;
+  updatedAt: Date;
+  updatedByName: string | null;
+  createdAt: Date;
+};
+
+export type ScenarioInfo = {
+  id: string;
+  projectId: string;
+  name: string;
+  latestRevisionId: string;
+  latestRevisionNumber: number;
+  createdAt: Date;
+  updatedAt: Date;
+};
+
+function info(row: typeof scenarios.$inferSelect): ScenarioInfo {
+  return {
+    id: row.id,
+    projectId: row.projectId,
+    name: row.name,
+    latestRevisionId: row.latestRevisionId ?? "",
+    latestRevisionNumber: row.latestRevisionNumber,
+    createdAt: row.createdAt,
+    updatedAt: row.updatedAt,
+  };
+}
+
+/** The project's scenarios by name, with a few facts from each latest revision. Anyone in the project. */
+export async function listScenarios({ userId, projectId }: { userId: string; projectId: string }): Promise<ScenarioSummary[]> {
+  await authorize({ userId, projectId, action: "scenario.read" });
+  const rows = await db
+    .select({
+      id: scenarios.id,
+      name: scenarios.name,
+      latestRevisionId: scenarios.latestRevisionId,
+      revisionNumber: scenarios.latestRevisionNumber,
+      updatedAt: scenarios.updatedAt,
+      createdAt: scenarios.createdAt,
+      content: scenarioRevisions.content,
+      warnings: scenarioRevisions.warnings,
+      updatedByName: users.name,
+    })
+    .from(scenarios)
+    .leftJoin(scenarioRevisions, eq(scenarioRevisions.id, scenarios.latestRevisionId))
+    .leftJoin(users, eq(users.id, scenarioRevisions.authorId))
+    .where(eq(scenarios.projectId, projectId))
+    .orderBy(asc(scenarios.name));
+  return rows.map(({ content, warnings, ...row }) => {
+    const scenario = content as unknown as Scenario | null;
+    return {
+      ...row,
+      blockCount: scenario?.blocks?.length ?? 0,
+      portNames: (scenario?.ports ?? []).map((p) => p.name),
+      warningCount: warnings?.length ?? 0,
+    };
+  });
+}
+
+/** A scenario with its latest revision (or the revision asked for) and the viewer's role. */
+export async function getScenario({
+  userId,
+  projectId,
+  scenarioId,
+  revisionId,
+}: {
+  userId: string;
+  projectId: string;
+  scenarioId: string;
+  revisionId?: string;
+}): Promise<{ scenario: ScenarioInfo; revision: RevisionDetail; role: Role }> {
+  const role = await authorize({ userId, projectId, action: "scenario.read" });
+  const row = await requireScenarioRow(db, { projectId, scenarioId });
+  const revision = await loadRevision(db, { scenarioId, revisionId: revisionId ?? row.latestRevisionId ?? "" });
+  return { scenario: info(row), revision: { ...revision, content: { ...revision.content, name: row.name } }, role };
+}
+
+/** Create a scenario from a template or from given content (revision 1). Engineers and owners. */
+export async function createScenario({
+  actor,
+  projectId,
+  name,
+  template = "blank",
+  content,
+}: {
+  actor: SessionUser;
+  projectId: string;
+  name: string;
+  template?: ScenarioTemplate;
+  content?: DraftScenario;
+}): Promise<{ scenario: ScenarioInfo; revision: RevisionDetail }> {
+  return runInTransaction(async (tx) => {
+    await authorize({ userId: actor.id, projectId, action: "scenario.create", executor: tx });
+    const id = randomUUID();
+    await tx.insert(scenarios).values({ id, projectId, name, createdBy: actor.id });
+    const revision = await insertRevision(tx, {
+      scenarioId: id,
+      projectId,
+      content: content ?? scenarioFromTemplate(template, name),
+      authorId: actor.id,
+      origin: "create",
+    });
+    await recordAudit(tx, { actor, projectId, action: "scenario.create", target: name, detail: { scenarioId: id, template: content ? "content" : template } });
+    const [row] = await tx.select().from(scenarios).where(eq(scenarios.id, id));
+    return { scenario: info(row), revision };
+  });
+}
+
+/** Rename (no new revision: the name belongs to the scenario, and the file's `name` follows it). */
+export async function renameScenario({ actor, projectId, scenarioId, name }: { actor: SessionUser; projectId: string; scenarioId: string; name: string }): Promise<ScenarioInfo> {
+  return runInTransaction(async (tx) => {
+    await authorize({ userId: actor.id, projectId, action: "scenario.edit", executor: tx });
+    const before = await requireScenarioRow(tx, { projectId, scenarioId });
+    await tx.update(scenarios).set({ name, updatedAt: new Date() }).where(eq(scenarios.id, scenarioId));
+    await recordAudit(tx, { actor, projectId, action: "scenario.rename", target: name, detail: { scenarioId, from: before.name, to: name } });
+    return info(await requireScenarioRow(tx, { projectId, scenarioId }));
+  });
+}
+
+/** A new scenario whose revision 1 is the latest content of another. */
+export async function duplicateScenario({
+  actor,
+  projectId,
+  scenarioId,
+  name,
+}: {
+  actor: SessionUser;
+  projectId: string;
+  scenarioId: string;
+  name?: string;
+}): Promise<{ scenario: ScenarioInfo; revision: RevisionDetail }> {
+  return runInTransaction(async (tx) => {
+    await authorize({ userId: actor.id, projectId, action: "scenario.create", executor: tx });
+    const source = await requireScenarioRow(tx, { projectId, scenarioId });
+    const latest = await loadRevision(tx, { scenarioId, revisionId: source.latestRevisionId ?? "" });
+    const id = randomUUID();
+    const newName = name ?? `${source.name} (copy)`;
+    await tx.insert(scenarios).values({ id, projectId, name: newName, createdBy: actor.id });
+    const revision = await insertRevision(tx, { scenarioId: id, projectId, content: latest.content, authorId: actor.id, origin: "duplicate" });
+    await recordAudit(tx, { actor, projectId, action: "scenario.duplicate", target: newName, detail: { scenarioId: id, from: scenarioId, fromRevision: latest.number } });
+    const [row] = await tx.select().from(scenarios).where(eq(scenarios.id, id));
+    return { scenario: info(row), revision };
+  });
+}
+
+/** Delete a scenario with its revisions (engineers, owners). */
+export async function deleteScenario({ actor, projectId, scenarioId }: { actor: SessionUser; projectId: string; scenarioId: string }): Promise<void> {
+  await runInTransaction(async (tx) => {
+    await authorize({ userId: actor.id, projectId, action: "scenario.delete", executor: tx });
+    const row = await requireScenarioRow(tx, { projectId, scenarioId });
+    await tx.delete(scenarios).where(eq(scenarios.id, scenarioId));
+    await recordAudit(tx, { actor, projectId, action: "scenario.delete", target: row.name, detail: { scenarioId, revisions: row.latestRevisionNumber } });
+  });
+}
