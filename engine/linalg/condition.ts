@@ -1,6 +1,7 @@
 // 1-norm condition estimate by Hager's method as refined by Higham (N. J. Higham, "FORTRAN codes for
 // estimating the one-norm of a real or complex matrix", ACM TOMS 14(4), 1988 — the LAPACK xLACON scheme).
 
+import { cabs } from "../complex";
 import { luSolve, luSolveConjTranspose } from "./lu";
 
 /**
@@ -12,7 +13,7 @@ export function norm1(a: Float64Array, n: number, offset = 0): number {
   let best = 0;
   for (let j = 0; j < n; j++) {
     let s = 0;
-    for (let i = 0; i < n; i++) s += Math.hypot(a[offset + 2 * (i * n + j)], a[offset + 2 * (i * n + j) + 1]);
+    for (let i = 0; i < n; i++) s += cabs(a[offset + 2 * (i * n + j)], a[offset + 2 * (i * n + j) + 1]);
     if (s > best || Number.isNaN(s)) best = s;
   }
   return best;
@@ -38,7 +39,7 @@ export function conditionEstimate1(anorm: number, lu: Float64Array, n: number, p
   const z = w.subarray(2 * n, 4 * n);
   const sum1 = (v: Float64Array) => {
     let s = 0;
-    for (let i = 0; i < n; i++) s += Math.hypot(v[2 * i], v[2 * i + 1]);
+    for (let i = 0; i < n; i++) s += cabs(v[2 * i], v[2 * i + 1]);
     return s;
   };
   for (let i = 0; i < n; i++) {
@@ -51,7 +52,7 @@ export function conditionEstimate1(anorm: number, lu: Float64Array, n: number, p
     let jPrev = -1;
     for (let iter = 0; iter < 5; iter++) {
       for (let i = 0; i < n; i++) {
-        const m = Math.hypot(x[2 * i], x[2 * i + 1]);
+        const m = cabs(x[2 * i], x[2 * i + 1]);
         z[2 * i] = m > 0 ? x[2 * i] / m : 1;
         z[2 * i + 1] = m > 0 ? x[2 * i + 1] / m : 0;
       }
@@ -59,7 +60,7 @@ export function conditionEstimate1(anorm: number, lu: Float64Array, n: number, p
       let j = 0;
       let zmax = -1;
       for (let i = 0; i < n; i++) {
-        const m = Math.hypot(z[2 * i], z[2 * i + 1]);
+        const m = cabs(z[2 * i], z[2 * i + 1]);
         if (m > zmax) {
           zmax = m;
           j = i;

@@ -2,6 +2,7 @@
 // rotation formulas as in Press et al., Numerical Recipes, 3rd ed., §11.1, "from memory", preceded by a
 // diagonal unitary scaling that makes the pivot element real).
 
+import { cabs } from "../complex";
 /**
  * Eigenvalues of the n×n Hermitian matrix `h` (row-major, interleaved re/im), ascending.
  * Only the upper triangle and the diagonal are read; `h` is not modified.
@@ -26,7 +27,7 @@ export function hermitianEigenvalues(out: Float64Array, h: Float64Array, n: numb
       for (let q = p + 1; q < n; q++) {
         const hr = a[2 * (p * n + q)];
         const hi = a[2 * (p * n + q) + 1];
-        const r = Math.hypot(hr, hi);
+        const r = cabs(hr, hi);
         if (r === 0) continue;
         // phase e^{−jφ} applied to column q (and its conjugate to row q) makes the pivot real and equal to r
         const er = hr / r;

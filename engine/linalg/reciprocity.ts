@@ -1,6 +1,7 @@
 // Reciprocity defect max |Sij − Sji|: zero for a reciprocal network, S = Sᵀ (Pozar, Microwave Engineering,
 // 4th ed., §4.3, "from memory").
 
+import { cabs } from "../complex";
 import type { SData } from "../types";
 
 /**
@@ -18,7 +19,7 @@ export function reciprocityError(s: SData, k: number): number {
   let worst = 0;
   for (let i = 0; i < n; i++) {
     for (let j = i + 1; j < n; j++) {
-      const m = Math.hypot(d[base + 2 * (i * n + j)] - d[base + 2 * (j * n + i)], d[base + 2 * (i * n + j) + 1] - d[base + 2 * (j * n + i) + 1]);
+      const m = cabs(d[base + 2 * (i * n + j)] - d[base + 2 * (j * n + i)], d[base + 2 * (i * n + j) + 1] - d[base + 2 * (j * n + i) + 1]);
       if (m > worst || Number.isNaN(m)) worst = m;
     }
   }

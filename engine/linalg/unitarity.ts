@@ -1,6 +1,7 @@
 // Unitarity defect ‖SᴴS − I‖ (max-abs entry): zero for a lossless network (Pozar, Microwave Engineering,
 // 4th ed., §4.3, unitary property of a lossless network, "from memory").
 
+import { cabs } from "../complex";
 import type { SData } from "../types";
 
 /**
@@ -28,7 +29,7 @@ export function unitarityError(s: SData, k: number): number {
         re += ar * br - ai * bi;
         im += ar * bi + ai * br;
       }
-      const m = Math.hypot(re, im);
+      const m = cabs(re, im);
       if (m > worst || Number.isNaN(m)) worst = m;
     }
   }

@@ -4,6 +4,7 @@
 import { luFactorUnchecked, luSolve } from "../linalg";
 import { EngineInputError, SingularSystemError, type InternalWaves, type SData, type Solution } from "../types";
 import { formatHz } from "./names";
+import { runGrowth } from "./solve-system";
 import { waveStates, type DenseWaveState, type GrowthWaveState } from "./wave-store";
 
 /**
@@ -14,13 +15,14 @@ import { waveStates, type DenseWaveState, type GrowthWaveState } from "./wave-st
  *
  * @param sol a solution from solveSystem or solveDense (solved with waves kept, the default)
  * @param incident [k][systemPort] interleaved re/im, length 2·nf·(system ports), √W
+ * @param out optional arrays to write into (each of length 2·nf·(block ports)); new arrays when omitted
  * @returns { a, b } each [k][p] interleaved, length 2·nf·(block ports)
  * @throws EngineInputError when the solution kept no wave data or `incident` has the wrong length
  * @example
  * const inc = new Float64Array(2 * nf * E); inc[0] = 1; // 1 W into system port 0 at k = 0
  * const { a, b } = internalWaves(sol, inc);
  */
-export function internalWaves(sol: Solution, incident: Float64Array): InternalWaves {
+export function internalWaves(sol: Solution, incident: Float64Array, out?: InternalWaves): InternalWaves {
   const state = waveStates.get(sol);
   if (!state) throw new EngineInputError("solution", "internal waves need a solution solved with waves kept (solveSystem or solveDense, waves not false)");
   const sys = sol.system;
@@ -28,16 +30,31 @@ export function internalWaves(sol: Solution, incident: Float64Array): InternalWa
   const E = sys.systemPorts.length;
   if (incident.length !== 2 * nf * E) throw new EngineInputError("incident", `expected ${2 * nf * E} numbers (nf × system ports × re/im), got ${incident.length}`);
   const P = sys.blockPorts.length;
-  const a = new Float64Array(2 * nf * P);
-  if (state.kind === "growth") fillGrowth(a, state, incident, nf, E, P);
-  else fillDense(a, state, incident, nf, E, P, sol);
-  const b = new Float64Array(2 * nf * P);
+  const len = 2 * nf * P;
+  if (out && (out.a.length !== len || out.b.length !== len || out.a === out.b)) throw new EngineInputError("out", `expected two distinct arrays of ${len} numbers`);
+  const a = out ? out.a : new Float64Array(len);
+  if (state.kind === "growth") {
+    if (state.generation >= 0 && state.generation !== state.entry.generation) {
+      // a later solve of the same system reused the shared map buffer: rebuild this solution's own maps
+      const maps = new Float64Array(state.entry.mapTotal);
+      runGrowth(sys, state.entry, state.blockS, maps);
+      state.maps = maps;
+      state.generation = -1;
+    }
+    fillGrowth(a, state, incident, nf, E, P);
+  }
+  else {
+    if (out) a.fill(0);
+    fillDense(a, state, incident, nf, E, P, sol);
+  }
+  const b = out ? out.b : new Float64Array(len);
   applyBlocks(b, a, state.blockS, sys.blockOffset, nf, P);
   return { a, b };
 }
 
 function fillGrowth(a: Float64Array, st: GrowthWaveState, incident: Float64Array, nf: number, E: number, P: number): void {
-  const plan = st.plan;
+  const plan = st.entry.plan;
+  const mapOffset = st.entry.mapOffset;
   const agl = new Float64Array(2 * plan.totalPorts);
   const steps = plan.steps;
   for (let f = 0; f < nf; f++) {
@@ -53,7 +70,7 @@ function fillGrowth(a: Float64Array, st: GrowthWaveState, incident: Float64Array
       const ports = step.ports;
       const nC = ports.length;
       const R = inner.length;
-      const mo = st.mapOffset[s] + 2 * f * R * nC;
+      const mo = mapOffset[s] + 2 * f * R * nC;
       for (let r = 0; r < R; r++) {
         let sr = 0;
         let si = 0;
@@ -71,7 +88,8 @@ function fillGrowth(a: Float64Array, st: GrowthWaveState, incident: Float64Array
         agl[2 * inner[r] + 1] = si;
       }
     }
-    a.set(agl.subarray(0, 2 * P), 2 * f * P);
+    const fo = 2 * f * P;
+    for (let i = 0; i < 2 * P; i++) a[fo + i] = agl[i];
   }
 }
 

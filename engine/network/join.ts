@@ -84,8 +84,9 @@ function joinOne(out: Float64Array, map: Float64Array | null, A: Float64Array, n
     const pi = akr * bli + aki * blr;
     const dr = 1 - pr;
     const di = -pi;
-    const dm = Math.hypot(dr, di);
-    const kappa = (1 + Math.hypot(pr, pi)) / dm;
+    // plain square roots: the terms are bounded S-parameter products, and Math.hypot is slow in V8
+    const dm = Math.sqrt(dr * dr + di * di);
+    const kappa = (1 + Math.sqrt(pr * pr + pi * pi)) / dm;
     if (!(kappa < SINGULAR_JOIN)) return f;
     if (kappa > cond[0]) {
       cond[0] = kappa;

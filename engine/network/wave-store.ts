@@ -3,12 +3,23 @@
 import type { SData, Solution } from "../types";
 import type { Plan } from "./plan";
 
+/** A system's plan with the layout of its wave maps and the map buffer reused from solve to solve. */
+export type PlanEntry = {
+  plan: Plan;
+  /** step i's map stack (rows: step.inner, columns: step.ports, per frequency) starts at mapOffset[i] */
+  mapOffset: Int32Array;
+  mapTotal: number;
+  arena: Float64Array | null;
+  /** bumped by every solve that writes into `arena` */
+  generation: number;
+};
+
 export type GrowthWaveState = {
   kind: "growth";
-  plan: Plan;
-  /** all wave maps; step i's stack (rows: step.inner, columns: step.ports, per frequency) starts at mapOffset[i] */
+  entry: PlanEntry;
+  /** entry.generation when `maps` was written; −1 once the maps are private to this solution */
+  generation: number;
   maps: Float64Array;
-  mapOffset: Int32Array;
   /** S used for each block (after replacements) */
   blockS: SData[];
 };

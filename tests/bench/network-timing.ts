@@ -82,7 +82,14 @@ for (const n of [10, 100, 1000]) {
 const fe = frontEnd(nf);
 console.log(`front end: ${fe.blocks.length} blocks, ${fe.blockPorts.length} ports, ${fe.systemPorts.length} system ports`);
 const inc = new Float64Array(2 * nf * fe.systemPorts.length).map((_, i) => (i % 2 === 0 ? 1 : 0));
-time("front end composite + internal waves", () => internalWaves(solveSystem(fe), inc));
+time("front end composite", () => solveSystem(fe));
+time("front end composite, no wave maps", () => solveSystem(fe, { waves: false }));
+const feSol = solveSystem(fe);
+time("front end internal waves x1", () => internalWaves(feSol, inc));
+time("front end composite + internal waves x8", () => {
+  const sol = solveSystem(fe);
+  for (let m = 0; m < 8; m++) internalWaves(sol, inc);
+});
 time("front end dense", () => solveDense(fe), 2);
 const arr = arraySystem(201);
 console.log(`array: ${arr.blocks.length} blocks, ${arr.blockPorts.length} ports`);
