@@ -320,7 +320,7 @@ function idealWhatIf(one: PreparedSystem, id: string, m: number, t: number, true
     const message = valueDb <= DB_FLOOR
       ? `if ${id} were ideal, ${pair} would carry nothing (below ${DB_FLOOR} dB): every leak path runs through ${id}`
       : Math.abs(improvementDb) < 0.005
-      ? `if ${id} were ideal, ${what} would not change (${valueDb.toFixed(2)} dB)`
+      ? `if ${id} were ideal, ${what} would not change (${(-valueDb).toFixed(2)} dB)`
       : `if ${id} were ideal, ${what} would ${improvementDb > 0 ? "improve" : "worsen"} by ${Math.abs(improvementDb).toFixed(2)} dB`;
     return { block: id, kind, ideal, valueDb, improvementDb, message };
   } catch (err) {

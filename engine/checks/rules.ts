@@ -7,7 +7,10 @@ import { db20, gammaFromVswr, returnLossDb, vswrFromGamma } from "./conversions"
 import { driveCheck } from "./drive";
 import type { RuleResult, Verdict } from "./types";
 
-/** Name of a rule in messages and errors: its id, or its place in the scenario. */
+/**
+ * Name of a rule in messages and errors: its id, or its place in the scenario.
+ * @example ruleName({ kind: "match", port: "A", band: [1e9, 2e9], max_vswr: 2 }, 3) // "rules[3]"
+ */
 export function ruleName(rule: RuleSpec, index: number): string {
   return rule.id ? `rule "${rule.id}"` : `rules[${index}]`;
 }

@@ -20,7 +20,10 @@ export type AllChecksResult = {
   warnings: string[];
 };
 
-/** Worst of verdicts: fail > warn > pass. */
+/**
+ * Worst of verdicts: fail > warn > pass (pass for an empty list).
+ * @example worstVerdict(["pass", "warn"]) // "warn"
+ */
 export function worstVerdict(verdicts: Verdict[]): Verdict {
   if (verdicts.includes("fail")) return "fail";
   if (verdicts.includes("warn")) return "warn";

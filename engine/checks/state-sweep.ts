@@ -100,6 +100,8 @@ export function ruleIndices(sys: PreparedSystem, rules: RuleSpec[]): number[] {
 /**
  * Evaluates a range of combinations [first, last) against the rules; used by
  * the state sweep. `states` and `sys` must cover the same plan points (see ruleIndices and sliceSystem).
+ * @returns one row per combination, in combination order
+ * @example sweepRows(sys, rules, switchStates(sys), [4, 2], 0, 8).length // 8
  */
 export function sweepRows(sys: PreparedSystem, rules: RuleSpec[], states: SData[][], throws: number[], first: number, last: number): SweepRow[] {
   const sws = sweepSwitches(sys);
@@ -165,7 +167,10 @@ export function countCombinations(throws: readonly number[], names: readonly str
   return combinations;
 }
 
-/** Assembles the sweep result from its rows. */
+/**
+ * Assembles the sweep result from its rows: best and worst combinations, counts, messages.
+ * @example summarise(sys, rules, sweepSwitches(sys), rows.length, rows, 12.5).worst?.states
+ */
 export function summarise(sys: PreparedSystem, rules: RuleSpec[], sws: { block: string; throws: number }[], combinations: number, rows: SweepRow[], ms: number): StateSweepResult {
   let best: StateSweepResult["best"] = null, worst: StateSweepResult["worst"] = null;
   rows.forEach((r, i) => {

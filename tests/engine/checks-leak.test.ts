@@ -99,6 +99,22 @@ describe("leakTrace()", () => {
     expect(Math.abs(lt.accountedDb)).toBeLessThan(1e-9);
   });
 
+  it("traces the worst frequency of a band: where |S_to,from| is largest", () => {
+    // Leak of −30, −25, −35 dB at 1, 2, 3 GHz: the band 1–3 GHz is traced at 2 GHz.
+    const leak = [-30, -25, -35];
+    const l = buildSystem({
+      frequencies: [1e9, 2e9, 3e9],
+      blocks: [{ id: "L", s: (k) => [[c(0), c(fromDb(leak[k]))], [c(fromDb(leak[k])), c(0)]] }],
+      links: [],
+      ports: [{ name: "A", at: "L:1" }, { name: "B", at: "L:2" }],
+    });
+    const lt = leakTrace(solveSystem(l), { from: "A", to: "B", band: [1e9, 3e9] });
+    expect(lt.frequencyHz).toBe(2e9);
+    expect(lt.requestedHz).toBeNull();
+    expect(lt.trueDb).toBeCloseTo(-25, 10);
+    expect(lt.whatIf[0].message).toMatch(/^if L were ideal, A→B isolation would not change \(25\.00 dB\)$/);
+  });
+
   it("handles gains above one (an amplifier on the path) with an exact ranking", () => {
     // Amplifier 20 dB, reverse isolation 40 dB, between two pads; the strongest A→B path runs through the
     // gain (−3 + 20 − 3 = 14 dB).

@@ -65,6 +65,26 @@ describe("stateSweep()", () => {
     expect(JSON.parse(JSON.stringify(r)).rows).toHaveLength(6);
   });
 
+  it("sweeps drive rules too (they need the internal waves at every plan point)", () => {
+    const withDrive: Scenario = {
+      ...scenario,
+      blocks: scenario.blocks.map((b) => (b.id === "ANT2" ? { ...b, rating_dbm: 30 } : b)),
+      rules: [{ kind: "drive", id: "pa", sources: [{ port: "TX", dbm: 33 }] }],
+    };
+    const sw = stateSweep(prepareSystem(withDrive));
+    for (const row of sw.rows) {
+      const alone: Scenario = {
+        ...withDrive,
+        blocks: withDrive.blocks.map((b) => (b.id === "SW1" ? { ...b, state: row.states[0] } : b.id === "SW2" ? { ...b, state: row.states[1] } : b)),
+      };
+      const res = evaluateRules(solveSystem(prepareSystem(alone)));
+      expect(row.cells[0].verdict).toBe(res[0].verdict);
+      expect(row.cells[0].margin).toBeCloseTo(res[0].margin, 9);
+    }
+    // ANT2 only sees the 33 dBm (minus 0.5 + 0.4 dB) when both switches route to it.
+    expect(sw.rows.filter((x) => x.verdict === "fail").map((x) => x.states)).toEqual([[2, 1]]);
+  });
+
   it("refuses more than 4096 combinations, naming the count", () => {
     const many: Scenario = {
       ...scenario,
