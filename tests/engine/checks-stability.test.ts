@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { stabilityOf, stabilityOfStack } from "@/engine/checks/stability";
+import { rng, runPython } from "./network-helpers";
 import {
   db20,
   dbmFromWatts,
@@ -57,6 +58,30 @@ describe("stabilityOf()", () => {
       }),
       { numRuns: 2000 },
     );
+  });
+
+  it("Rollett K agrees with scikit-rf 0.15.4 Network.stability on random two-ports", () => {
+    const r = rng(4242);
+    const nf = 100;
+    const data: number[] = [];
+    for (let k = 0; k < nf; k++) {
+      // |S11|, |S22| < 1, gains up to 20 dB, reverse leakage down to −40 dB, random phases
+      const mags = [0.95 * r(), 0.01 + 0.3 * r(), 0.5 + 9.5 * r(), 0.95 * r()];
+      for (const m of mags) data.push(...polar(m, 360 * r() - 180));
+    }
+    const ref = runPython<number[]>(
+      [
+        "import skrf as rf",
+        "s = cx(data['s']).reshape(-1, 2, 2)",
+        "n = rf.Network(frequency=rf.Frequency.from_f(np.arange(1, s.shape[0] + 1), unit='GHz'), s=s, z0=50)",
+        "print(json.dumps(np.real(n.stability).tolist()))",
+      ].join("\n"),
+      { s: data },
+    );
+    for (let k = 0; k < nf; k++) {
+      const mine = stabilityOf(data.slice(8 * k, 8 * k + 8)).k as number;
+      expect(Math.abs(mine - ref[k])).toBeLessThanOrEqual(1e-12 * Math.max(1, Math.abs(ref[k])));
+    }
   });
 
   it("a unilateral matched amplifier (S12 = 0) is unconditionally stable with K reported as unbounded", () => {
