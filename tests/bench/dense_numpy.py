@@ -1,6 +1,6 @@
 """Dense reference timing for Portolan's benchmark: the same interconnection solved with numpy.
 
-Usage: dense_numpy.py MANIFEST.json RUNS
+Usage: dense_numpy.py MANIFEST.json RUNS [BUDGET_SECONDS]
 The manifest names a binary file of float64 values (every block's S, frequency-major, row-major,
 interleaved re/im, blocks in order) and gives the block sizes, links, system ports and the frequency count.
 
@@ -97,12 +97,17 @@ def main():
             out[k0:k1] = see + sei @ x
         return out
 
+    # up to RUNS runs, fewer when one run is slow (the machine is shared): stop after BUDGET seconds
+    budget = float(sys.argv[3]) if len(sys.argv) > 3 else 30.0
     times = []
     result = None
+    started = time.perf_counter()
     for _ in range(runs):
         t0 = time.perf_counter()
         result = solve()
         times.append((time.perf_counter() - t0) * 1e3)
+        if time.perf_counter() - started > budget:
+            break
     json.dump(
         {
             "runs_ms": times,

@@ -34,10 +34,11 @@ export function numpyAvailable(): boolean {
  * Times the dense numpy solve of a prepared system (all system ports at the system Z0).
  *
  * @param sys - the prepared system
- * @param runs - timed runs in Python
+ * @param runs - timed runs in Python (fewer when they exceed the budget)
+ * @param budgetSeconds - stop repeating after this long
  * @returns the timing and numpy's composite
  */
-export function timeNumpyDense(sys: PreparedSystem, runs = 7): NumpyTiming {
+export function timeNumpyDense(sys: PreparedSystem, runs = 7, budgetSeconds = 30): NumpyTiming {
   if (sys.systemPorts.some((p) => p.z0 !== sys.z0)) throw new Error("the numpy reference handles system ports at the system Z0 only");
   const dir = mkdtempSync(join(tmpdir(), "portolan-bench-"));
   try {
@@ -64,7 +65,7 @@ export function timeNumpyDense(sys: PreparedSystem, runs = 7): NumpyTiming {
     const env = { ...process.env };
     delete env.OPENBLAS_CORETYPE;
     delete env.OPENBLAS_L2_SIZE;
-    const run = spawnSync(PYTHON, [SCRIPT, manifestPath, String(runs)], { encoding: "utf8", env, maxBuffer: 1 << 30 });
+    const run = spawnSync(PYTHON, [SCRIPT, manifestPath, String(runs), String(budgetSeconds)], { encoding: "utf8", env, maxBuffer: 1 << 30 });
     if (run.status !== 0) throw new Error(`dense_numpy.py failed: ${run.stderr}`);
     const out = JSON.parse(run.stdout) as {
       median_ms: number;
