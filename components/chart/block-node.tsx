@@ -74,7 +74,6 @@ function BlockNodeView({ data, selected }: NodeProps<BlockNodeType>) {
         selected && "outline-2 outline-offset-2 outline-focus",
       )}
       style={{ width: CARD_WIDTH, height }}
-      aria-label={`Block ${block.id}, ${title}, ${portCount} port${portCount === 1 ? "" : "s"}`}
     >
       <div className="pointer-events-none flex flex-col items-center px-7 pt-2 text-center">
         <span className="max-w-full truncate font-mono text-sm font-semibold">{block.id}</span>
@@ -119,7 +118,8 @@ function BlockNodeView({ data, selected }: NodeProps<BlockNodeType>) {
               type="source"
               position={POSITION[side]}
               style={handleStyle(side, at)}
-              isConnectable={!readOnly && !sys && !linked}
+              // always connectable: an illegal link is refused by the workspace with a message, not silently
+              isConnectable={!readOnly}
               aria-label={`Port ${ref}${label && label !== String(port) ? ` (${label})` : ""}${sys ? `, system port ${sys.name}` : ""}${linked ? ", linked" : ""}`}
               title={`${ref}${label && label !== String(port) ? ` — ${label}` : ""}. Drag to another port to link; right-click for system port.`}
               onContextMenu={(e) => {

@@ -76,7 +76,7 @@ export function ScenarioChart(props: ScenarioChartProps) {
         selected: selected.has(block.id),
         draggable: !readOnly,
         connectable: !readOnly,
-        ariaLabel: `Block ${block.id}`,
+        ariaLabel: `Block ${block.id}, ${blockTitle(block, parts)}, ${n} port${n === 1 ? "" : "s"}`,
         data: {
           block,
           title: blockTitle(block, parts),
@@ -191,7 +191,7 @@ export function ScenarioChart(props: ScenarioChartProps) {
   );
 
   return (
-    <div className="relative h-full w-full overflow-hidden bg-paper" data-testid="scenario-chart">
+    <div className="absolute inset-0 overflow-hidden bg-paper" data-testid="scenario-chart">
       <BearingBackdrop origin={[0.12, 0.85]} lines={32} ring={false} />
       <ReactFlow<BlockNodeType, Edge>
         nodes={nodes}

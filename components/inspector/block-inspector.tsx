@@ -107,7 +107,7 @@ function RenameForm({
   };
   return (
     <form
-      aria-label="Block id"
+      aria-label="Rename block"
       className="flex items-end gap-2"
       onSubmit={(e) => {
         e.preventDefault();

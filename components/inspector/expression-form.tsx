@@ -80,7 +80,9 @@ export function ExpressionForm({ label, fields, initial, disabled, onCommit }: E
           const text = values[f.name] ?? "";
           const read = f.read(text);
           const error = errors[f.name]?.message;
-          const evaluated = read.ok && text.trim() !== "" && read.display !== text.trim() ? `= ${read.display}` : null;
+          // the evaluated value is shown when the text is more than a plain number
+          const plain = /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(text.trim());
+          const evaluated = read.ok && text.trim() !== "" && !plain && read.display !== text.trim() ? `= ${read.display}` : null;
           return (
             <Field
               key={f.name}

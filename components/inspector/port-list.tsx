@@ -210,18 +210,22 @@ function SystemPortEditor({
       <fieldset disabled={readOnly} className="flex flex-wrap items-center gap-2">
         <label className="flex items-center gap-1.5 text-xs text-muted">
           Name
-          <Input aria-label={`System port name at ${refId}`} className="w-24 font-mono" value={name} onChange={(e) => setName(e.target.value)} onBlur={apply} />
+          <span className="w-24">
+            <Input aria-label={`System port name at ${refId}`} className="font-mono" value={name} onChange={(e) => setName(e.target.value)} onBlur={apply} />
+          </span>
         </label>
         <label className="flex items-center gap-1.5 text-xs text-muted">
           Z0 (Ω)
+          <span className="w-28">
           <Input
             aria-label={`System port Z0 at ${refId}`}
-            className="w-24 font-mono"
+            className="font-mono"
             value={z0Text}
             placeholder={`${formatNumber(scenario.z0)} (system)`}
             onChange={(e) => setZ0Text(e.target.value)}
             onBlur={apply}
           />
+          </span>
         </label>
         <Button size="sm" variant="ghost" aria-label={`Unmark system port ${sys.name}`} onClick={() => commit(removeSystemPort(scenario, refId))}>
           Unmark

@@ -147,11 +147,15 @@ function VariablesEditor({ scenario, readOnly, commit }: Omit<ScenarioPanelProps
             return (
               <li key={r.key} className="flex flex-col gap-1">
                 <div className="flex items-center gap-1.5">
-                  <Input aria-label="Variable name" className="w-28 font-mono" value={r.name} onChange={(e) => update(r.key, { name: e.target.value.trim() })} />
+                  <div className="w-28 shrink-0">
+                    <Input aria-label="Variable name" className="font-mono" value={r.name} onChange={(e) => update(r.key, { name: e.target.value.trim() })} />
+                  </div>
                   <span aria-hidden="true" className="text-muted">
                     =
                   </span>
-                  <Input aria-label={`Value of ${r.name || "new variable"}`} className="flex-1 font-mono" value={r.text} onChange={(e) => update(r.key, { text: e.target.value })} />
+                  <div className="min-w-0 flex-1">
+                    <Input aria-label={`Value of ${r.name || "new variable"}`} className="font-mono" value={r.text} onChange={(e) => update(r.key, { text: e.target.value })} />
+                  </div>
                   <Button
                     variant="ghost"
                     size="sm"

@@ -177,7 +177,7 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
         </output>
         <form
           className="flex items-start gap-2"
-          aria-label="Add marker"
+          aria-label="Add a marker by frequency"
           onSubmit={(e) => {
             e.preventDefault();
             const r = evaluateQuantity(markerText, "Hz");

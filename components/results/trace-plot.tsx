@@ -43,6 +43,7 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
   useEffect(() => {
     const el = box.current;
     if (!el) return;
+    const minSpan = unit === "dB" ? 1 : unit === "deg" ? 10 : 0.1;
     const ink = cssColour("--pt-ink", "#1D2936");
     const rule = cssColour("--pt-rule", "#CDBF9F");
     const sea = cssColour("--pt-sea", "#2A5D7C");
@@ -53,7 +54,19 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
       height,
       legend: { show: false },
       cursor: { drag: { x: false, y: false }, points: { size: 7, fill: sea } },
-      scales: { x: { time: false } },
+      scales: {
+        x: { time: false },
+        // a flat trace (a pad, an isolation floor) keeps a readable span instead of one repeated tick label
+        y: {
+          range: (_u, min, max) => {
+            if (min === null || max === null || !Number.isFinite(min) || !Number.isFinite(max)) return [0, 1];
+            const span = Math.max(max - min, minSpan);
+            const mid = (min + max) / 2;
+            const pad = span * 0.08;
+            return [mid - span / 2 - pad, mid + span / 2 + pad];
+          },
+        },
+      },
       axes: [
         { ...axis, values: (_u, splits) => splits.map((v) => formatSi(v, "Hz", 4)), size: 34 },
         { ...axis, label: unit, labelSize: 14, labelFont: "11px var(--font-sans, sans-serif)", size: 56 },

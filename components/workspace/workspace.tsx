@@ -98,8 +98,9 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
 
   const commit = useCallback(
     (next: Scenario, key?: string) => {
-      if (readOnly || next === latest.current) return;
-      setHistory((h) => recordEdit(h, latest.current, { key }));
+      const previous = latest.current;
+      if (readOnly || next === previous) return;
+      setHistory((h) => recordEdit(h, previous, { key }));
       latest.current = next;
       onChange(next);
     },
@@ -130,12 +131,17 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
     const rect = chartBox.current?.getBoundingClientRect();
     if (!rect) return { x: 0, y: 0 };
     const p = flow.screenToFlowPosition({ x: rect.left + rect.width / 2, y: rect.top + rect.height / 2 });
-    let at = { x: p.x - CARD_WIDTH / 2, y: p.y - 36 };
-    // do not drop a block exactly on top of another
-    while (latest.current.blocks.some((b) => b.position && Math.abs(b.position.x - at.x) < 12 && Math.abs(b.position.y - at.y) < 12)) {
-      at = { x: at.x + 28, y: at.y + 28 };
+    const start = { x: p.x - CARD_WIDTH / 2, y: p.y - 36 };
+    // do not drop a block on top of another: try below, above, then further out
+    const clear = (at: { x: number; y: number }) =>
+      !latest.current.blocks.some((b) => b.position && Math.abs(b.position.x - at.x) < CARD_WIDTH + 16 && Math.abs(b.position.y - at.y) < 96);
+    for (let ring = 0; ring < 8; ring++) {
+      for (const [dx, dy] of [[0, 1], [0, -1], [1, 0], [-1, 0], [1, 1], [-1, 1], [1, -1], [-1, -1]]) {
+        const at = { x: start.x + dx * ring * (CARD_WIDTH + 40), y: start.y + dy * ring * 110 };
+        if (clear(at)) return at;
+      }
     }
-    return at;
+    return start;
   }, [flow]);
 
   const onAddChoice = useCallback(
