@@ -11,6 +11,8 @@ export default async function ProjectLayout({ children, params }: { children: Re
   const base = `/projects/${project.id}`;
   const tabs: ProjectTab[] = [
     { href: base, label: "Overview", exact: true },
+    { href: `${base}/scenarios`, label: "Scenarios" },
+    { href: `${base}/parts`, label: "Parts" },
     { href: `${base}/members`, label: "Members" },
   ];
   if (can(project.role, "audit.read")) tabs.push({ href: `${base}/audit`, label: "Audit log" });

@@ -1,0 +1,27 @@
+import type { Metadata } from "next";
+import { listParts } from "@/db/queries/parts";
+import { PartsLibrary } from "@/components/parts/parts-library";
+import { serialiseDates, type PartView } from "@/components/scenarios/types";
+import { can } from "@/lib/permission-table";
+import { loadProject } from "../load-project";
+
+export const metadata: Metadata = { title: "Parts" };
+
+export default async function PartsPage({ params }: { params: Promise<{ projectId: string }> }) {
+  const { projectId } = await params;
+  const { user, project } = await loadProject(projectId);
+  const parts = serialiseDates(await listParts({ userId: user.id, projectId })) as unknown as PartView[];
+  return (
+    <section aria-labelledby="parts-heading" className="flex flex-col gap-4">
+      <div>
+        <h2 id="parts-heading" className="text-lg font-semibold">
+          Parts
+        </h2>
+        <p className="max-w-prose text-sm text-muted">
+          Touchstone data sets of this project. A part is placed on a chart as a block from the add-block list; its data is renormalised from its own reference impedances to the system Z0.
+        </p>
+      </div>
+      <PartsLibrary projectId={project.id} initial={parts} canEdit={can(project.role, "part.upload")} />
+    </section>
+  );
+}

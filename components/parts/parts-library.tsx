@@ -1,0 +1,179 @@
+"use client";
+
+import { useRef, useState, type FormEvent } from "react";
+import useSWR from "swr";
+import { Alert, Button, ConfirmDialog, EmptyState, Field, Input, Spinner, Table, TBody, Td, Th, THead, Tr, VerdictBadge } from "@/components/ui";
+import { ApiError, fetchJson, scenarioUrls, requestJson } from "@/components/scenarios/api-client";
+import type { PartView } from "@/components/scenarios/types";
+import { formatFrequency } from "@/lib/client/format";
+import { PART_MAX_BYTES } from "@/lib/validation/parts";
+import { PreviewTrace } from "./preview-trace";
+
+function formatReference(ohms: [number, number][]): string {
+  const texts = ohms.map(([re, im]) => (im === 0 ? `${re}` : `${re}${im < 0 ? "−" : "+"}j${Math.abs(im)}`));
+  return new Set(texts).size === 1 ? `${texts[0]} Ω` : `${texts.join(", ")} Ω`;
+}
+
+/** The project's Touchstone parts: upload, figures, badges, preview traces, delete. */
+export function PartsLibrary({ projectId, initial, canEdit }: { projectId: string; initial: PartView[]; canEdit: boolean }) {
+  const { data, error, isLoading, mutate } = useSWR<{ parts: PartView[] }>(scenarioUrls.parts(projectId), fetchJson, { fallbackData: { parts: initial } });
+  const [deleting, setDeleting] = useState<PartView | null>(null);
+  const [deleteError, setDeleteError] = useState<string | null>(null);
+  const list = data?.parts ?? [];
+
+  return (
+    <div className="flex flex-col gap-6">
+      {canEdit ? <UploadForm projectId={projectId} onUploaded={() => void mutate()} /> : null}
+      {error ? <Alert tone="error" title="The parts could not be loaded">{error instanceof Error ? error.message : String(error)}</Alert> : null}
+      {isLoading && list.length === 0 ? <Spinner label="Loading parts…" /> : null}
+      {!isLoading && list.length === 0 ? (
+        <EmptyState title="No parts yet" description={canEdit ? "Upload a Touchstone file (.s1p … .sNp or .ts) to place measured or vendor data on a chart." : "Engineers of this project have not uploaded any part."} />
+      ) : null}
+      {list.length > 0 ? (
+        <Table aria-label="Parts">
+          <THead>
+            <Tr>
+              <Th>Part</Th>
+              <Th numeric>Ports</Th>
+              <Th>Frequency range</Th>
+              <Th numeric>Points</Th>
+              <Th>Reference</Th>
+              <Th>Passivity</Th>
+              <Th>Reciprocity</Th>
+              <Th>Preview</Th>
+              <Th>
+                <span className="sr-only">Actions</span>
+              </Th>
+            </Tr>
+          </THead>
+          <TBody>
+            {list.map((p) => (
+              <Tr key={p.id}>
+                <Td>
+                  <div className="font-medium text-ink">{p.name}</div>
+                  <div className="font-mono text-xs text-muted">
+                    {p.fileName} · Touchstone {p.version}
+                  </div>
+                </Td>
+                <Td numeric>{p.ports}</Td>
+                <Td className="figures text-xs">
+                  {formatFrequency(p.startHz)} – {formatFrequency(p.stopHz)}
+                </Td>
+                <Td numeric>{p.points}</Td>
+                <Td className="figures text-xs">{formatReference(p.referenceOhms)}</Td>
+                <Td>
+                  <div className="flex flex-col items-start gap-0.5">
+                    <VerdictBadge verdict={p.passivity} label={p.passivity === "pass" ? "Passive" : "Active"} />
+                    <span className="figures text-[11px] text-muted" title={`at ${formatFrequency(p.maxSingularHz)}`}>
+                      σmax {p.maxSingular.toFixed(4)}
+                    </span>
+                  </div>
+                </Td>
+                <Td>
+                  <div className="flex flex-col items-start gap-0.5">
+                    <VerdictBadge verdict={p.reciprocity} label={p.reciprocity === "pass" ? "Reciprocal" : "Not reciprocal"} />
+                    <span className="figures text-[11px] text-muted" title={`at ${formatFrequency(p.reciprocityHz)}`}>
+                      max|Sij−Sji| {p.reciprocityError.toExponential(1)}
+                    </span>
+                  </div>
+                </Td>
+                <Td>
+                  <PreviewTrace {...p.preview} />
+                  <div className="text-[11px] text-muted">{p.preview.label} dB</div>
+                </Td>
+                <Td>
+                  {canEdit ? (
+                    <Button size="sm" variant="ghost" onClick={() => setDeleting(p)} aria-label={`Delete part ${p.fileName}`}>
+                      Delete
+                    </Button>
+                  ) : null}
+                </Td>
+              </Tr>
+            ))}
+          </TBody>
+        </Table>
+      ) : null}
+      <ConfirmDialog
+        open={deleting !== null}
+        onClose={() => {
+          setDeleting(null);
+          setDeleteError(null);
+        }}
+        title={`Delete ${deleting?.fileName ?? "part"}?`}
+        description="Scenarios that place this part must stop using it first."
+        confirmLabel="Delete part"
+        error={deleteError}
+        onConfirm={async () => {
+          if (!deleting) return;
+          try {
+            await requestJson(scenarioUrls.part(projectId, deleting.id), { method: "DELETE" });
+            setDeleting(null);
+            await mutate();
+          } catch (e) {
+            setDeleteError(e instanceof Error ? e.message : String(e));
+          }
+        }}
+      />
+    </div>
+  );
+}
+
+function UploadForm({ projectId, onUploaded }: { projectId: string; onUploaded: () => void }) {
+  const fileInput = useRef<HTMLInputElement>(null);
+  const [name, setName] = useState("");
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [done, setDone] = useState<string | null>(null);
+  const [pending, setPending] = useState(false);
+
+  const submit = async (event: FormEvent) => {
+    event.preventDefault();
+    setDone(null);
+    const file = fileInput.current?.files?.[0];
+    if (!file) {
+      setErrors({ file: "Choose a Touchstone file." });
+      return;
+    }
+    if (file.size > PART_MAX_BYTES) {
+      setErrors({ file: `The file is ${(file.size / (1024 * 1024)).toFixed(1)} MB; the limit is ${PART_MAX_BYTES / (1024 * 1024)} MB.` });
+      return;
+    }
+    const form = new FormData();
+    form.set("file", file, file.name);
+    form.set("name", name);
+    setPending(true);
+    setErrors({});
+    try {
+      const response = await fetch(scenarioUrls.parts(projectId), { method: "POST", body: form, credentials: "same-origin" });
+      const body = (await response.json().catch(() => null)) as { part?: PartView; error?: { message: string; fields?: Record<string, string> } } | null;
+      if (!response.ok) throw new ApiError(response.status, "error", body?.error?.message ?? `The server answered ${response.status}.`, body, body?.error?.fields);
+      setDone(`Uploaded ${body?.part?.fileName ?? file.name}: ${body?.part?.ports ?? "?"} ports, ${body?.part?.points ?? "?"} points.`);
+      setName("");
+      if (fileInput.current) fileInput.current.value = "";
+      onUploaded();
+    } catch (e) {
+      // the server's message names the file and the line of a parse error
+      setErrors({ file: e instanceof Error ? e.message : String(e) });
+    } finally {
+      setPending(false);
+    }
+  };
+
+  return (
+    <form onSubmit={submit} aria-label="Upload a part" className="flex flex-wrap items-end gap-3 rounded-card border border-rule bg-surface p-4" noValidate>
+      <Field label="Touchstone file" hint={`.s1p … .sNp (1.1) or .ts (2.0), at most ${PART_MAX_BYTES / (1024 * 1024)} MB`} error={errors.file} className="min-w-72 flex-1">
+        <Input ref={fileInput} type="file" accept=".ts,.s1p,.s2p,.s3p,.s4p,.s5p,.s6p,.s7p,.s8p,.s9p,.s10p,.s12p,.s16p" />
+      </Field>
+      <Field label="Part name (optional)" error={errors.name} className="w-64">
+        <Input value={name} onChange={(e) => setName(e.target.value)} maxLength={120} placeholder="from the file name" />
+      </Field>
+      <Button type="submit" loading={pending} loadingText="Uploading…">
+        Upload part
+      </Button>
+      {done ? (
+        <p role="status" className="w-full text-sm text-pass-strong">
+          {done}
+        </p>
+      ) : null}
+    </form>
+  );
+}
