@@ -293,3 +293,51 @@ export const checkRuns = sqliteTable(
 );
 export type CheckRun = typeof checkRuns.$inferSelect;
 export type NewCheckRun = typeof checkRuns.$inferInsert;
+
+// ---------------------------------------------------------------------------------------------------
+// Sign-offs (issue 7).
+
+export const SIGNOFF_STATES = ["requested", "approved", "changes_requested"] as const;
+export type SignoffState = (typeof SIGNOFF_STATES)[number];
+
+/**
+ * One reviewer's sign-off of one scenario revision. Bound to the revision's content hash: once the
+ * scenario's latest revision has another hash, the sign-off is shown as stale (computed, not stored).
+ */
+export const signoffs = sqliteTable(
+  "signoffs",
+  {
+    id: text("id").primaryKey(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    scenarioId: text("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => scenarioRevisions.id, { onDelete: "cascade" }),
+    /** the revision's content hash when the sign-off was requested */
+    contentHash: text("content_hash").notNull(),
+    requestedBy: text("requested_by").references(() => users.id, { onDelete: "set null" }),
+    reviewerId: text("reviewer_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    state: text("state", { enum: SIGNOFF_STATES }).notNull().default("requested"),
+    /** the requester's note when asking, then the reviewer's comment when deciding */
+    requestNote: text("request_note").notNull().default(""),
+    comment: text("comment").notNull().default(""),
+    createdAt: createdAt(),
+    decidedAt: integer("decided_at", { mode: "timestamp_ms" }),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+      .notNull()
+      .default(sql`(unixepoch() * 1000)`),
+  },
+  (table) => [
+    index("signoffs_project_id_idx").on(table.projectId, table.createdAt),
+    index("signoffs_scenario_id_idx").on(table.scenarioId),
+    index("signoffs_reviewer_id_idx").on(table.reviewerId),
+  ],
+);
+export type Signoff = typeof signoffs.$inferSelect;
+export type NewSignoff = typeof signoffs.$inferInsert;

@@ -50,7 +50,7 @@ export function registerCommand(name: string, command: CliCommand): void {
 }
 
 /** Modules that may add commands; each may export `cliCommands: Record<string, CliCommand>`. */
-export const OPTIONAL_COMMAND_MODULES = ["./checks/cli-check"];
+export const OPTIONAL_COMMAND_MODULES = ["./checks/cli-check", "./bundle/cli-bundle"];
 
 /**
  * Imports the optional command modules that exist and registers their commands.

@@ -1,0 +1,100 @@
+// `portolan check <bundle.zip>`: verify a bundle's manifest and re-run its checks from its own files.
+// Registered through OPTIONAL_COMMAND_MODULES in engine/cli.ts after the checks' module: it wraps their
+// `check` command and takes over when the argument is a .zip.
+import { readFileSync } from "node:fs";
+import { resolve } from "node:path";
+import { CliUsageError, type CliCommand, type CliIO } from "../cli";
+import { CHECK_USAGE, runCheck } from "../checks/cli-check";
+import { BundleIntegrityError, openBundle } from "./bundle-zip";
+import { BundleError } from "./format";
+import { reproduceBundle, type ReproduceResult } from "./reproduce";
+
+/** Exit code when a bundle was tampered with or its verdicts do not reproduce. */
+export const EXIT_NOT_REPRODUCED = 3;
+
+export const BUNDLE_CHECK_USAGE = [
+  "portolan check <bundle.zip> [--json]",
+  "  Verifies a review bundle exported by Portolan: every file against the SHA-256 in manifest.json,",
+  "  then solves scenario.json with the bundle's parts/ and re-runs every check, comparing the verdicts",
+  "  and figures with results/checks.json and the composite with results/composite.sNp.",
+  "  --json         print the comparison as JSON instead",
+  "  Exit codes: 0 verified, reproduced and all pass (warnings allowed); 1 verified and reproduced but a",
+  "  check fails; 2 the file cannot be read or is refused (not a zip, no manifest, unsafe entries, limits);",
+  "  3 tampered (a file does not match manifest.json) or the stored verdicts do not reproduce.",
+].join("\n");
+
+/**
+ * The comparison as readable lines.
+ * @example formatReproduction("b.zip", manifest, result)
+ */
+export function formatReproduction(file: string, bundle: ReturnType<typeof openBundle>, r: ReproduceResult): string {
+  const m = bundle.manifest;
+  const lines = [
+    `Bundle ${file}: ${m.format}, Portolan ${m.app.version}`,
+    `  project "${m.project.name}", scenario "${m.scenario.name}" revision ${m.revision.number}, exported ${m.created_at}${m.created_by ? ` by ${m.created_by.name} <${m.created_by.email}>` : ""}`,
+    `  manifest: ${Object.keys(m.files).length} files verified (SHA-256)`,
+    "",
+  ];
+  if (r.error) lines.push(`NOT REPRODUCED: ${r.error}`);
+  const w = Math.max(8, ...r.items.map((i) => i.name.length));
+  for (const item of r.items) {
+    lines.push(`${item.same ? "same     " : "DIFFERS  "}${item.name.padEnd(w)}  stored ${item.stored}, re-run ${item.rerun}${item.note ? ` (${item.note})` : ""}`);
+  }
+  lines.push("");
+  lines.push(r.reproduced ? `REPRODUCED: the stored verdicts and figures come out the same; verdict ${r.verdict.toUpperCase()}` : "NOT REPRODUCED: the stored results differ from a re-run of the bundle's own scenario and parts");
+  return `${lines.join("\n")}\n`;
+}
+
+/**
+ * Runs `check` on a bundle: returns 0, 1 or 3 (see BUNDLE_CHECK_USAGE); a bundle that cannot be read is
+ * thrown as CliUsageError (exit 2).
+ * @example await runBundleCheck("review.zip", false, io) // 0
+ */
+export async function runBundleCheck(file: string, json: boolean, io: CliIO): Promise<number> {
+  let bytes: Uint8Array;
+  try {
+    bytes = readFileSync(resolve(io.cwd, file));
+  } catch (err) {
+    const code = (err as { code?: string }).code;
+    throw new CliUsageError(`${file}: cannot read bundle${code === "ENOENT" ? ": no such file" : code ? ` (${code})` : ""}`);
+  }
+  let bundle;
+  try {
+    bundle = openBundle(bytes);
+  } catch (err) {
+    if (err instanceof BundleIntegrityError) {
+      if (json) io.out(`${JSON.stringify({ verified: false, reproduced: false, error: err.message, entry: err.entry })}\n`);
+      io.err(`${file}: TAMPERED: ${err.message}\n`);
+      return EXIT_NOT_REPRODUCED;
+    }
+    if (err instanceof BundleError) throw new CliUsageError(`${file}: ${err.message}`);
+    throw err;
+  }
+  const result = reproduceBundle(bundle);
+  io.out(json ? `${JSON.stringify({ verified: true, manifest: { ...bundle.manifest, files: Object.keys(bundle.manifest.files) }, ...result })}\n` : formatReproduction(file, bundle, result));
+  if (!result.reproduced) return EXIT_NOT_REPRODUCED;
+  return result.verdict === "fail" ? 1 : 0;
+}
+
+async function runCheckOrBundle(args: string[], io: CliIO): Promise<number> {
+  if (args.includes("--help") || args.includes("-h")) {
+    io.out(`${CHECK_USAGE}\n\n${BUNDLE_CHECK_USAGE}\n`);
+    return 0;
+  }
+  const positional = args.filter((a) => !a.startsWith("-"));
+  if (positional.length === 1 && /\.zip$/i.test(positional[0])) {
+    const unknown = args.find((a) => a.startsWith("-") && a !== "--json");
+    if (unknown) throw new CliUsageError(`unknown option ${unknown} (see portolan check --help)`);
+    return runBundleCheck(positional[0], args.includes("--json"), io);
+  }
+  return runCheck(args, io);
+}
+
+/** Replaces the checks' `check` command with one that also takes bundles (see engine/cli.ts). */
+export const cliCommands: Record<string, CliCommand> = {
+  check: {
+    summary: "run a scenario's rules and built-in checks, or verify and re-run a bundle (.zip)",
+    usage: `${CHECK_USAGE}\n\n${BUNDLE_CHECK_USAGE}`,
+    run: runCheckOrBundle,
+  },
+};
