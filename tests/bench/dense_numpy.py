@@ -20,6 +20,14 @@ import numpy as np
 
 
 def blas_info():
+    # the library actually mapped (Debian's libblas.so.3 is an alternative, e.g. OpenBLAS)
+    try:
+        with open("/proc/self/maps") as maps:
+            libs = sorted({line.split()[-1] for line in maps if "blas" in line.lower() and "/" in line})
+        if libs:
+            return "BLAS " + ", ".join(libs)
+    except OSError:
+        pass
     try:
         cfg = np.__config__
         for name in ("blas_opt_info", "openblas_info", "blas_ilp64_opt_info"):

@@ -82,7 +82,7 @@ async function main(): Promise<void> {
     notes.push(
       `${label}: numpy ran ${t.runsMs.length} time${t.runsMs.length === 1 ? "" : "s"}; its composite agrees with Portolan's to ${deviation(sol, t.s).toExponential(1)} (relative)`,
     );
-    if (notes.length === 1) notes.unshift(`numpy ${t.numpy}, ${t.blas}, threads: ${JSON.stringify(t.threads)}; OPENBLAS_CORETYPE and OPENBLAS_L2_SIZE unset for numpy`);
+    if (notes.length === 1) notes.unshift(`numpy ${t.numpy}, ${t.blas}, threads: ${JSON.stringify(t.threads)}; OPENBLAS_CORETYPE and OPENBLAS_L2_SIZE unset and OPENBLAS_NUM_THREADS=1 for numpy (Portolan's solve is single-threaded too)`);
     return t;
   };
 

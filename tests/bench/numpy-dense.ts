@@ -65,6 +65,10 @@ export function timeNumpyDense(sys: PreparedSystem, runs = 7, budgetSeconds = 30
     const env = { ...process.env };
     delete env.OPENBLAS_CORETYPE;
     delete env.OPENBLAS_L2_SIZE;
+    // one thread, like Portolan's solve: on this shared 2-core machine OpenBLAS's second thread made the
+    // batched solves about 30× slower (measured: 1001 solves of 58 × 58, 7.6 s with 2 threads, 0.28 s with 1)
+    env.OPENBLAS_NUM_THREADS = "1";
+    env.OMP_NUM_THREADS = "1";
     const run = spawnSync(PYTHON, [SCRIPT, manifestPath, String(runs), String(budgetSeconds)], { encoding: "utf8", env, maxBuffer: 1 << 30 });
     if (run.status !== 0) throw new Error(`dense_numpy.py failed: ${run.stderr}`);
     const out = JSON.parse(run.stdout) as {

@@ -182,11 +182,11 @@ export function chain(n: number, points = 1001): Scenario {
  * A 64-element receive array: an `array` block (64 coupled elements), 64 phase shifters, 64 SPDT
  * switches (throw 1 to the beam former, throw 2 unlinked, a matched termination) and a binary
  * combining tree of 63 splitters; one system port SUM at the root; 201 points, 9–10 GHz.
- * 256 blocks, 573 block ports.
+ * 192 blocks, 573 block ports.
  *
  * @param points - frequency points (default 201)
  * @example
- * array64().blocks.length; // 256
+ * array64().blocks.length; // 192
  */
 export function array64(points = 201): Scenario {
   const n = 64;
