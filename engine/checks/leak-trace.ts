@@ -78,7 +78,7 @@ export type LeakTraceResult = {
 export type LeakTraceOptions = {
   from: string;
   to: string;
-  /** trace at the plan point nearest to this frequency (Hz) */
+  /** trace at the plan point nearest to this frequency (Hz); default the first plan point */
   frequencyHz?: number;
   /** or at the frequency of the band where |S_to,from| is largest (the worst isolation or match) */
   band?: [number, number];
