@@ -34,7 +34,7 @@ export default async function ProjectsPage() {
               <THead>
                 <Tr>
                   <Th>Project</Th>
-                  <Th>Your role</Th>
+                  <Th className="whitespace-nowrap">Your role</Th>
                   <Th>Updated</Th>
                 </Tr>
               </THead>
