@@ -265,3 +265,18 @@ describe("solveScenario", () => {
     }
   });
 });
+
+describe("the engine index", () => {
+  it("offers parsing, solving and Touchstone output from one import", async () => {
+    const engine = await import("../../engine");
+    const sol = engine.solveScenario(engine.parseScenario(readFixture("two-pads.json")));
+    // matched pads in cascade add in dB (common practice)
+    expect(entry(sol.s, 0, 1, 0)[0]).toBeCloseTo(Math.pow(10, -6 / 20), 14);
+    const text = engine.writeTouchstone({ frequencies: sol.frequencies, s: sol.s, z0: 50 }, { unit: "Hz" });
+    expect(engine.parseTouchstone(text, { name: "pads.s2p" }).ports).toBe(2);
+    expect(typeof engine.prepareSystem).toBe("function");
+    expect(typeof engine.internalWaves).toBe("function");
+    expect(typeof engine.evaluateBlock).toBe("function");
+    expect(typeof engine.frequencyPlan).toBe("function");
+  });
+});
