@@ -5,6 +5,7 @@ import { runInTransaction, type Transaction } from "./client";
 import { memberships, projects, users, type Role } from "./schema";
 import { recordAudit } from "@/lib/audit";
 import { hashPassword } from "@/lib/auth/password";
+import { seedDemoScenarios } from "./seed-scenarios";
 
 export const DEMO_PASSWORD = "portolan-demo";
 
@@ -64,3 +65,5 @@ export async function seedDemo(): Promise<{ seeded: boolean; projectId: string |
     return { seeded: true, projectId };
   });
 }
+
+registerDemoSeedStep(seedDemoScenarios);
