@@ -203,9 +203,9 @@ export function solveScenarioFile(path: string, cwd: string): Solution {
   } catch (err) {
     if (err instanceof EngineInputError) throw new CliUsageError(`${path}: ${err.message}`);
     if (err instanceof SingularSystemError) {
-      const at = err.frequencyHz !== undefined ? ` at ${err.frequencyHz} Hz` : "";
-      const links = err.links.length > 0 ? ` (links: ${err.links.join(", ")})` : "";
-      throw new CliUsageError(`${path}: the interconnection cannot be solved${at}: ${err.message}${links}`);
+      // the message names the frequency and the links taking part
+      const links = err.links.length > 0 && !err.links.every((l) => err.message.includes(l)) ? ` (links: ${err.links.join(", ")})` : "";
+      throw new CliUsageError(`${path}: ${err.message}${links}`);
     }
     throw err;
   }

@@ -1,6 +1,7 @@
 /**
- * The command line, run as a separate process as a person would run it:
- * `node --import tsx engine/cli.ts solve <scenario.json> [--json] [--out file.sNp]`.
+ * The command line: `portolan solve <scenario.json> [--json] [--out file.sNp]`. Some cases run it as a
+ * separate process as a person would (`node --import tsx engine/cli.ts ...`); the rest call its `main`
+ * in this process with captured output, which is the same code without the process start-up cost.
  */
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -8,6 +9,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { afterAll, describe, expect, it } from "vitest";
+import { main } from "../../engine/cli";
 import { parseTouchstone } from "../../engine/touchstone";
 
 const ROOT = fileURLToPath(new URL("../../", import.meta.url));
@@ -18,6 +20,14 @@ afterAll(() => rmSync(work, { recursive: true, force: true }));
 function cli(...args: string[]): { code: number | null; stdout: string; stderr: string } {
   const run = spawnSync(process.execPath, ["--import", "tsx", "engine/cli.ts", ...args], { cwd: ROOT, encoding: "utf8", maxBuffer: 1 << 28 });
   return { code: run.status, stdout: run.stdout, stderr: run.stderr };
+}
+
+/** The same command through `main`, in this process. */
+async function run(...args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
+  let stdout = "";
+  let stderr = "";
+  const code = await main(args, { out: (t) => (stdout += t), err: (t) => (stderr += t), cwd: ROOT });
+  return { code, stdout, stderr };
 }
 
 /** Writes a scenario (or raw text) to the temporary folder and returns its path. */
@@ -68,38 +78,38 @@ describe("portolan solve", () => {
     expect(Array.from(back.z0)).toEqual([50, 0, 75, 0]);
   });
 
-  it("writes the file named by --out and refuses a name with the wrong port count", () => {
+  it("writes the file named by --out and refuses a name with the wrong port count", async () => {
     const out = join(work, "pads.s2p");
-    const r = cli("solve", `${FIXTURES}/two-pads.json`, "--out", out);
+    const r = await run("solve", `${FIXTURES}/two-pads.json`, "--out", out);
     expect(r.code).toBe(0);
     expect(r.stdout).toBe("");
     expect(parseTouchstone(readFileSync(out, "utf8"), { name: "pads.s2p" }).ports).toBe(2);
-    const wrong = cli("solve", `${FIXTURES}/two-pads.json`, "--out", join(work, "pads.s3p"));
+    const wrong = await run("solve", `${FIXTURES}/two-pads.json`, "--out", join(work, "pads.s3p"));
     expect(wrong.code).toBe(2);
     expect(wrong.stderr).toMatch(/must end \.s2p/);
   });
 
-  it("exits 2 with one line naming the JSON path of a bad parameter", () => {
+  it("exits 2 with one line naming the JSON path of a bad parameter", async () => {
     const s = twoPads();
     s.blocks[1].params.loss_db = -3;
     const path = scenarioFile("bad-loss.json", s);
-    const r = cli("solve", path);
+    const r = await run("solve", path);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe("");
     expect(r.stderr.trim().split("\n")).toHaveLength(1);
     expect(r.stderr).toMatch(/bad-loss\.json: blocks\[1\]\.params\.loss_db: .*-3/);
   });
 
-  it("exits 2 for a link to an unknown block", () => {
+  it("exits 2 for a link to an unknown block", async () => {
     const s = twoPads();
     s.links[0][1] = "PAD9:1";
-    const r = cli("solve", scenarioFile("bad-link.json", s));
+    const r = await run("solve", scenarioFile("bad-link.json", s));
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/bad-link\.json: links\[0\]\[1\]: no block with id "PAD9"/);
   });
 
-  it("exits 2 for invalid JSON with line and column", () => {
-    const r = cli("solve", scenarioFile("broken.json", '{\n  "format": "portolan.scenario/1",\n  "name": "x"\n  "z0": 50\n}'));
+  it("exits 2 for invalid JSON with line and column", async () => {
+    const r = await run("solve", scenarioFile("broken.json", '{\n  "format": "portolan.scenario/1",\n  "name": "x"\n  "z0": 50\n}'));
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/broken\.json: line 4, column 3: invalid JSON/);
   });
@@ -110,20 +120,53 @@ describe("portolan solve", () => {
     expect(r.stderr.trim()).toBe("no/such/scenario.json: cannot read scenario file: no such file");
   });
 
-  it("exits 2 for a missing part file, naming the block's file field", () => {
+  it("exits 2 for a missing part file, naming the block's file field", async () => {
     const s = JSON.parse(readFileSync(join(ROOT, FIXTURES, "telemetry-front-end.json"), "utf8"));
-    const r = cli("solve", scenarioFile("no-part.json", s));
+    const r = await run("solve", scenarioFile("no-part.json", s));
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/no-part\.json: blocks\[5\]\.file: cannot read part file "parts\/telemetry-patch\.s1p"/);
   });
 
-  it("exits 2 for an unknown option or command, and prints usage for --help", () => {
-    expect(cli("solve", `${FIXTURES}/two-pads.json`, "--bogus").code).toBe(2);
-    expect(cli("frobnicate").code).toBe(2);
+  it("exits 2 for a lossless resonance that has no solution, naming it", async () => {
+    // a lossless cavity: a matched line between a switch's reflective (open) off throw and a short circuit.
+    // The line is a quarter wave at 250 MHz (θ = 2πfL/c0 = π/2), so the round trip e^(−j2θ) = −1 and with
+    // the two reflections (+1 and −1) the loop gain is exactly 1: no unique solution at resonance
+    // (lossless resonators: Pozar, Microwave Engineering, 4th ed., ch. 6, from memory)
+    const r = await run(
+      "solve",
+      scenarioFile("cavity.json", {
+        format: "portolan.scenario/1",
+        name: "cavity",
+        z0: 50,
+        frequency: { list: [2.5e8, 5e8] },
+        blocks: [
+          { id: "SW", kind: "switch", params: { throws: 2, insertion_loss_db: 0, isolation_db: null, off_state: "reflective" }, state: 1 },
+          { id: "LINE", kind: "line", params: { length_m: 0.299792458 } },
+          { id: "SHORT", kind: "load", params: { impedance: [0, 0] } },
+        ],
+        links: [
+          ["SW:3", "LINE:1"],
+          ["LINE:2", "SHORT:1"],
+        ],
+        ports: [
+          { name: "A", at: "SW:1" },
+          { name: "B", at: "SW:2" },
+        ],
+      }),
+    );
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe("");
+    expect(r.stderr.trim().split("\n")).toHaveLength(1);
+    expect(r.stderr).toMatch(/cavity\.json: .*singular/i);
+  });
+
+  it("exits 2 for an unknown option or command, and prints usage for --help", async () => {
+    expect((await run("solve", `${FIXTURES}/two-pads.json`, "--bogus")).code).toBe(2);
+    expect((await run("frobnicate")).code).toBe(2);
     const help = cli("--help");
     expect(help.code).toBe(0);
     expect(help.stdout).toMatch(/portolan solve <scenario\.json> \[--json\] \[--out file\.sNp\]/);
-    const solveHelp = cli("solve", "--help");
+    const solveHelp = await run("solve", "--help");
     expect(solveHelp.code).toBe(0);
     expect(solveHelp.stdout).toMatch(/--json/);
   });
