@@ -1,6 +1,7 @@
 /**
  * Portolan's engine: the public API, re-exported from its modules. Pure TypeScript, usable from the
- * CLI, the route handlers and the browser (the CLI itself, engine/cli.ts, is not re-exported: it uses Node).
+ * CLI, the route handlers and the browser. Two modules that need Node are not re-exported: the CLI
+ * (engine/cli.ts, node:fs) and bundles (engine/bundle, node:zlib and node:crypto); import them directly.
  *
  * @example
  * import { parseScenario, solveScenario } from "@/engine";
