@@ -14,6 +14,9 @@ const readFixture = (name: string): unknown => JSON.parse(readFileSync(`${FIXTUR
 const readPart = (rel: string): string => readFileSync(`${FIXTURES}${rel}`, "utf8");
 const twoPads = (): Scenario => structuredClone(readFixture("two-pads.json")) as Scenario;
 
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- the cases write invalid values on purpose
+type Loose = Record<string, any>;
+
 function errorOf(fn: () => unknown): EngineInputError {
   try {
     fn();
@@ -42,7 +45,7 @@ describe("parseScenario accepts the fixture scenarios", () => {
 
 describe("parseScenario refuses bad input with the JSON path", () => {
   // each case: a change to the two-pad scenario, the `where` expected, and words the message must contain
-  const cases: { what: string; change: (s: Record<string, any>) => void; where: string; says: RegExp }[] = [
+  const cases: { what: string; change: (s: Loose) => void; where: string; says: RegExp }[] = [
     { what: "a wrong format string", change: (s) => (s.format = "portolan.scenario/2"), where: "format", says: /portolan\.scenario\/1/ },
     { what: "a negative system Z0", change: (s) => (s.z0 = -50), where: "z0", says: /> 0/ },
     { what: "a name that is not a string", change: (s) => (s.name = 7), where: "name", says: /string/ },
@@ -95,7 +98,7 @@ describe("parseScenario refuses bad input with the JSON path", () => {
   ];
   for (const c of cases) {
     it(`refuses ${c.what} at ${c.where}`, () => {
-      const s = twoPads() as unknown as Record<string, any>;
+      const s = twoPads() as unknown as Loose;
       c.change(s);
       const err = errorOf(() => parseScenario(s));
       expect(err.where).toBe(c.where);
@@ -115,7 +118,7 @@ describe("parseScenario refuses bad input with the JSON path", () => {
   });
 
   it("checks the port count of a touchstone part from its data", () => {
-    const s = twoPads() as unknown as Record<string, any>;
+    const s = twoPads() as unknown as Loose;
     s.blocks[1] = { id: "PAD2", kind: "touchstone", ports: 1, data: "# GHz S RI R 50\n1 0.1 0\n2 0.1 0\n" };
     s.links[0] = ["PAD1:2", "PAD2:1"];
     s.ports[1].at = "PAD2:2";
