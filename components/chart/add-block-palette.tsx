@@ -15,6 +15,22 @@ export type AddBlockPaletteProps = {
   onChoose: (choice: AddBlockChoice) => void;
 };
 
+/** Extra words a person may type for a kind (trade terms and common names). */
+const KEYWORDS: Partial<Record<BlockKind, string[]>> = {
+  filter: ["bandpass", "lowpass", "highpass", "bandstop", "butterworth", "chebyshev"],
+  amplifier: ["gain", "lna", "pa"],
+  line: ["cable", "trace", "feed"],
+  antenna: ["radiator"],
+  switch: ["spdt", "sp3t", "throw", "t/r"],
+  splitter: ["divider", "combiner", "wilkinson"],
+  load: ["termination"],
+  attenuator: ["pad"],
+  hybrid90: ["quadrature", "branch-line"],
+  hybrid180: ["rat-race", "sum", "difference"],
+  array: ["elements"],
+  coupler: ["directional", "monitor"],
+};
+
 const itemClass =
   "flex cursor-pointer flex-col gap-0.5 rounded px-3 py-2 text-sm text-ink aria-selected:bg-ink aria-selected:text-on-ink data-[selected=true]:bg-ink data-[selected=true]:text-on-ink";
 
@@ -41,7 +57,7 @@ export function AddBlockPalette({ open, onOpenChange, parts, onChoose }: AddBloc
         <Command.Empty className="px-3 py-6 text-center text-sm text-muted">Nothing matches.</Command.Empty>
         <Command.Group heading="Built-in blocks" className="[&_[cmdk-group-heading]]:px-3 [&_[cmdk-group-heading]]:py-1 [&_[cmdk-group-heading]]:text-xs [&_[cmdk-group-heading]]:text-muted">
           {ADDABLE_KINDS.map((kind) => (
-            <Command.Item key={kind} value={`${kindTitle(kind)} ${kind}`} keywords={[kindSummary(kind)]} onSelect={() => choose({ kind })} className={itemClass}>
+            <Command.Item key={kind} value={`${kindTitle(kind)} ${kind}`} keywords={KEYWORDS[kind]} onSelect={() => choose({ kind })} className={itemClass}>
               <span className="font-medium">{kindTitle(kind)}</span>
               <span className="text-xs opacity-75">{kindSummary(kind)}</span>
             </Command.Item>
@@ -52,7 +68,7 @@ export function AddBlockPalette({ open, onOpenChange, parts, onChoose }: AddBloc
             {parts.map((part) => (
               <Command.Item
                 key={part.id}
-                value={`part ${part.name} ${part.fileName} ${part.id}`}
+                value={`${part.name} ${part.fileName} part ${part.id}`}
                 onSelect={() => choose({ kind: "touchstone", part })}
                 className={itemClass}
               >

@@ -25,8 +25,8 @@ export type ScenarioChartProps = {
   readOnly: boolean;
   selection: ChartSelection;
   onSelectionChange: (selection: ChartSelection) => void;
-  /** positions after a drag or a keyboard move, by block id */
-  onMoveBlocks: (positions: Record<string, { x: number; y: number }>) => void;
+  /** positions after a drag or a keyboard move, by block id; `key` folds a run of arrow-key moves into one undo step */
+  onMoveBlocks: (positions: Record<string, { x: number; y: number }>, key?: string) => void;
   /** a link dragged from one port handle to another (the workspace checks it is legal) */
   onLink: (a: PortRef, b: PortRef) => void;
   onSetSwitch: (id: string, state: number) => void;
@@ -143,7 +143,7 @@ export function ScenarioChart(props: ScenarioChartProps) {
           else chosen.delete(c.id);
         }
       }
-      if (anyMoved && !readOnly) onMoveBlocks(moved);
+      if (anyMoved && !readOnly) onMoveBlocks(moved, `move:${Object.keys(moved).sort().join(",")}`);
       if (anySelect) {
         const next = { blocks: [...chosen], links: selectionRef.current.links };
         selectionRef.current = next;
@@ -192,7 +192,7 @@ export function ScenarioChart(props: ScenarioChartProps) {
 
   return (
     <div className="absolute inset-0 overflow-hidden bg-paper" data-testid="scenario-chart">
-      <BearingBackdrop origin={[0.12, 0.85]} lines={32} ring={false} />
+      <BearingBackdrop origin={[0.35, 0.82]} lines={32} ring={false} />
       <ReactFlow<BlockNodeType, Edge>
         nodes={nodes}
         edges={edges}

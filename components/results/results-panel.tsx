@@ -285,7 +285,9 @@ function sLabelShort(label: string): string {
 }
 
 function Warnings({ result, z0 }: { result: Solved; z0: number }) {
-  const count = result.warnings.length + result.unterminated.length;
+  // unterminated ports are listed once, in the workspace's words, not again as the engine's warning
+  const warnings = result.unterminated.length > 0 ? result.warnings.filter((w) => !/not linked and not a system port/.test(w)) : result.warnings;
+  const count = warnings.length + result.unterminated.length;
   return (
     <section aria-labelledby="results-warnings" className="flex flex-col gap-2">
       <h3 id="results-warnings" className="flex items-center gap-2 text-sm font-semibold text-ink">
@@ -300,7 +302,7 @@ function Warnings({ result, z0 }: { result: Solved; z0: number }) {
               <span className="font-mono">{ref}</span> is not linked and not a system port: it is terminated in the system Z0 ({formatNumber(z0)} Ω).
             </li>
           ))}
-          {result.warnings.map((w) => (
+          {warnings.map((w) => (
             <li key={`w:${w}`} className="border-l-2 border-warn pl-2">
               {w}
             </li>

@@ -233,13 +233,13 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
   );
 
   const onMoveBlocks = useCallback(
-    (positions: Record<string, { x: number; y: number }>) => {
+    (positions: Record<string, { x: number; y: number }>, key?: string) => {
       const current = latest.current;
       const changed = Object.entries(positions).some(([id, p]) => {
         const b = current.blocks.find((x) => x.id === id);
         return b && (!b.position || Math.round(p.x) !== b.position.x || Math.round(p.y) !== b.position.y);
       });
-      if (changed) commit(moveBlocks(current, positions));
+      if (changed) commit(moveBlocks(current, positions), key);
     },
     [commit],
   );

@@ -54,6 +54,15 @@ export function runSolve(request: SolveRequest): SolveResponse {
     };
   } catch (error) {
     const err = error instanceof Error ? error : new Error(String(error));
-    return { seq: request.seq, ok: false, error: err.message, kind: err.name };
+    return { seq: request.seq, ok: false, error: nameBlock(err.message, request.scenario), kind: err.name };
   }
+}
+
+/** "blocks[5].params.cutoff_hz: …" → "FLT1 (blocks[5].params.cutoff_hz): …", so that the chart's id is named. */
+export function nameBlock(message: string, scenario: Scenario): string {
+  const m = /^blocks\[(\d+)\]/.exec(message);
+  const block = m ? scenario.blocks[Number(m[1])] : undefined;
+  if (!m || !block) return message;
+  const colon = message.indexOf(": ");
+  return colon > 0 ? `${block.id} (${message.slice(0, colon)}): ${message.slice(colon + 2)}` : `${block.id}: ${message}`;
 }

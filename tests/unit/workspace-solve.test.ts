@@ -69,6 +69,7 @@ describe("runSolve (what the engine worker runs)", () => {
     if (!r.ok) {
       expect(r.seq).toBe(3);
       expect(r.error).toMatch(/loss_db/);
+      expect(r.error.startsWith("PAD1 (blocks[0]")).toBe(true);
     }
   });
 
