@@ -52,44 +52,59 @@ export function internalWaves(sol: Solution, incident: Float64Array, out?: Inter
   return { a, b };
 }
 
+// Port-major work areas ([p][k], interleaved): the substitution then runs its innermost loop over
+// frequencies, which keeps the loops long and simple. Reused between calls (calls never nest).
+let work = new Float64Array(0);
+function workOf(length: number): Float64Array {
+  if (work.length < length) work = new Float64Array(length);
+  return work;
+}
+
 function fillGrowth(a: Float64Array, st: GrowthWaveState, incident: Float64Array, nf: number, E: number, P: number): void {
   const plan = st.entry.plan;
   const mapOffset = st.entry.mapOffset;
-  const agl = new Float64Array(2 * plan.totalPorts);
-  const steps = plan.steps;
-  for (let f = 0; f < nf; f++) {
-    agl.fill(0);
-    for (let m = 0; m < E; m++) {
-      agl[2 * plan.outer[m]] = incident[2 * (f * E + m)];
-      agl[2 * plan.outer[m] + 1] = incident[2 * (f * E + m) + 1];
+  const T = plan.totalPorts;
+  const stride = 2 * nf; // one port's row in the work area
+  const aw = workOf(stride * T);
+  aw.fill(0, 0, stride * T);
+  for (let m = 0; m < E; m++) {
+    const row = plan.outer[m] * stride;
+    for (let f = 0; f < nf; f++) {
+      aw[row + 2 * f] = incident[2 * (f * E + m)];
+      aw[row + 2 * f + 1] = incident[2 * (f * E + m) + 1];
     }
-    for (let s = steps.length - 1; s >= 0; s--) {
-      const step = steps[s];
-      const map = st.maps;
-      const inner = step.inner;
-      const ports = step.ports;
-      const nC = ports.length;
-      const R = inner.length;
-      const mo = mapOffset[s] + 2 * f * R * nC;
-      for (let r = 0; r < R; r++) {
-        let sr = 0;
-        let si = 0;
-        const ro = mo + 2 * r * nC;
-        for (let j = 0; j < nC; j++) {
-          const xr = agl[2 * ports[j]];
-          const xi = agl[2 * ports[j] + 1];
-          if (xr === 0 && xi === 0) continue;
-          const mr = map[ro + 2 * j];
-          const mi = map[ro + 2 * j + 1];
-          sr += mr * xr - mi * xi;
-          si += mr * xi + mi * xr;
+  }
+  const map = st.maps;
+  const steps = plan.steps;
+  for (let s = steps.length - 1; s >= 0; s--) {
+    const step = steps[s];
+    const inner = step.inner;
+    const ports = step.ports;
+    const nC = ports.length;
+    const R = inner.length;
+    const fStride = 2 * R * nC; // one frequency's map
+    for (let r = 0; r < R; r++) {
+      const dst = inner[r] * stride;
+      for (let j = 0; j < nC; j++) {
+        const src = ports[j] * stride;
+        let mo = mapOffset[s] + 2 * (r * nC + j);
+        for (let f = 0; f < stride; f += 2, mo += fStride) {
+          const mr = map[mo];
+          const mi = map[mo + 1];
+          const xr = aw[src + f];
+          const xi = aw[src + f + 1];
+          aw[dst + f] += mr * xr - mi * xi;
+          aw[dst + f + 1] += mr * xi + mi * xr;
         }
-        agl[2 * inner[r]] = sr;
-        agl[2 * inner[r] + 1] = si;
       }
     }
-    const fo = 2 * f * P;
-    for (let i = 0; i < 2 * P; i++) a[fo + i] = agl[i];
+  }
+  for (let p = 0; p < P; p++) {
+    const row = p * stride;
+    for (let f = 0; f < nf; f++) {
+      a[2 * (f * P + p)] = aw[row + 2 * f];
+      a[2 * (f * P + p) + 1] = aw[row + 2 * f + 1];
+    }
   }
 }
 
@@ -135,27 +150,46 @@ function fillDense(a: Float64Array, st: DenseWaveState, incident: Float64Array, 
 }
 
 function applyBlocks(b: Float64Array, a: Float64Array, blockS: SData[], offsets: number[], nf: number, P: number): void {
-  blockS.forEach((s, i) => {
+  const stride = 2 * nf;
+  // a transposed to port-major, then b accumulated port-major, then written back frequency-major
+  const w = workOf(2 * stride * P);
+  const aw = w.subarray(0, stride * P);
+  const bw = w.subarray(stride * P, 2 * stride * P);
+  for (let p = 0; p < P; p++) {
+    const row = p * stride;
+    for (let f = 0; f < nf; f++) {
+      aw[row + 2 * f] = a[2 * (f * P + p)];
+      aw[row + 2 * f + 1] = a[2 * (f * P + p) + 1];
+    }
+  }
+  bw.fill(0);
+  for (let i = 0; i < blockS.length; i++) {
+    const s = blockS[i];
     const n = s.n;
     const off = offsets[i];
     const d = s.data;
-    for (let f = 0; f < nf; f++) {
-      const so = 2 * f * n * n;
-      const fo = 2 * f * P;
-      for (let r = 0; r < n; r++) {
-        let sr = 0;
-        let si = 0;
-        for (let c = 0; c < n; c++) {
-          const mr = d[so + 2 * (r * n + c)];
-          const mi = d[so + 2 * (r * n + c) + 1];
-          const xr = a[fo + 2 * (off + c)];
-          const xi = a[fo + 2 * (off + c) + 1];
-          sr += mr * xr - mi * xi;
-          si += mr * xi + mi * xr;
+    const fStride = 2 * n * n;
+    for (let r = 0; r < n; r++) {
+      const dst = (off + r) * stride;
+      for (let c = 0; c < n; c++) {
+        const src = (off + c) * stride;
+        let so = 2 * (r * n + c);
+        for (let f = 0; f < stride; f += 2, so += fStride) {
+          const mr = d[so];
+          const mi = d[so + 1];
+          const xr = aw[src + f];
+          const xi = aw[src + f + 1];
+          bw[dst + f] += mr * xr - mi * xi;
+          bw[dst + f + 1] += mr * xi + mi * xr;
         }
-        b[fo + 2 * (off + r)] = sr;
-        b[fo + 2 * (off + r) + 1] = si;
       }
     }
-  });
+  }
+  for (let p = 0; p < P; p++) {
+    const row = p * stride;
+    for (let f = 0; f < nf; f++) {
+      b[2 * (f * P + p)] = bw[row + 2 * f];
+      b[2 * (f * P + p) + 1] = bw[row + 2 * f + 1];
+    }
+  }
 }
