@@ -28,7 +28,8 @@ function open(): Holder {
   // Reused across dev reloads; a changed URL (tests) opens a new client.
   if (existing && existing.url === env.databaseUrl) return existing;
   ensureDatabaseFolder(env.databaseUrl);
-  const client = createClient({ url: env.databaseUrl, authToken: env.databaseAuthToken });
+  // A busy timeout lets concurrent writers (requests, or several app instances on one file) wait instead of failing.
+  const client = createClient({ url: env.databaseUrl, authToken: env.databaseAuthToken, timeout: 5000 });
   const holder: Holder = { client, db: drizzle(client, { schema }), url: env.databaseUrl };
   globalForDb.portolanDb = holder;
   return holder;
