@@ -1,5 +1,5 @@
 import { expect, test, type Page } from "@playwright/test";
-import { collectForeignRequests } from "./helpers";
+import { collectForeignRequests, signInAs } from "./helpers";
 
 // Screenshots of the landing page in both themes, kept for a person to look at after a run.
 const SHOTS = "test-results/screenshots";
@@ -85,4 +85,26 @@ test("the theme button overrides the system choice and the choice survives a rel
   await page.reload();
   await expect(page.locator("html")).toHaveAttribute("data-theme", "dark");
   expect(await backgroundOf(page)).toBe(NIGHT);
+});
+
+test("signed-in pages open with a skip link to the content and keep the header keyboard-reachable", async ({ page }) => {
+  await page.emulateMedia({ colorScheme: "dark" });
+  await signInAs(page, "owner");
+  await page.keyboard.press("Tab");
+  const skip = page.getByRole("link", { name: "Skip to content" });
+  await expect(skip).toBeFocused();
+  await expect(skip).toBeVisible();
+  await page.keyboard.press("Enter");
+  await expect(page).toHaveURL(/#main-content$/);
+  await expect(page.locator("main#main-content")).toBeVisible();
+
+  const menu = page.getByRole("button", { name: /Account menu/ });
+  await menu.focus();
+  await page.keyboard.press("Enter");
+  await expect(menu).toHaveAttribute("aria-expanded", "true");
+  await expect(page.getByRole("button", { name: "Sign out" })).toBeVisible();
+  await page.keyboard.press("Escape");
+  await expect(menu).toHaveAttribute("aria-expanded", "false");
+  await expect(menu).toBeFocused();
+  await page.screenshot({ path: `${SHOTS}/projects-dark.png`, fullPage: true });
 });
