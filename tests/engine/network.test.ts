@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { internalWaves, solveDense, solveSystem } from "../../engine/network";
+import { internalWaves, planFor, solveDense, solveSystem } from "../../engine/network";
 import { EngineInputError, SingularSystemError, type PreparedSystem, type SData, type Solution } from "../../engine/types";
 import { constantS, makeSystem, maxDiff, randomS, randomTopology, rng, runPython, type SystemDef } from "./network-helpers";
 
@@ -233,6 +233,20 @@ describe("singular and ill-conditioned systems", () => {
       expect(sol.warnings.some((w) => w.includes("ill-conditioned"))).toBe(true);
       expect(sol.s.data.every(Number.isFinite)).toBe(true);
     }
+  });
+});
+
+describe("join order", () => {
+  it("a chain of 300 two-ports is grown keeping two open ports (sub-network growth from one end, common practice)", () => {
+    const r = rng(300);
+    const n = 300;
+    const blocks = Array.from({ length: n }, (_, i) => ({ id: `C${i}`, s: randomS(r, 2, 1, 0.45) }));
+    const links = Array.from({ length: n - 1 }, (_, i) => [`C${i}:2`, `C${i + 1}:1`] as [string, string]);
+    const sys = makeSystem({ blocks, links, ports: [{ name: "IN", at: "C0:1" }, { name: "OUT", at: `C${n - 1}:2` }] });
+    const plan = planFor(sys);
+    expect(plan.steps.length).toBe(n - 1);
+    expect(Math.max(...plan.steps.map((s) => s.ports.length))).toBe(2);
+    expect(maxDiff(solveSystem(sys).s.data, solveDense(sys).s.data)).toBeLessThan(1e-12);
   });
 });
 
