@@ -213,7 +213,7 @@ export function ScenarioChart(props: ScenarioChartProps) {
         fitViewOptions={{ padding: 0.25, maxZoom: 1.25 }}
         minZoom={0.2}
         maxZoom={2.5}
-        proOptions={{ hideAttribution: true }}
+        attributionPosition="bottom-right"
         connectionLineStyle={{ stroke: "var(--pt-ink)", strokeWidth: 1.5, strokeDasharray: "4 3" }}
         aria-label="Chart"
         className="portolan-chart"

@@ -3,7 +3,7 @@
  * Solves the scenario in the engine worker after every change: debounced, with stale answers dropped by
  * sequence number. Falls back to solving on the main thread when Workers are unavailable.
  */
-import { useEffect, useMemo, useRef, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import type { Scenario } from "@/engine/types";
 import { partTexts, scenarioForEngine, type PartSummary } from "./scenario-model";
 import type { SolveRequest, SolveResponse } from "./solve";
@@ -29,6 +29,19 @@ export function useSolver(scenario: Scenario, parts: readonly PartSummary[]): So
   const seqRef = useRef(0);
   const lastOk = useRef<Extract<SolveResponse, { ok: true }> | undefined>(undefined);
   const [state, setState] = useState<SolverState>({ status: "solving" });
+  const lastRequest = useRef<SolveRequest | null>(null);
+
+  // no usable Worker: solve on the main thread (blocks the page while it runs)
+  const solveHere = useCallback((request: SolveRequest) => {
+    void import("./solve").then(({ runSolve }) => {
+      const response = runSolve(request);
+      if (response.seq !== seqRef.current) return;
+      if (response.ok) {
+        lastOk.current = response;
+        setState({ status: "done", result: response });
+      } else setState({ status: "error", error: response.error, kind: response.kind });
+    });
+  }, []);
   const texts = useMemo(() => partTexts(parts), [parts]);
   const reason = emptyReason(scenario);
   const engineScenario = useMemo(() => scenarioForEngine(scenario), [scenario]);
@@ -51,37 +64,35 @@ export function useSolver(scenario: Scenario, parts: readonly PartSummary[]): So
       }
     };
     worker.onerror = (event) => {
-      setState({ status: "error", error: event.message || "The engine worker stopped.", kind: "WorkerError" });
+      // the worker could not start or crashed: solve on the main thread from now on
+      event.preventDefault();
+      worker.terminate();
+      workerRef.current = null;
+      const pending = lastRequest.current;
+      if (pending) solveHere(pending);
     };
     return () => {
       worker.terminate();
       workerRef.current = null;
     };
-  }, []);
+  }, [solveHere]);
 
   useEffect(() => {
     if (reason) return;
     const seq = ++seqRef.current;
     setState({ status: "solving", last: lastOk.current });
     const request: SolveRequest = { seq, scenario: latest.current, parts: texts };
+    lastRequest.current = request;
     const timer = window.setTimeout(() => {
       const worker = workerRef.current;
       if (worker) {
         worker.postMessage(request);
         return;
       }
-      // no Worker in this browser: solve here (blocks the page while it runs)
-      void import("./solve").then(({ runSolve }) => {
-        const response = runSolve(request);
-        if (response.seq !== seqRef.current) return;
-        if (response.ok) {
-          lastOk.current = response;
-          setState({ status: "done", result: response });
-        } else setState({ status: "error", error: response.error, kind: response.kind });
-      });
+      solveHere(request);
     }, SOLVE_DEBOUNCE_MS);
     return () => window.clearTimeout(timer);
-  }, [key, texts, reason]);
+  }, [key, texts, reason, solveHere]);
 
   if (reason) return { status: "empty", reason };
   return state;
