@@ -1,0 +1,28 @@
+import { listCheckRuns, runCheck } from "@/db/queries/check-runs";
+import { checkRunRequestSchema } from "@/components/checks/check-inputs";
+import { apiRoute, json, parseWith } from "@/lib/api";
+import { z } from "zod";
+
+type Params = { projectId: string; scenarioId: string };
+
+const limitSchema = z.coerce.number().int().min(1).max(200).default(50);
+
+/** GET …/check-runs[?limit=n] → { runs } newest first, without figures (anyone in the project). */
+export const GET = apiRoute<Params>(async (ctx) => {
+  const raw = new URL(ctx.request.url).searchParams.get("limit");
+  const limit = parseWith(limitSchema, raw ?? undefined);
+  const user = await ctx.requireUser();
+  return json({ runs: await listCheckRuns({ userId: user.id, projectId: ctx.params.projectId, scenarioId: ctx.params.scenarioId, limit }) });
+});
+
+/**
+ * POST { check, inputs, revisionId? } → 201 { run }: runs the check on the server on that revision (default
+ * the latest) and stores it (check.run: owners, engineers, reviewers). 400 for malformed input, 422 when
+ * the inputs do not fit the scenario or it cannot be solved; nothing is stored then.
+ */
+export const POST = apiRoute<Params>(async (ctx) => {
+  const request = await ctx.body(checkRunRequestSchema);
+  const user = await ctx.requireUser();
+  const run = await runCheck({ actor: user, projectId: ctx.params.projectId, scenarioId: ctx.params.scenarioId, request });
+  return json({ run }, { status: 201 });
+});
