@@ -1,5 +1,6 @@
 // Waves at every block port for one excitation, by substituting back through the wave maps kept by the
-// solver (each join's closed ports as a linear function of its open ports), then b = S·a per block.
+// solver (each join's closed ports as a linear function of its open ports); then b = a of the partner on a
+// link, and b = S·a at unlinked and system ports.
 
 import { luFactorUnchecked, luSolve } from "../linalg";
 import { EngineInputError, SingularSystemError, type InternalWaves, type SData, type Solution } from "../types";
@@ -33,6 +34,12 @@ export function internalWaves(sol: Solution, incident: Float64Array, out?: Inter
   const len = 2 * nf * P;
   if (out && (out.a.length !== len || out.b.length !== len || out.a === out.b)) throw new EngineInputError("out", `expected two distinct arrays of ${len} numbers`);
   const a = out ? out.a : new Float64Array(len);
+  const stride = 2 * nf;
+  const rows = state.kind === "growth" ? state.entry.plan.totalPorts : P;
+  const w = workOf(stride * (rows + 1));
+  const aw = w.subarray(0, stride * rows);
+  const rowScratch = w.subarray(stride * rows, stride * (rows + 1));
+  let partner: Int32Array;
   if (state.kind === "growth") {
     if (state.generation >= 0 && state.generation !== state.entry.generation) {
       // a later solve of the same system reused the shared map buffer: rebuild this solution's own maps
@@ -41,14 +48,33 @@ export function internalWaves(sol: Solution, incident: Float64Array, out?: Inter
       state.maps = maps;
       state.generation = -1;
     }
-    fillGrowth(a, state, incident, nf, E, P);
-  }
-  else {
+    fillGrowth(aw, state, incident, nf, E);
+    for (let p = 0; p < P; p++) {
+      const row = p * stride;
+      for (let f = 0; f < nf; f++) {
+        a[2 * (f * P + p)] = aw[row + 2 * f];
+        a[2 * (f * P + p) + 1] = aw[row + 2 * f + 1];
+      }
+    }
+    partner = state.entry.plan.partner;
+  } else {
     if (out) a.fill(0);
     fillDense(a, state, incident, nf, E, P, sol);
+    for (let p = 0; p < P; p++) {
+      const row = p * stride;
+      for (let f = 0; f < nf; f++) {
+        aw[row + 2 * f] = a[2 * (f * P + p)];
+        aw[row + 2 * f + 1] = a[2 * (f * P + p) + 1];
+      }
+    }
+    partner = new Int32Array(P).fill(-1);
+    for (const [p, q] of sys.links) {
+      partner[p] = q;
+      partner[q] = p;
+    }
   }
   const b = out ? out.b : new Float64Array(len);
-  applyBlocks(b, a, state.blockS, sys.blockOffset, nf, P);
+  fillOutgoing(b, aw, rowScratch, partner, state.blockS, sys.blockOffset, nf, P);
   return { a, b };
 }
 
@@ -60,13 +86,11 @@ function workOf(length: number): Float64Array {
   return work;
 }
 
-function fillGrowth(a: Float64Array, st: GrowthWaveState, incident: Float64Array, nf: number, E: number, P: number): void {
+function fillGrowth(aw: Float64Array, st: GrowthWaveState, incident: Float64Array, nf: number, E: number): void {
   const plan = st.entry.plan;
   const mapOffset = st.entry.mapOffset;
-  const T = plan.totalPorts;
   const stride = 2 * nf; // one port's row in the work area
-  const aw = workOf(stride * T);
-  aw.fill(0, 0, stride * T);
+  aw.fill(0);
   for (let m = 0; m < E; m++) {
     const row = plan.outer[m] * stride;
     for (let f = 0; f < nf; f++) {
@@ -97,13 +121,6 @@ function fillGrowth(a: Float64Array, st: GrowthWaveState, incident: Float64Array
           aw[dst + f + 1] += mr * xi + mi * xr;
         }
       }
-    }
-  }
-  for (let p = 0; p < P; p++) {
-    const row = p * stride;
-    for (let f = 0; f < nf; f++) {
-      a[2 * (f * P + p)] = aw[row + 2 * f];
-      a[2 * (f * P + p) + 1] = aw[row + 2 * f + 1];
     }
   }
 }
@@ -149,20 +166,9 @@ function fillDense(a: Float64Array, st: DenseWaveState, incident: Float64Array, 
   }
 }
 
-function applyBlocks(b: Float64Array, a: Float64Array, blockS: SData[], offsets: number[], nf: number, P: number): void {
+/** b at every block port: the partner's a on a link (what enters one end leaves the other), else S·a. */
+function fillOutgoing(b: Float64Array, aw: Float64Array, acc: Float64Array, partner: Int32Array, blockS: SData[], offsets: number[], nf: number, P: number): void {
   const stride = 2 * nf;
-  // a transposed to port-major, then b accumulated port-major, then written back frequency-major
-  const w = workOf(2 * stride * P);
-  const aw = w.subarray(0, stride * P);
-  const bw = w.subarray(stride * P, 2 * stride * P);
-  for (let p = 0; p < P; p++) {
-    const row = p * stride;
-    for (let f = 0; f < nf; f++) {
-      aw[row + 2 * f] = a[2 * (f * P + p)];
-      aw[row + 2 * f + 1] = a[2 * (f * P + p) + 1];
-    }
-  }
-  bw.fill(0);
   for (let i = 0; i < blockS.length; i++) {
     const s = blockS[i];
     const n = s.n;
@@ -170,26 +176,31 @@ function applyBlocks(b: Float64Array, a: Float64Array, blockS: SData[], offsets:
     const d = s.data;
     const fStride = 2 * n * n;
     for (let r = 0; r < n; r++) {
-      const dst = (off + r) * stride;
-      for (let c = 0; c < n; c++) {
-        const src = (off + c) * stride;
-        let so = 2 * (r * n + c);
-        for (let f = 0; f < stride; f += 2, so += fStride) {
-          const mr = d[so];
-          const mi = d[so + 1];
-          const xr = aw[src + f];
-          const xi = aw[src + f + 1];
-          bw[dst + f] += mr * xr - mi * xi;
-          bw[dst + f + 1] += mr * xi + mi * xr;
+      const p = off + r;
+      const q = partner[p];
+      let row: Float64Array = aw;
+      let ro = q * stride;
+      if (q < 0) {
+        acc.fill(0);
+        for (let c = 0; c < n; c++) {
+          const src = (off + c) * stride;
+          let so = 2 * (r * n + c);
+          for (let f = 0; f < stride; f += 2, so += fStride) {
+            const mr = d[so];
+            const mi = d[so + 1];
+            const xr = aw[src + f];
+            const xi = aw[src + f + 1];
+            acc[f] += mr * xr - mi * xi;
+            acc[f + 1] += mr * xi + mi * xr;
+          }
         }
+        row = acc;
+        ro = 0;
       }
-    }
-  }
-  for (let p = 0; p < P; p++) {
-    const row = p * stride;
-    for (let f = 0; f < nf; f++) {
-      b[2 * (f * P + p)] = bw[row + 2 * f];
-      b[2 * (f * P + p) + 1] = bw[row + 2 * f + 1];
+      for (let f = 0; f < nf; f++) {
+        b[2 * (f * P + p)] = row[ro + 2 * f];
+        b[2 * (f * P + p) + 1] = row[ro + 2 * f + 1];
+      }
     }
   }
 }
