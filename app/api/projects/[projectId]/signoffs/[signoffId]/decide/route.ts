@@ -1,0 +1,19 @@
+import { decideSignoff } from "@/db/queries/signoffs";
+import { apiRoute, json } from "@/lib/api";
+import { notifySignoffDecided } from "@/lib/signoffs/notify";
+import { decideSignoffSchema } from "../../schema";
+
+type Params = { projectId: string; signoffId: string };
+
+/**
+ * POST …/signoffs/:signoffId/decide { decision: "approved" | "changes_requested", comment } → { signoff, mail }.
+ * Only the named reviewer (reviewer or owner role); 409 once decided or when the scenario changed since.
+ * The requester is e-mailed unless they turned sign-off e-mails off.
+ */
+export const POST = apiRoute<Params>(async (ctx) => {
+  const input = await ctx.body(decideSignoffSchema);
+  const user = await ctx.requireUser();
+  const decided = await decideSignoff({ actor: user, projectId: ctx.params.projectId, signoffId: ctx.params.signoffId, decision: input.decision, comment: input.comment });
+  const mail = await notifySignoffDecided(decided);
+  return json({ signoff: decided.signoff, mail });
+});

@@ -1,0 +1,84 @@
+import "server-only";
+import { getPartTexts } from "@/db/queries/parts";
+import { getProjectForUser } from "@/db/queries/projects";
+import { getScenario } from "@/db/queries/scenarios";
+import { db } from "@/db/client";
+import { BUNDLE_PATHS, BundleError, bundleFiles, computeBundleResults, sha256, writeBundleZip, type BundleIdentity } from "@/engine/bundle";
+import { EngineInputError, SingularSystemError } from "@/engine/types";
+import packageJson from "@/package.json";
+import { recordAudit } from "@/lib/audit";
+import type { SessionUser } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { authorize } from "@/lib/permissions";
+import { renderReportHtml } from "./report-html";
+
+export type ExportedBundle = { fileName: string; bytes: Uint8Array; identity: BundleIdentity; revisionNumber: number; contentHash: string };
+
+/** A file name made of the scenario's name: letters, digits and dashes. */
+function fileStem(name: string): string {
+  return (
+    name
+      .normalize("NFKD")
+      .replace(/[^\w\s-]/g, "")
+      .trim()
+      .replace(/[\s_]+/g, "-")
+      .toLowerCase()
+      .slice(0, 60) || "scenario"
+  );
+}
+
+/**
+ * The bundle of one scenario revision (latest unless `revisionId`): scenario, parts, composite, checks,
+ * report and manifest. Anyone who may export bundles (every member); 422 when the revision cannot be solved.
+ */
+export async function exportBundle({
+  actor,
+  projectId,
+  scenarioId,
+  revisionId,
+}: {
+  actor: SessionUser;
+  projectId: string;
+  scenarioId: string;
+  revisionId?: string;
+}): Promise<ExportedBundle> {
+  await authorize({ userId: actor.id, projectId, action: "bundle.export" });
+  const project = await getProjectForUser({ projectId, userId: actor.id });
+  const { scenario, revision } = await getScenario({ userId: actor.id, projectId, scenarioId, revisionId });
+  const allParts = await getPartTexts({ projectId });
+  let results;
+  try {
+    results = computeBundleResults(revision.content, allParts);
+  } catch (error) {
+    if (error instanceof EngineInputError || error instanceof SingularSystemError) {
+      throw new AppError("unprocessable", 422, `Revision ${revision.number} cannot be solved, so it cannot be bundled: ${error.message}`);
+    }
+    throw error;
+  }
+  let files: Map<string, string>;
+  try {
+    files = bundleFiles(revision.content, allParts, results);
+  } catch (error) {
+    if (error instanceof BundleError) throw new AppError("unprocessable", 422, error.message);
+    throw error;
+  }
+  const identity: BundleIdentity = {
+    app: { name: "portolan", version: packageJson.version },
+    created_at: new Date().toISOString(),
+    created_by: { name: actor.name, email: actor.email },
+    project: { id: project.id, name: project.name },
+    scenario: { id: scenario.id, name: scenario.name },
+    revision: { id: revision.id, number: revision.number, content_hash: revision.contentHash },
+  };
+  const hashes = [...files].map(([path, text]) => ({ path, sha256: sha256(text) }));
+  files.set(BUNDLE_PATHS.report, renderReportHtml({ identity, results, files: hashes }));
+  const bytes = await writeBundleZip(identity, files);
+  await recordAudit(db, {
+    actor,
+    projectId,
+    action: "bundle.export",
+    target: scenario.name,
+    detail: { scenarioId, revision: revision.number, contentHash: revision.contentHash, verdict: results.checks.verdict, bytes: bytes.length },
+  });
+  return { fileName: `${fileStem(scenario.name)}-r${revision.number}-bundle.zip`, bytes, identity, revisionNumber: revision.number, contentHash: revision.contentHash };
+}

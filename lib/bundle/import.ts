@@ -1,0 +1,142 @@
+import "server-only";
+import { randomUUID } from "node:crypto";
+import { and, eq } from "drizzle-orm";
+import { runInTransaction, type Executor } from "@/db/client";
+import { createPart, readPartText } from "@/db/queries/parts";
+import { insertRevision, type RevisionDetail } from "@/db/queries/revisions";
+import { parts, scenarios } from "@/db/schema";
+import { BundleError, engineScenario, openBundle, usedPartFiles, type BundleManifest } from "@/engine/bundle";
+import { parseScenario } from "@/engine/scenario";
+import { EngineInputError } from "@/engine/types";
+import { recordAudit } from "@/lib/audit";
+import type { SessionUser } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { authorize } from "@/lib/permissions";
+import { PART_FILE_NAME_PATTERN, PART_MAX_BYTES } from "@/lib/validation/parts";
+import { draftScenarioSchema, scenarioNameSchema, type DraftScenario } from "@/lib/validation/scenarios";
+
+/** Largest bundle zip accepted for upload (its inflated contents are limited separately, to 50 MB). */
+export const BUNDLE_UPLOAD_MAX_BYTES = 20 * 1024 * 1024;
+
+export type ImportedPart = { fileName: string; reused: boolean; renamedFrom: string | null };
+
+export type ImportResult = {
+  scenario: { id: string; name: string };
+  revision: RevisionDetail;
+  parts: ImportedPart[];
+  manifest: Omit<BundleManifest, "files"> & { files: string[] };
+  /** the new revision has the same content hash as the exported one (no part had to be renamed) */
+  contentHashMatches: boolean;
+};
+
+/** A refused bundle as an API error: 413 for size limits, 422 otherwise, naming the entry. */
+export function bundleAppError(error: BundleError): AppError {
+  const fields = error.entry ? { entry: error.entry } : undefined;
+  return error.kind === "too_large" ? new AppError("payload_too_large", 413, error.message, fields) : new AppError("unprocessable", 422, error.message, fields);
+}
+
+function partStem(fileName: string): [string, string] {
+  const dot = fileName.lastIndexOf(".");
+  return [fileName.slice(0, dot), fileName.slice(dot)];
+}
+
+async function freePartName(tx: Executor, projectId: string, fileName: string): Promise<string> {
+  const [stem, ext] = partStem(fileName);
+  for (let i = 2; i < 1000; i++) {
+    const candidate = `${stem}-${i}${ext}`;
+    const [row] = await tx.select({ id: parts.id }).from(parts).where(and(eq(parts.projectId, projectId), eq(parts.fileName, candidate)));
+    if (!row) return candidate;
+  }
+  throw new AppError("conflict", 409, `The project has too many parts named like ${fileName}.`);
+}
+
+/**
+ * Import a bundle as a new scenario with its parts (engineers, owners). Everything is checked before
+ * anything is written: zip limits and entry names, manifest and hashes, the scenario file, every part. Parts
+ * whose file name and text already exist in the project are reused; a different part of the same name is
+ * stored under a free name ("ant-2.s1p") and the scenario's blocks point at it. One transaction.
+ */
+export async function importBundle({ actor, projectId, bytes }: { actor: SessionUser; projectId: string; bytes: Uint8Array }): Promise<ImportResult> {
+  await authorize({ userId: actor.id, projectId, action: "bundle.import" });
+  let bundle;
+  try {
+    bundle = openBundle(bytes);
+  } catch (error) {
+    if (error instanceof BundleError) throw bundleAppError(error);
+    throw error;
+  }
+  const draft = draftScenarioSchema.safeParse(bundle.scenario);
+  if (!draft.success) {
+    const issue = draft.error.issues[0];
+    throw new AppError("unprocessable", 422, `scenario.json is not a scenario file: ${issue.path.map(String).join(".") || "(root)"}: ${issue.message}`, { entry: "scenario.json" });
+  }
+  const content: DraftScenario = draft.data;
+  const name = scenarioNameSchema.safeParse(content.name);
+  if (!name.success) throw new AppError("unprocessable", 422, `scenario.json: name: ${name.error.issues[0].message}`, { entry: "scenario.json" });
+  let used: string[];
+  try {
+    used = usedPartFiles(content);
+    parseScenario(engineScenario(content), { parts: bundle.parts });
+  } catch (error) {
+    if (error instanceof BundleError) throw bundleAppError(error);
+    if (error instanceof EngineInputError) throw new AppError("unprocessable", 422, `scenario.json cannot be used: ${error.message}`, { entry: "scenario.json" });
+    throw error;
+  }
+  for (const file of used) {
+    const fileName = file.slice("parts/".length);
+    const text = bundle.parts[file];
+    if (text === undefined) throw new AppError("unprocessable", 422, `scenario.json uses ${file}, which the bundle does not contain.`, { entry: file });
+    if (!PART_FILE_NAME_PATTERN.test(fileName)) throw new AppError("unprocessable", 422, `Entry "${file}" is not a Touchstone file name (.s1p … .sNp or .ts).`, { entry: file });
+    if (Buffer.byteLength(text, "utf8") > PART_MAX_BYTES) throw new AppError("payload_too_large", 413, `Entry "${file}" is larger than the ${PART_MAX_BYTES / (1024 * 1024)} MB limit for a part.`, { entry: file });
+    readPartText(text, fileName);
+  }
+  const manifest = { ...bundle.manifest, files: Object.keys(bundle.manifest.files) };
+  return runInTransaction(async (tx) => {
+    await authorize({ userId: actor.id, projectId, action: "bundle.import", executor: tx });
+    await authorize({ userId: actor.id, projectId, action: "scenario.create", executor: tx });
+    await authorize({ userId: actor.id, projectId, action: "part.upload", executor: tx });
+    const imported: ImportedPart[] = [];
+    const renames = new Map<string, string>();
+    for (const file of used) {
+      const fileName = file.slice("parts/".length);
+      const text = bundle.parts[file];
+      const [existing] = await tx
+        .select({ text: parts.text })
+        .from(parts)
+        .where(and(eq(parts.projectId, projectId), eq(parts.fileName, fileName)));
+      if (existing && existing.text === text) {
+        imported.push({ fileName, reused: true, renamedFrom: null });
+        continue;
+      }
+      const target = existing ? await freePartName(tx, projectId, fileName) : fileName;
+      if (target !== fileName) renames.set(file, `parts/${target}`);
+      await createPart({ actor, projectId, name: partStem(target)[0], fileName: target, text, executor: tx });
+      imported.push({ fileName: target, reused: false, renamedFrom: target === fileName ? null : fileName });
+    }
+    const stored: DraftScenario = renames.size === 0 ? content : { ...content, blocks: content.blocks.map((b) => (b.file && renames.has(b.file) ? { ...b, file: renames.get(b.file) } : b)) };
+    const scenarioId = randomUUID();
+    await tx.insert(scenarios).values({ id: scenarioId, projectId, name: name.data, createdBy: actor.id });
+    const revision = await insertRevision(tx, { scenarioId, projectId, content: stored, authorId: actor.id, origin: "create" });
+    await recordAudit(tx, {
+      actor,
+      projectId,
+      action: "bundle.import",
+      target: name.data,
+      detail: {
+        scenarioId,
+        fromProject: bundle.manifest.project.name,
+        fromScenario: bundle.manifest.scenario.id,
+        fromRevision: bundle.manifest.revision.number,
+        contentHash: revision.contentHash,
+        parts: imported.map((p) => p.fileName),
+      },
+    });
+    return {
+      scenario: { id: scenarioId, name: name.data },
+      revision,
+      parts: imported,
+      manifest,
+      contentHashMatches: revision.contentHash === bundle.manifest.revision.content_hash,
+    };
+  });
+}
