@@ -325,6 +325,24 @@ describe("bookkeeping", () => {
     expect(maxDiff(internalWaves(first, inc).a, want1.a)).toBeLessThan(1e-12);
   });
 
+  it("edge cases: no system ports, no frequencies, no blocks, and a non-positive or infinite port Z0", () => {
+    const r = rng(3);
+    const closed = makeSystem({ blocks: [{ id: "A", s: randomS(r, 2, 2, 0.4) }, { id: "B", s: randomS(r, 2, 2, 0.4) }], links: [["A:2", "B:1"]], ports: [] });
+    for (const [sol] of [[solveSystem(closed)], [solveDense(closed)]]) {
+      expect(sol.s.n).toBe(0);
+      // no excitation: every wave is zero
+      expect(internalWaves(sol, new Float64Array(0)).b.every((x) => x === 0)).toBe(true);
+    }
+    const noFreq = makeSystem({ frequencies: [], blocks: [{ id: "A", s: { n: 2, nf: 0, data: new Float64Array(0) } }], links: [], ports: [{ name: "X", at: "A:1" }] });
+    expect(solveSystem(noFreq).s).toEqual({ n: 1, nf: 0, data: new Float64Array(0) });
+    const empty = makeSystem({ frequencies: [1e9], blocks: [], links: [], ports: [] });
+    expect(solveSystem(empty).s.data.length).toBe(0);
+    for (const z0 of [0, -50, Infinity, NaN]) {
+      const sys = makeSystem({ blocks: [{ id: "A", s: randomS(r, 1, 1) }], links: [], ports: [{ name: "X", at: "A:1", z0 }] });
+      expect(() => solveSystem(sys)).toThrow(EngineInputError);
+    }
+  });
+
   it("internalWaves() needs the wave data of a solve and an excitation of the right length", () => {
     const r = rng(2);
     const sys = makeSystem({ blocks: [{ id: "A", s: randomS(r, 2, 3) }], links: [], ports: [{ name: "X", at: "A:1" }] });
