@@ -1,6 +1,6 @@
 "use client";
 
-import { useEffect, useRef } from "react";
+import { useEffect, useRef, useState } from "react";
 import uPlot from "uplot";
 import "uplot/dist/uPlot.min.css";
 import { formatSi } from "@/lib/client/format";
@@ -32,6 +32,23 @@ function finiteOrNull(values: Float64Array): (number | null)[] {
   return Array.from(values, (v) => (Number.isFinite(v) ? v : null));
 }
 
+/** Changes when the page switches between light and dark, so that canvas colours can be read again. */
+function useThemeKey(): number {
+  const [key, setKey] = useState(0);
+  useEffect(() => {
+    const bump = () => setKey((k) => k + 1);
+    const media = window.matchMedia("(prefers-color-scheme: dark)");
+    media.addEventListener("change", bump);
+    const observer = new MutationObserver(bump);
+    observer.observe(document.documentElement, { attributes: true, attributeFilter: ["class", "data-theme", "style"] });
+    return () => {
+      media.removeEventListener("change", bump);
+      observer.disconnect();
+    };
+  }, []);
+  return key;
+}
+
 /** One trace over frequency (uPlot): hover read-out through onHover, click to place a marker. */
 export function TracePlot({ frequencies, values, label, unit, markers, onHover, onPick, height = 220 }: TracePlotProps) {
   const box = useRef<HTMLDivElement>(null);
@@ -39,6 +56,7 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
   const markersRef = useRef(markers);
   const callbacks = useRef({ onHover, onPick });
   callbacks.current = { onHover, onPick };
+  const themeKey = useThemeKey();
 
   useEffect(() => {
     const el = box.current;
@@ -125,7 +143,7 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
     };
     // re-created when what the axes say changes; data updates go through setData below
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [label, unit, height]);
+  }, [label, unit, height, themeKey]);
 
   useEffect(() => {
     plot.current?.setData([Array.from(frequencies), finiteOrNull(values)] as uPlot.AlignedData);
