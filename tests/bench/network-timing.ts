@@ -72,7 +72,6 @@ function arraySystem(nf: number, n = 64): PreparedSystem {
   return makeSystem({ blocks, links, ports: [{ name: "COM", at: "SPL1:1" }] });
 }
 
-const only = process.argv[2];
 const nf = 1001;
 for (const n of [10, 100, 1000]) {
   const sys = chain(n, nf);
