@@ -34,7 +34,7 @@ export function requireReferencePython(): void {
  * @param input - serialised to stdin
  * @param env - extra environment variables
  */
-export function runPythonJson<T>(script: string, input: unknown, env: Record<string, string | undefined> = process.env): T {
+export function runPythonJson<T>(script: string, input: unknown, env: NodeJS.ProcessEnv = process.env): T {
   const run = spawnSync(PYTHON, [script], { input: JSON.stringify(input), encoding: "utf8", maxBuffer: 1 << 30, env });
   if (run.status !== 0) throw new Error(`${script} failed (exit ${run.status}): ${run.stderr}`);
   return JSON.parse(run.stdout) as T;
