@@ -1,0 +1,77 @@
+"use client";
+
+import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult } from "@/engine/checks";
+import { VerdictBadge } from "@/components/ui";
+import { CHECK_TITLES } from "./check-inputs";
+import type { CheckRunView as Run } from "./types";
+import { DriveView } from "./drive-view";
+import { LeakTraceView } from "./leak-trace-view";
+import { LedgerChart } from "./ledger-chart";
+import { RuleResultsTable } from "./rule-results-table";
+import { SortableTable } from "./sortable-table";
+import { StabilityView } from "./stability-view";
+import { SweepTable } from "./sweep-table";
+
+export type CheckRunViewProps = {
+  run: Run;
+  /** leak traces: the rank of the path shown on the chart */
+  highlightedPath?: number | null;
+  onHighlightPath?: (rank: number | null) => void;
+};
+
+/** One stored check run: verdict, headline and the check's own figures. */
+export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: CheckRunViewProps) {
+  const result = run.figures.result;
+  return (
+    <article aria-label={`${CHECK_TITLES[run.check]} result`} className="flex flex-col gap-3" data-check={run.check}>
+      <header className="flex flex-wrap items-center gap-2">
+        <VerdictBadge verdict={run.verdict} />
+        <h3 className="text-base font-semibold">{CHECK_TITLES[run.check]}</h3>
+        <span className="text-xs text-muted">
+          r{run.revisionNumber ?? "?"} · {run.userName ?? "someone"} · {new Date(run.createdAt).toLocaleString("en-GB")}
+        </span>
+      </header>
+      <p className="figures text-sm" data-testid="check-headline">
+        {run.headline}
+      </p>
+      {run.check === "isolation" || run.check === "match" || run.check === "insertion_loss" ? <RuleResultsTable results={[result as RuleResult]} caption={CHECK_TITLES[run.check]} /> : null}
+      {run.check === "leak_trace" ? <LeakTraceView result={result as LeakTraceResult} highlighted={highlightedPath} onHighlight={onHighlightPath} /> : null}
+      {run.check === "power_ledger" ? <LedgerChart result={result as LedgerResult} /> : null}
+      {run.check === "drive" ? <DriveView result={result as DriveResult} /> : null}
+      {run.check === "state_sweep" ? <SweepTable result={result as StateSweepResult} /> : null}
+      {run.check === "stability" ? <StabilityView results={result as StabilityResult[]} /> : null}
+      {run.check === "all_rules" ? <AllRulesView result={result as AllChecksResult} /> : null}
+      {run.figures.skipped && run.figures.skipped.length > 0 ? (
+        <div className="text-sm">
+          <h4 className="font-semibold">Rules not run on this scenario</h4>
+          <ul className="list-disc pl-5 text-muted">
+            {run.figures.skipped.map((s) => (
+              <li key={s.id}>
+                <span className="font-mono">{s.id}</span>: {s.reason}
+              </li>
+            ))}
+          </ul>
+        </div>
+      ) : null}
+    </article>
+  );
+}
+
+function AllRulesView({ result }: { result: AllChecksResult }) {
+  const others = result.checks.filter((c) => !c.name.startsWith("rule:"));
+  return (
+    <div className="flex flex-col gap-3">
+      {result.rules.length > 0 ? <RuleResultsTable results={result.rules} /> : <p className="text-sm text-muted">No rules apply to this scenario.</p>}
+      <SortableTable
+        caption="Built-in checks"
+        rows={others}
+        rowKey={(c) => c.name}
+        columns={[
+          { id: "verdict", header: "Verdict", value: (c) => c.verdict, cell: (c) => <VerdictBadge verdict={c.verdict} /> },
+          { id: "check", header: "Check", value: (c) => c.title },
+          { id: "note", header: "Note", value: (c) => c.messages[0] ?? "", sortable: false },
+        ]}
+      />
+    </div>
+  );
+}

@@ -1,0 +1,179 @@
+"use client";
+
+import { useCallback, useEffect, useRef, useState } from "react";
+import { useRouter } from "next/navigation";
+import { useSWRConfig } from "swr";
+import type { BlockKind, PortRef, Scenario } from "@/engine/types";
+import { Alert } from "@/components/ui";
+import { useHelmScenario } from "@/components/helm/helm-context";
+import { can, type Role } from "@/lib/permission-table";
+import { addBlock, setSwitchState, setSystemPort, type PartSummary } from "@/lib/client/scenario-model";
+import { CARD_WIDTH } from "@/components/chart";
+import type { LeakTraceResult } from "@/engine/checks";
+import type { CheckName } from "./check-inputs";
+import { ChecksPanel, checkRunUrls } from "./checks-panel";
+import { highlightOfPath, type ChartHighlight } from "./leak-trace-view";
+import type { CheckRunView } from "./types";
+
+export type ScenarioChecksProps = {
+  projectId: string;
+  scenarioId: string;
+  scenarioName: string;
+  role: Role;
+  /** the saved revision the page shows: checks run on it */
+  revisionId: string;
+  revisionNumber: number;
+  /** the scenario as edited on the page */
+  scenario: Scenario;
+  parts: readonly PartSummary[];
+  readOnly: boolean;
+  /** apply an edit made from the helm (the page saves it like any other) */
+  onChange: (next: Scenario) => void;
+  saveNow: () => void;
+  /** blocks and links to mark on the chart (a leak path), or null */
+  onHighlight: (highlight: ChartHighlight | null) => void;
+};
+
+async function postJson<T>(url: string, body: unknown): Promise<T> {
+  const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json", accept: "application/json" }, body: JSON.stringify(body), credentials: "same-origin" });
+  const json = await res.json().catch(() => null);
+  if (!res.ok) throw new Error((json as { error?: { message?: string } } | null)?.error?.message ?? `The server answered ${res.status}.`);
+  return json as T;
+}
+
+/**
+ * The "Checks" area of the scenario page and the page's side of the helm: lends the workspace's actions
+ * and the checks to the helm, runs checks on the server, shows the chosen run and the run history, and
+ * highlights a leak path on the chart.
+ */
+export function ScenarioChecks(props: ScenarioChecksProps) {
+  const { projectId, scenarioId, scenarioName, role, revisionId, revisionNumber, scenario, parts, readOnly, onChange, saveNow, onHighlight } = props;
+  const router = useRouter();
+  const { mutate } = useSWRConfig();
+  const [selected, setSelected] = useState<string | null>(null);
+  const [running, setRunning] = useState<CheckName | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [notice, setNotice] = useState<string | null>(null);
+  const [pathRank, setPathRank] = useState<number | null>(null);
+  const [leak, setLeak] = useState<LeakTraceResult | null>(null);
+  const box = useRef<HTMLDivElement>(null);
+  const latest = useRef(scenario);
+  latest.current = scenario;
+
+  useEffect(() => {
+    const path = leak && pathRank !== null ? leak.paths.find((p) => p.rank === pathRank) : null;
+    onHighlight(path ? highlightOfPath(path) : null);
+  }, [leak, pathRank, onHighlight]);
+
+  const select = useCallback(
+    async (runId: string) => {
+      setSelected(runId);
+      setPathRank(null);
+      setLeak(null);
+      try {
+        const { run } = await (await fetch(checkRunUrls.one(projectId, scenarioId, runId), { credentials: "same-origin" })).json() as { run: CheckRunView };
+        if (run?.check === "leak_trace") setLeak(run.figures.result as LeakTraceResult);
+      } catch {
+        // the panel shows its own loading error
+      }
+    },
+    [projectId, scenarioId],
+  );
+
+  const runCheck = useCallback(
+    async (check: CheckName, inputs: Record<string, unknown>) => {
+      setRunning(check);
+      setError(null);
+      try {
+        const { run } = await postJson<{ run: CheckRunView }>(checkRunUrls.list(projectId, scenarioId), { check, inputs, revisionId });
+        await mutate(checkRunUrls.one(projectId, scenarioId, run.id), { run }, { revalidate: false });
+        await mutate(checkRunUrls.list(projectId, scenarioId));
+        setSelected(run.id);
+        if (run.check === "leak_trace") {
+          const result = run.figures.result as LeakTraceResult;
+          setLeak(result);
+          setPathRank(result.paths[0]?.rank ?? null);
+        } else {
+          setLeak(null);
+          setPathRank(null);
+        }
+        box.current?.scrollIntoView({ block: "start", behavior: "smooth" });
+      } catch (e) {
+        setError(e instanceof Error ? e.message : String(e));
+      } finally {
+        setRunning(null);
+      }
+    },
+    [mutate, projectId, revisionId, scenarioId],
+  );
+
+  const edit = (result: { ok: true; scenario: Scenario } | { ok: false; reason: string }, done: string) => {
+    if (result.ok) {
+      onChange(result.scenario);
+      setNotice(done);
+    } else setNotice(result.reason);
+  };
+
+  useHelmScenario({
+    projectId,
+    scenarioId,
+    scenarioName,
+    role,
+    revisionId,
+    revisionNumber,
+    scenario,
+    parts,
+    addBlock: (kind: BlockKind, part?: PartSummary) => {
+      if (readOnly) return;
+      const blocks = latest.current.blocks;
+      const right = blocks.reduce((x, b) => Math.max(x, (b.position?.x ?? 0) + CARD_WIDTH + 80), 0);
+      const r = addBlock(latest.current, kind, { x: right, y: 0 }, part);
+      edit({ ok: true, scenario: r.scenario }, `Added ${r.id}.`);
+    },
+    markSystemPort: (at: PortRef, name: string) => edit(setSystemPort(latest.current, at, { name }, parts), `${at} is now system port ${name}.`),
+    setSwitchState: (id: string, state: number) => edit(setSwitchState(latest.current, id, state), `${id} set to throw ${state}.`),
+    saveRevision: () => {
+      saveNow();
+      setNotice("Saving…");
+    },
+    duplicateScenario: async () => {
+      try {
+        const created = await postJson<{ scenario: { id: string } }>(`/api/projects/${projectId}/scenarios/${scenarioId}/duplicate`, {});
+        router.push(`/projects/${projectId}/scenarios/${created.scenario.id}`);
+      } catch (e) {
+        setNotice(e instanceof Error ? e.message : String(e));
+      }
+    },
+    downloadTouchstone: () => {
+      window.location.href = `/api/projects/${projectId}/scenarios/${scenarioId}/solve?format=touchstone&revision=${encodeURIComponent(revisionId)}`;
+    },
+    exportBundle: () => {
+      window.location.href = `/api/projects/${projectId}/scenarios/${scenarioId}/bundle?revisionId=${encodeURIComponent(revisionId)}`;
+    },
+    runCheck,
+  });
+
+  return (
+    <div ref={box} className="scroll-mt-4">
+      {notice ? (
+        <p role="status" className="mb-2 text-sm text-muted">
+          Helm: {notice}
+        </p>
+      ) : null}
+      <ChecksPanel
+        projectId={projectId}
+        scenarioId={scenarioId}
+        selectedRunId={selected}
+        onSelect={(id) => void select(id)}
+        running={running}
+        error={error}
+        canRun={can(role, "check.run")}
+        onRunAll={() => void runCheck("all_rules", {})}
+        highlightedPath={pathRank}
+        onHighlightPath={setPathRank}
+      />
+      {revisionNumber > 0 ? <p className="mt-1 text-xs text-muted">Checks run on the saved revision r{revisionNumber}; unsaved edits are not included.</p> : null}
+      {readOnly && !can(role, "check.run") ? <Alert tone="info">Your role cannot run checks.</Alert> : null}
+    </div>
+  );
+}

@@ -1,0 +1,106 @@
+import type { BlockSpec, PortRef, Scenario } from "@/engine/types";
+
+/** A changed parameter (or another field of a block): its value before and after; undefined = not set. */
+export type FieldChange = { name: string; before: unknown; after: unknown };
+
+export type BlockDiff =
+  | { change: "added"; id: string; kind: string }
+  | { change: "removed"; id: string; kind: string }
+  | { change: "changed"; id: string; kind: string; params: FieldChange[]; fields: FieldChange[]; state: { before: number | undefined; after: number | undefined } | null };
+
+export type LinkDiff = { change: "added" | "removed"; link: [PortRef, PortRef] };
+
+export type PortDiff =
+  | { change: "added" | "removed"; name: string; at: PortRef }
+  | { change: "moved"; name: string; before: PortRef; after: PortRef }
+  | { change: "z0"; name: string; before: number | undefined; after: number | undefined };
+
+export type ScenarioDiff = {
+  blocks: BlockDiff[];
+  links: LinkDiff[];
+  ports: PortDiff[];
+  /** scenario-level fields that differ: z0, frequency plan */
+  settings: FieldChange[];
+  /** true when nothing the engine reads differs (positions and labels are ignored) */
+  same: boolean;
+};
+
+function canonical(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonical).join(",")}]`;
+  if (value && typeof value === "object") {
+    return `{${Object.keys(value)
+      .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
+      .sort()
+      .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
+      .join(",")}}`;
+  }
+  return JSON.stringify(value);
+}
+
+const equal = (a: unknown, b: unknown) => canonical(a) === canonical(b);
+
+/** Block fields compared besides `params` and `state` (chart position, label and editor expressions are not). */
+const BLOCK_FIELDS = ["kind", "file", "data", "ports", "rating_dbm"] as const;
+
+function diffBlock(a: BlockSpec, b: BlockSpec): BlockDiff | null {
+  const pa = (a.params ?? {}) as Record<string, unknown>;
+  const pb = (b.params ?? {}) as Record<string, unknown>;
+  const params: FieldChange[] = [...new Set([...Object.keys(pa), ...Object.keys(pb)])]
+    .sort()
+    .filter((k) => !equal(pa[k], pb[k]))
+    .map((k) => ({ name: k, before: pa[k], after: pb[k] }));
+  const fields: FieldChange[] = BLOCK_FIELDS.filter((k) => !equal(a[k], b[k])).map((k) => ({ name: k, before: a[k], after: b[k] }));
+  const state = a.state !== b.state ? { before: a.state, after: b.state } : null;
+  if (params.length === 0 && fields.length === 0 && !state) return null;
+  return { change: "changed", id: a.id, kind: b.kind, params, fields, state };
+}
+
+const linkKey = ([x, y]: [PortRef, PortRef]) => (x < y ? `${x}~${y}` : `${y}~${x}`);
+
+/**
+ * What differs between two scenarios (or two revisions of one), in what the engine reads: blocks added,
+ * removed or changed (parameters, switch state, part file, rating), links added or removed (a link is the
+ * same whichever end is written first), system ports added, removed, moved or with another Z0, and the
+ * system Z0 and frequency plan. Blocks are matched by id.
+ * @example diffScenarios(a, b).blocks // [{ change: "changed", id: "TR", params: [{ name: "isolation_db", before: 45, after: 25 }], … }]
+ */
+export function diffScenarios(a: Scenario, b: Scenario): ScenarioDiff {
+  const blocksA = new Map(a.blocks.map((x) => [x.id, x]));
+  const blocksB = new Map(b.blocks.map((x) => [x.id, x]));
+  const blocks: BlockDiff[] = [];
+  for (const x of a.blocks) {
+    const y = blocksB.get(x.id);
+    if (!y) blocks.push({ change: "removed", id: x.id, kind: x.kind });
+    else {
+      const d = diffBlock(x, y);
+      if (d) blocks.push(d);
+    }
+  }
+  for (const y of b.blocks) if (!blocksA.has(y.id)) blocks.push({ change: "added", id: y.id, kind: y.kind });
+
+  const linksA = new Map(a.links.map((l) => [linkKey(l), l]));
+  const linksB = new Map(b.links.map((l) => [linkKey(l), l]));
+  const links: LinkDiff[] = [
+    ...[...linksA].filter(([k]) => !linksB.has(k)).map(([, link]) => ({ change: "removed" as const, link })),
+    ...[...linksB].filter(([k]) => !linksA.has(k)).map(([, link]) => ({ change: "added" as const, link })),
+  ];
+
+  const portsA = new Map(a.ports.map((p) => [p.name, p]));
+  const portsB = new Map(b.ports.map((p) => [p.name, p]));
+  const ports: PortDiff[] = [];
+  for (const p of a.ports) {
+    const q = portsB.get(p.name);
+    if (!q) ports.push({ change: "removed", name: p.name, at: p.at });
+    else {
+      if (p.at !== q.at) ports.push({ change: "moved", name: p.name, before: p.at, after: q.at });
+      if ((p.z0 ?? a.z0) !== (q.z0 ?? b.z0)) ports.push({ change: "z0", name: p.name, before: p.z0 ?? a.z0, after: q.z0 ?? b.z0 });
+    }
+  }
+  for (const q of b.ports) if (!portsA.has(q.name)) ports.push({ change: "added", name: q.name, at: q.at });
+
+  const settings: FieldChange[] = [];
+  if (a.z0 !== b.z0) settings.push({ name: "z0", before: a.z0, after: b.z0 });
+  if (!equal(a.frequency, b.frequency)) settings.push({ name: "frequency", before: a.frequency, after: b.frequency });
+
+  return { blocks, links, ports, settings, same: blocks.length + links.length + ports.length + settings.length === 0 };
+}

@@ -1,0 +1,229 @@
+"use client";
+
+import { useState } from "react";
+import useSWR from "swr";
+import { useForm } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import type { RuleSpec } from "@/engine/types";
+import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components/ui";
+import { SortableTable, type SortColumn } from "@/components/checks/sortable-table";
+import { formatBand } from "@/components/helm/parse-input";
+import { RULE_KIND_LABELS, RULE_KINDS } from "./rule-spec";
+import { EMPTY_RULE_FORM, formFromSpec, ruleFormSchema, specFromForm, type RuleFormValues } from "./rule-form";
+
+export type RuleItem = { id: string; kind: RuleSpec["kind"]; spec: RuleSpec; createdByName: string | null; updatedAt: string };
+
+const fetcher = async <T,>(url: string): Promise<T> => {
+  const res = await fetch(url, { headers: { accept: "application/json" }, credentials: "same-origin" });
+  if (!res.ok) throw new Error(`The server answered ${res.status}.`);
+  return (await res.json()) as T;
+};
+
+async function send(url: string, method: string, body?: unknown): Promise<{ ok: true } | { ok: false; message: string; fields?: Record<string, string> }> {
+  const res = await fetch(url, { method, headers: { "content-type": "application/json", accept: "application/json" }, body: body === undefined ? undefined : JSON.stringify(body), credentials: "same-origin" });
+  if (res.ok) return { ok: true };
+  const json = (await res.json().catch(() => null)) as { error?: { message?: string; fields?: Record<string, string> } } | null;
+  return { ok: false, message: json?.error?.message ?? `The server answered ${res.status}.`, fields: json?.error?.fields };
+}
+
+function describe(spec: RuleSpec): { ports: string; band: string; limit: string } {
+  const band = "band" in spec && spec.band ? formatBand(spec.band) : "whole plan";
+  switch (spec.kind) {
+    case "isolation":
+      return { ports: `${spec.from} → ${spec.to}${spec.one_way ? " (one way)" : ""}`, band, limit: `≥ ${spec.min_db} dB` };
+    case "insertion_loss":
+      return { ports: `${spec.from} → ${spec.to}`, band, limit: `≤ ${spec.max_db} dB` };
+    case "match":
+      return { ports: spec.port, band, limit: spec.min_return_loss_db !== undefined ? `return loss ≥ ${spec.min_return_loss_db} dB` : `VSWR ≤ ${spec.max_vswr}` };
+    case "drive":
+      return { ports: spec.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", "), band, limit: spec.coherent ? "ratings, coherent sum" : "ratings" };
+  }
+}
+
+/** A project's rules: a table for everyone; create, edit and delete for engineers and owners. */
+export function RulesEditor({ projectId, initial, canEdit }: { projectId: string; initial: RuleItem[]; canEdit: boolean }) {
+  const url = `/api/projects/${projectId}/rules`;
+  const { data, mutate } = useSWR<{ rules: RuleItem[] }>(url, fetcher, { fallbackData: { rules: initial } });
+  const rules = data?.rules ?? [];
+  const [editing, setEditing] = useState<RuleItem | "new" | null>(null);
+  const [error, setError] = useState<string | null>(null);
+
+  const columns: SortColumn<RuleItem>[] = [
+    { id: "name", header: "Name", value: (r) => r.spec.id ?? "", cell: (r) => <span id={`rule-${r.spec.id}`} className="font-mono">{r.spec.id}</span> },
+    { id: "kind", header: "Kind", value: (r) => RULE_KIND_LABELS[r.kind] },
+    { id: "ports", header: "Ports", value: (r) => describe(r.spec).ports, cell: (r) => <span className="font-mono">{describe(r.spec).ports}</span> },
+    { id: "band", header: "Band", value: (r) => ("band" in r.spec && r.spec.band ? r.spec.band[0] : 0), cell: (r) => describe(r.spec).band },
+    { id: "limit", header: "Requirement", value: (r) => describe(r.spec).limit, sortable: false },
+    ...(canEdit
+      ? [
+          {
+            id: "actions",
+            header: "Actions",
+            sortable: false,
+            value: () => null,
+            cell: (r: RuleItem) => (
+              <span className="flex gap-2">
+                <Button size="sm" variant="secondary" onClick={() => setEditing(r)} aria-label={`Edit rule ${r.spec.id}`}>
+                  Edit
+                </Button>
+                <ConfirmButton
+                  buttonProps={{ size: "sm", "aria-label": `Delete rule ${r.spec.id}` }}
+                  title={`Delete rule ${r.spec.id}?`}
+                  description="Scenarios keep their own rules; stored check runs keep their verdicts."
+                  confirmLabel="Delete rule"
+                  onConfirm={async () => {
+                    const res = await send(`${url}/${r.id}`, "DELETE");
+                    if (!res.ok) setError(res.message);
+                    await mutate();
+                  }}
+                >
+                  Delete
+                </ConfirmButton>
+              </span>
+            ),
+          } satisfies SortColumn<RuleItem>,
+        ]
+      : []),
+  ];
+
+  return (
+    <div className="flex flex-col gap-4">
+      {error ? (
+        <Alert tone="error" title="Not saved">
+          {error}
+        </Alert>
+      ) : null}
+      {rules.length === 0 ? <p className="text-sm text-muted">No project rules yet.</p> : <SortableTable caption="Project rules" columns={columns} rows={rules} rowKey={(r) => r.id} />}
+      {canEdit && editing === null ? (
+        <div>
+          <Button onClick={() => setEditing("new")}>New rule</Button>
+        </div>
+      ) : null}
+      {canEdit && editing !== null ? (
+        <RuleFormPanel
+          key={editing === "new" ? "new" : editing.id}
+          initial={editing === "new" ? EMPTY_RULE_FORM : formFromSpec(editing.spec)}
+          title={editing === "new" ? "New rule" : `Edit rule ${editing.spec.id}`}
+          onCancel={() => setEditing(null)}
+          onSubmit={async (spec) => {
+            const res = editing === "new" ? await send(url, "POST", { spec }) : await send(`${url}/${editing.id}`, "PUT", { spec });
+            if (!res.ok) return res;
+            setEditing(null);
+            setError(null);
+            await mutate();
+            return res;
+          }}
+        />
+      ) : null}
+    </div>
+  );
+}
+
+function RuleFormPanel({
+  initial,
+  title,
+  onCancel,
+  onSubmit,
+}: {
+  initial: RuleFormValues;
+  title: string;
+  onCancel: () => void;
+  onSubmit: (spec: RuleSpec) => Promise<{ ok: true } | { ok: false; message: string; fields?: Record<string, string> }>;
+}) {
+  const form = useForm<RuleFormValues>({ resolver: zodResolver(ruleFormSchema), defaultValues: initial, mode: "onSubmit" });
+  const { register, handleSubmit, watch, formState, setError } = form;
+  const [serverError, setServerError] = useState<string | null>(null);
+  const kind = watch("kind");
+  const matchBy = watch("matchBy");
+  const err = (k: keyof RuleFormValues) => formState.errors[k]?.message;
+
+  const submit = handleSubmit(async (values) => {
+    const r = specFromForm(values);
+    if (!r.ok) return;
+    const res = await onSubmit(r.spec);
+    if (!res.ok) {
+      setServerError(res.message);
+      for (const [path, message] of Object.entries(res.fields ?? {})) {
+        const key = path.replace(/^spec\./, "").split(".")[0];
+        const field = (["min_db", "max_db", "min_return_loss_db", "max_vswr"].includes(key) ? "limit" : key) as keyof RuleFormValues;
+        if (field in initial) setError(field, { message });
+      }
+    }
+  });
+
+  const limitLabel = kind === "isolation" ? "Least isolation (dB)" : kind === "insertion_loss" ? "Largest insertion loss (dB)" : matchBy === "vswr" ? "Largest VSWR" : "Least return loss (dB)";
+
+  return (
+    <form onSubmit={submit} noValidate aria-label={title} className="flex max-w-3xl flex-col gap-3 rounded-card border border-rule bg-surface p-4">
+      <h3 className="text-base font-semibold">{title}</h3>
+      {serverError ? <Alert tone="error">{serverError}</Alert> : null}
+      <div className="grid gap-3 sm:grid-cols-2">
+        <Field label="Name" error={err("id")} hint="Letters, digits, dots, dashes; shown in verdicts." required>
+          <Input {...register("id")} autoComplete="off" />
+        </Field>
+        <Field label="Kind" error={err("kind")}>
+          <Select {...register("kind")}>
+            {RULE_KINDS.map((k) => (
+              <option key={k} value={k}>
+                {RULE_KIND_LABELS[k]}
+              </option>
+            ))}
+          </Select>
+        </Field>
+        {kind === "isolation" || kind === "insertion_loss" ? (
+          <>
+            <Field label="From port" error={err("from")} required>
+              <Input {...register("from")} />
+            </Field>
+            <Field label="To port" error={err("to")} required>
+              <Input {...register("to")} />
+            </Field>
+          </>
+        ) : null}
+        {kind === "match" ? (
+          <>
+            <Field label="Port" error={err("port")} required>
+              <Input {...register("port")} />
+            </Field>
+            <Field label="Limit on">
+              <Select {...register("matchBy")}>
+                <option value="return_loss">Return loss</option>
+                <option value="vswr">VSWR</option>
+              </Select>
+            </Field>
+          </>
+        ) : null}
+        <Field label="Band" error={err("band")} hint={kind === "drive" ? "Optional; e.g. 2.4 GHz to 2.48 GHz" : "e.g. 2.4 GHz to 2.48 GHz"} required={kind !== "drive"}>
+          <Input {...register("band")} placeholder="2.4 GHz to 2.48 GHz" />
+        </Field>
+        {kind !== "drive" ? (
+          <Field label={limitLabel} error={err("limit")} required>
+            <Input {...register("limit")} inputMode="decimal" />
+          </Field>
+        ) : (
+          <Field label="Source powers" error={err("sources")} hint="e.g. TX 30 dBm, ANT-A 1 W" required>
+            <Input {...register("sources")} />
+          </Field>
+        )}
+        {kind === "isolation" ? (
+          <label className="flex items-center gap-2 text-sm">
+            <input type="checkbox" {...register("oneWay")} /> One way only (from → to)
+          </label>
+        ) : null}
+        {kind === "drive" ? (
+          <label className="flex items-center gap-2 text-sm">
+            <input type="checkbox" {...register("coherent")} /> Judge ratings on the coherent (worst-case) sum
+          </label>
+        ) : null}
+      </div>
+      <div className="flex gap-2">
+        <Button type="submit" loading={formState.isSubmitting}>
+          Save rule
+        </Button>
+        <Button type="button" variant="secondary" onClick={onCancel}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}
