@@ -32,6 +32,8 @@ export type ScenarioChartProps = {
   onSetSwitch: (id: string, state: number) => void;
   /** context action on a port handle (mark as system port, unlink) */
   onPortMenu: (ref: PortRef, anchor: { x: number; y: number }) => void;
+  /** blocks and block ports to mark (a leak path from the checks); a link is marked when both ends are listed */
+  highlight?: { blocks: string[]; ports: PortRef[] } | null;
 };
 
 const nodeTypes = { block: BlockNode };
@@ -49,12 +51,13 @@ function handleRef(node: string | null, handle: string | null | undefined): Port
 
 /** The chart: blocks as cards with one handle per port, links as lines between handles. */
 export function ScenarioChart(props: ScenarioChartProps) {
-  const { scenario, parts, readOnly, selection, onSelectionChange, onMoveBlocks, onLink, onSetSwitch, onPortMenu } = props;
+  const { scenario, parts, readOnly, selection, onSelectionChange, onMoveBlocks, onLink, onSetSwitch, onPortMenu, highlight } = props;
   const selectionRef = useRef(selection);
   selectionRef.current = selection;
 
   const built = useMemo<BlockNodeType[]>(() => {
     const selected = new Set(selection.blocks);
+    const marked = new Set(highlight?.blocks ?? []);
     return scenario.blocks.map((block, index) => {
       const n = portCountOf(block, parts);
       const systemPorts: BlockNodeData["systemPorts"] = {};
@@ -76,7 +79,9 @@ export function ScenarioChart(props: ScenarioChartProps) {
         selected: selected.has(block.id),
         draggable: !readOnly,
         connectable: !readOnly,
-        ariaLabel: `Block ${block.id}, ${blockTitle(block, parts)}, ${n} port${n === 1 ? "" : "s"}`,
+        ariaLabel: `Block ${block.id}, ${blockTitle(block, parts)}, ${n} port${n === 1 ? "" : "s"}${marked.has(block.id) ? ", on the highlighted leak path" : ""}`,
+        className: marked.has(block.id) ? "pt-highlighted" : undefined,
+        style: marked.has(block.id) ? { outline: "3px solid var(--pt-fail)", outlineOffset: 3, borderRadius: 6 } : undefined,
         data: {
           block,
           title: blockTitle(block, parts),
@@ -90,7 +95,7 @@ export function ScenarioChart(props: ScenarioChartProps) {
         },
       };
     });
-  }, [scenario, parts, readOnly, selection.blocks, onSetSwitch, onPortMenu]);
+  }, [scenario, parts, readOnly, selection.blocks, onSetSwitch, onPortMenu, highlight]);
 
   // Local copy so that a drag moves the card at once; the scenario gets the position when the drag ends.
   const [nodes, setNodes] = useState<BlockNodeType[]>(built);
@@ -103,12 +108,14 @@ export function ScenarioChart(props: ScenarioChartProps) {
 
   const edges = useMemo<Edge[]>(() => {
     const selected = new Set(selection.links);
+    const markedPorts = new Set(highlight?.ports ?? []);
     return scenario.links.flatMap(([a, b]) => {
       const pa = parsePortRef(a);
       const pb = parsePortRef(b);
       if (!pa || !pb) return [];
       const id = linkId(a, b);
       const isSelected = selected.has(id);
+      const isMarked = markedPorts.has(a) && markedPorts.has(b);
       return [
         {
           id,
@@ -117,13 +124,13 @@ export function ScenarioChart(props: ScenarioChartProps) {
           target: pb.block,
           targetHandle: `p${pb.port}`,
           selected: isSelected,
-          ariaLabel: `Link ${a} to ${b}`,
-          style: { stroke: isSelected ? "var(--pt-focus)" : "var(--pt-ink)", strokeWidth: isSelected ? 2.5 : 1.5 },
+          ariaLabel: `Link ${a} to ${b}${isMarked ? ", on the highlighted leak path" : ""}`,
+          style: { stroke: isSelected ? "var(--pt-focus)" : isMarked ? "var(--pt-fail)" : "var(--pt-ink)", strokeWidth: isSelected || isMarked ? 3 : 1.5 },
           interactionWidth: 14,
         },
       ];
     });
-  }, [scenario.links, selection.links]);
+  }, [scenario.links, selection.links, highlight]);
 
   const onNodesChange = useCallback(
     (changes: NodeChange<BlockNodeType>[]) => {

@@ -8,6 +8,9 @@ import { History, Save } from "lucide-react";
 import type { Scenario } from "@/engine/types";
 import { Workspace, type PartSummary, type SaveState } from "@/components/workspace";
 import { Alert, Button } from "@/components/ui";
+import { ScenarioChecks } from "@/components/checks/scenario-checks";
+import type { ChartHighlight } from "@/components/checks/leak-trace-view";
+import type { Role } from "@/lib/permission-table";
 import { ApiError, fetchJson, requestJson, scenarioUrls } from "./api-client";
 import { RevisionHistory } from "./revision-history";
 import type { PartView, RevisionView, ScenarioView } from "./types";
@@ -23,6 +26,8 @@ export type ScenarioWorkspaceProps = {
   revision: RevisionView;
   parts: PartView[];
   readOnly: boolean;
+  /** the viewer's role (from the server), for the helm and the checks */
+  role?: Role;
 };
 
 /**
@@ -30,7 +35,7 @@ export type ScenarioWorkspaceProps = {
  * revision after edits, and on a conflict (someone saved first) keeps the edits and offers to reload
  * the latest revision or to save the edits as a new scenario.
  */
-export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: initialParts, readOnly }: ScenarioWorkspaceProps) {
+export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: initialParts, readOnly, role }: ScenarioWorkspaceProps) {
   const router = useRouter();
   const [draft, setDraft] = useState<Scenario>(revision.content);
   const [base, setBase] = useState<{ id: string; number: number }>({ id: revision.id, number: revision.number });
@@ -41,6 +46,10 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
   const [historyOpen, setHistoryOpen] = useState(false);
   const [workspaceKey, setWorkspaceKey] = useState(0);
   const [busy, setBusy] = useState<"reload" | "fork" | null>(null);
+  const [highlight, setHighlight] = useState<{ blocks: string[]; ports: string[] } | null>(null);
+  const onHighlight = useCallback((h: ChartHighlight | null) => {
+    setHighlight(h ? { blocks: h.blocks, ports: h.hops.flatMap((x) => [`${x.block}:${x.inPort}`, `${x.block}:${x.outPort}`]) } : null);
+  }, []);
 
   const { data: partsData, error: partsError } = useSWR<{ parts: PartView[] }>(scenarioUrls.parts(projectId, true), fetchJson, {
     fallbackData: { parts: initialParts },
@@ -247,8 +256,22 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
         />
       ) : null}
       <div className="h-[calc(100vh-13rem)] min-h-[680px]">
-        <Workspace key={workspaceKey} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} />
+        <Workspace key={workspaceKey} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} />
       </div>
+      <ScenarioChecks
+        projectId={projectId}
+        scenarioId={info.id}
+        scenarioName={info.name}
+        role={role ?? (readOnly ? "reviewer" : "engineer")}
+        revisionId={base.id}
+        revisionNumber={base.number}
+        scenario={draft}
+        parts={parts}
+        readOnly={readOnly}
+        onChange={onChange}
+        saveNow={saveNow}
+        onHighlight={onHighlight}
+      />
     </div>
   );
 }

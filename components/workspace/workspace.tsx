@@ -44,6 +44,8 @@ export type WorkspaceProps = {
   saveState: SaveState;
   /** extra toolbar content from the host page (save button, revision menu…) */
   toolbarExtras?: ReactNode;
+  /** blocks and block ports to mark on the chart (a leak path from the checks) */
+  highlight?: { blocks: string[]; ports: PortRef[] } | null;
 };
 
 const EMPTY_SELECTION: ChartSelection = { blocks: [], links: [] };
@@ -64,7 +66,7 @@ function isEditable(target: EventTarget | null): boolean {
   return tag === "INPUT" || tag === "TEXTAREA" || tag === "SELECT" || target.closest("[role=dialog],[role=menu]") !== null;
 }
 
-function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolbarExtras }: WorkspaceProps) {
+function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolbarExtras, highlight }: WorkspaceProps) {
   const flow = useReactFlow();
   const root = useRef<HTMLDivElement>(null);
   const chartBox = useRef<HTMLDivElement>(null);
@@ -341,6 +343,7 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
             onLink={onLink}
             onSetSwitch={onSetSwitch}
             onPortMenu={onPortMenu}
+            highlight={highlight}
           />
           {scenario.blocks.length === 0 ? (
             <div className="pointer-events-none absolute inset-0 flex items-center justify-center">

@@ -29,6 +29,7 @@ export default async function ScenarioPage({ params }: { params: Promise<{ proje
       revision={serialiseDates(revision) as unknown as RevisionView}
       parts={parts}
       readOnly={!can(project.role, "scenario.edit")}
+      role={project.role}
     />
   );
 }
