@@ -13,6 +13,8 @@ export default async function ProjectLayout({ children, params }: { children: Re
     { href: base, label: "Overview", exact: true },
     { href: `${base}/scenarios`, label: "Scenarios" },
     { href: `${base}/parts`, label: "Parts" },
+    { href: `${base}/rules`, label: "Rules" },
+    { href: `${base}/compare`, label: "Compare" },
     { href: `${base}/members`, label: "Members" },
   ];
   if (can(project.role, "audit.read")) tabs.push({ href: `${base}/audit`, label: "Audit log" });
