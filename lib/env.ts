@@ -11,8 +11,8 @@ const flag = (fallback: boolean) =>
       return value === "1" || value === "true" || value === "yes" || value === "on";
     });
 
-function readEnv() {
-  const raw = process.env;
+/** Validate an environment (process.env in the app; any record in tests). Throws naming each bad variable. */
+export function parseEnv(raw: Record<string, string | undefined>) {
   const isProduction = raw.NODE_ENV === "production";
   const schema = z.object({
     NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
@@ -60,13 +60,13 @@ function readEnv() {
   };
 }
 
-export type Env = ReturnType<typeof readEnv>;
+export type Env = ReturnType<typeof parseEnv>;
 
 let cached: Env | null = null;
 
 /** The validated environment, read on first use. */
 export function getEnv(): Env {
-  cached ??= readEnv();
+  cached ??= parseEnv(process.env);
   return cached;
 }
 
