@@ -27,6 +27,7 @@ export function AppHeader({ user, signOutAction, showOutbox, actions, hrefs }: A
   const links: NavLink[] = [];
   if (user) {
     links.push({ href: projects, label: "Projects" });
+    links.push({ href: "/account", label: "Account" });
     if (user.isSiteAdmin) links.push({ href: hrefs?.admin ?? "/admin", label: "Admin" });
     if (user.isSiteAdmin && outboxVisible) links.push({ href: hrefs?.outbox ?? "/dev/outbox", label: "Outbox" });
   }

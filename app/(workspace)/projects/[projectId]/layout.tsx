@@ -16,6 +16,7 @@ export default async function ProjectLayout({ children, params }: { children: Re
     { href: `${base}/rules`, label: "Rules" },
     { href: `${base}/compare`, label: "Compare" },
     { href: `${base}/members`, label: "Members" },
+    { href: `${base}/signoffs`, label: "Sign-offs" },
   ];
   if (can(project.role, "audit.read")) tabs.push({ href: `${base}/audit`, label: "Audit log" });
   return (

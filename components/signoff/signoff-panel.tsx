@@ -1,0 +1,185 @@
+"use client";
+
+import { useState } from "react";
+import useSWR from "swr";
+import { Download } from "lucide-react";
+import { ApiError, fetchJson, requestJson } from "@/components/scenarios/api-client";
+import { Alert, Button, Card, CardBody, CardDescription, CardHeader, CardTitle, Field, Textarea, buttonClassName } from "@/components/ui";
+import { can, type Role } from "@/lib/permission-table";
+import { SignoffStateBadge } from "./signoff-state-badge";
+import { signoffUrls, type SignoffItem } from "./types";
+
+type Member = { userId: string; email: string; name: string; role: Role };
+
+export type SignoffPanelProps = {
+  projectId: string;
+  scenarioId: string;
+  /** the signed-in user */
+  userId: string;
+  /** the user's role in the project (the server decides; this only hides controls) */
+  role: Role;
+};
+
+const when = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
+
+function DecisionForm({ projectId, signoff, onDone }: { projectId: string; signoff: SignoffItem; onDone: () => void }) {
+  const [comment, setComment] = useState("");
+  const [busy, setBusy] = useState<null | "approved" | "changes_requested">(null);
+  const [error, setError] = useState<string | null>(null);
+  const send = async (decision: "approved" | "changes_requested") => {
+    setBusy(decision);
+    setError(null);
+    try {
+      await requestJson(signoffUrls.decide(projectId, signoff.id), { method: "POST", json: { decision, comment } });
+      onDone();
+    } catch (e) {
+      setError(e instanceof ApiError ? e.message : "The decision could not be saved.");
+    } finally {
+      setBusy(null);
+    }
+  };
+  return (
+    <form
+      className="mt-2 flex flex-col gap-2"
+      aria-label={`Decide sign-off of revision ${signoff.revisionNumber}`}
+      onSubmit={(e) => {
+        e.preventDefault();
+        void send("approved");
+      }}
+    >
+      <Field label="Comment" hint="Recorded with your decision and e-mailed to the requester.">
+        <Textarea value={comment} onChange={(e) => setComment(e.target.value)} rows={3} maxLength={4000} />
+      </Field>
+      {error ? <Alert tone="error">{error}</Alert> : null}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" loading={busy === "approved"} disabled={busy !== null}>
+          Approve
+        </Button>
+        <Button type="button" variant="secondary" loading={busy === "changes_requested"} disabled={busy !== null} onClick={() => void send("changes_requested")}>
+          Request changes
+        </Button>
+      </div>
+    </form>
+  );
+}
+
+function RequestForm({ projectId, scenarioId, userId, onDone }: { projectId: string; scenarioId: string; userId: string; onDone: () => void }) {
+  const { data } = useSWR<{ members: Member[] }>(signoffUrls.members(projectId), fetchJson);
+  const candidates = (data?.members ?? []).filter((m) => (m.role === "reviewer" || m.role === "owner") && m.userId !== userId);
+  const [chosen, setChosen] = useState<string[]>([]);
+  const [note, setNote] = useState("");
+  const [busy, setBusy] = useState(false);
+  const [message, setMessage] = useState<{ tone: "error" | "success"; text: string } | null>(null);
+  const submit = async () => {
+    if (chosen.length === 0) {
+      setMessage({ tone: "error", text: "Choose at least one reviewer." });
+      return;
+    }
+    setBusy(true);
+    setMessage(null);
+    try {
+      const result = await requestJson<{ mail: { sent: string[]; skipped: string[]; failed: string[] } }>(`/api/projects/${projectId}/signoffs`, {
+        method: "POST",
+        json: { scenarioId, reviewerIds: chosen, note },
+      });
+      const parts = [`Asked ${chosen.length} reviewer${chosen.length === 1 ? "" : "s"}.`];
+      if (result.mail.skipped.length > 0) parts.push(`No e-mail to ${result.mail.skipped.join(", ")} (turned off in their settings).`);
+      if (result.mail.failed.length > 0) parts.push(`The e-mail to ${result.mail.failed.join(", ")} could not be sent.`);
+      setMessage({ tone: "success", text: parts.join(" ") });
+      setChosen([]);
+      setNote("");
+      onDone();
+    } catch (e) {
+      setMessage({ tone: "error", text: e instanceof ApiError ? e.message : "The request could not be sent." });
+    } finally {
+      setBusy(false);
+    }
+  };
+  return (
+    <form
+      className="flex flex-col gap-3 border-t border-rule pt-3"
+      aria-label="Request sign-off"
+      onSubmit={(e) => {
+        e.preventDefault();
+        void submit();
+      }}
+    >
+      <h3 className="text-sm font-semibold">Request sign-off of the latest saved revision</h3>
+      {candidates.length === 0 ? (
+        <p className="text-sm text-muted">No reviewer or owner besides you in this project yet. Invite one from the Members tab.</p>
+      ) : (
+        <fieldset className="flex flex-col gap-1">
+          <legend className="mb-1 text-sm font-medium">Reviewers</legend>
+          {candidates.map((m) => (
+            <label key={m.userId} className="inline-flex items-center gap-2 text-sm">
+              <input
+                type="checkbox"
+                checked={chosen.includes(m.userId)}
+                onChange={(e) => setChosen((c) => (e.target.checked ? [...c, m.userId] : c.filter((id) => id !== m.userId)))}
+              />
+              {m.name} <span className="text-muted">({m.role}, {m.email})</span>
+            </label>
+          ))}
+        </fieldset>
+      )}
+      <Field label="Note to the reviewers">
+        <Textarea value={note} onChange={(e) => setNote(e.target.value)} rows={2} maxLength={2000} />
+      </Field>
+      {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
+      <div>
+        <Button type="submit" loading={busy} disabled={candidates.length === 0}>
+          Request sign-off
+        </Button>
+      </div>
+    </form>
+  );
+}
+
+/**
+ * The sign-off panel of a scenario: download the review bundle, see every sign-off with its state (and a
+ * Stale badge once the scenario changed), decide an open request addressed to you, or request one.
+ */
+export function SignoffPanel({ projectId, scenarioId, userId, role }: SignoffPanelProps) {
+  const { data, error, mutate } = useSWR<{ signoffs: SignoffItem[] }>(signoffUrls.list(projectId, scenarioId), fetchJson, { refreshInterval: 15_000 });
+  const signoffs = data?.signoffs ?? [];
+  const mayDecide = role === "reviewer" || role === "owner";
+  return (
+    <Card aria-labelledby="signoff-heading" className="mt-4">
+      <CardHeader>
+        <div>
+          <CardTitle id="signoff-heading">Sign-off</CardTitle>
+          <CardDescription>Reviewers check the bundle (scenario, parts, composite, checks and report) and record their decision.</CardDescription>
+        </div>
+        {can(role, "bundle.export") ? (
+          <a href={signoffUrls.bundle(projectId, scenarioId)} download className={buttonClassName({ variant: "secondary", size: "sm" })}>
+            <Download aria-hidden="true" className="h-4 w-4" />
+            Download bundle
+          </a>
+        ) : null}
+      </CardHeader>
+      <CardBody className="flex flex-col gap-3">
+        {error ? <Alert tone="error">{error instanceof Error ? error.message : "Sign-offs could not be loaded."}</Alert> : null}
+        {data && signoffs.length === 0 ? <p className="text-sm text-muted">No sign-off has been requested for this scenario yet.</p> : null}
+        <ul className="flex flex-col gap-3" aria-label="Sign-offs of this scenario">
+          {signoffs.map((s) => (
+            <li key={s.id} className="rounded-md border border-rule p-3" data-testid="signoff-item">
+              <div className="flex flex-wrap items-center gap-2 text-sm">
+                <strong>{s.reviewer.name}</strong>
+                <span className="text-muted">revision {s.revisionNumber}</span>
+                <SignoffStateBadge signoff={s} />
+              </div>
+              <p className="mt-1 text-xs text-muted">
+                Requested by {s.requestedBy?.name ?? "a former member"} on {when.format(new Date(s.createdAt))} UTC
+                {s.decidedAt ? `; decided ${when.format(new Date(s.decidedAt))} UTC` : ""}
+              </p>
+              {s.requestNote ? <p className="mt-1 text-sm">Note: {s.requestNote}</p> : null}
+              {s.comment ? <p className="mt-1 text-sm">Comment: {s.comment}</p> : null}
+              {mayDecide && s.reviewer.id === userId && s.state === "requested" && !s.stale ? <DecisionForm projectId={projectId} signoff={s} onDone={() => void mutate()} /> : null}
+            </li>
+          ))}
+        </ul>
+        {can(role, "signoff.request") ? <RequestForm projectId={projectId} scenarioId={scenarioId} userId={userId} onDone={() => void mutate()} /> : null}
+      </CardBody>
+    </Card>
+  );
+}
