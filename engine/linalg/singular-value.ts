@@ -1,8 +1,9 @@
 // Largest singular value as the square root of the largest eigenvalue of SᴴS (Golub and Van Loan,
-// Matrix Computations, 4th ed., §2.4 and §8.6, "from memory"), eigenvalues by Hermitian Jacobi.
+// Matrix Computations, 4th ed., §2.4 and §8.6, "from memory"), eigenvalues by tridiagonal reduction and
+// bisection.
 
 import type { SData } from "../types";
-import { hermitianEigenvalues } from "./hermitian-eigen";
+import { hermitianEigenvalues, largestHermitianEigenvalue } from "./hermitian-eigen";
 import { complexMatmulConjA } from "./matmul";
 
 /**
@@ -41,6 +42,9 @@ export function singularValues(m: Float64Array, n: number): Float64Array {
  * @example maxSingularValue({ n: 1, nf: 1, data: Float64Array.of(0.6, 0.8) }, 0) // 1
  */
 export function maxSingularValue(s: SData, k: number): number {
-  if (s.n === 0) return 0;
-  return singularValues(sliceFrequency(s, k), s.n)[0];
+  const n = s.n;
+  if (n === 0) return 0;
+  const m = s.data.subarray(2 * k * n * n, 2 * (k + 1) * n * n);
+  const g = complexMatmulConjA(new Float64Array(2 * n * n), m, m, n, n, n);
+  return Math.sqrt(Math.max(0, largestHermitianEigenvalue(g, n)));
 }

@@ -164,7 +164,7 @@ print(json.dumps(out))
 
 describe("Hermitian eigenvalues and singular values against numpy", () => {
   const r = rng(77);
-  const mats = [1, 2, 4, 8, 12].map((n) => ({ n, m: Array.from(randomMatrix(r, n)) }));
+  const mats = [1, 2, 3, 4, 8, 12, 40].map((n) => ({ n, m: Array.from(randomMatrix(r, n)) }));
   const ref = runPython<{ ev: number[]; sv: number[] }[]>(
     `
 out = []
@@ -196,6 +196,27 @@ print(json.dumps(out))
       expect(Math.abs(sv[0] - ref[i].sv[0])).toBeLessThan(1e-13 * ref[i].sv[0] * n);
       expect(maxSingularValue({ n, nf: 1, data: m }, 0)).toBe(sv[0]);
     });
+  });
+});
+
+describe("Hermitian eigenvalues of structured matrices", () => {
+  it("the identity, a zero matrix and a diagonal matrix give their diagonal (already tridiagonal, no reflections)", () => {
+    const n = 5;
+    const eye = new Float64Array(2 * n * n);
+    for (let i = 0; i < n; i++) eye[2 * (i * n + i)] = 1;
+    // bisection stops within a few ulps of the eigenvalue
+    for (const v of hermitianEigenvalues(new Float64Array(n), eye, n)) expect(Math.abs(v - 1)).toBeLessThan(4 * EPS);
+    for (const v of hermitianEigenvalues(new Float64Array(n), new Float64Array(2 * n * n), n)) expect(Math.abs(v)).toBeLessThan(1e-290);
+    const diag = new Float64Array(2 * n * n);
+    [3, -1, 7, 0.5, 2].forEach((v, i) => (diag[2 * (i * n + i)] = v));
+    const ev = hermitianEigenvalues(new Float64Array(n), diag, n);
+    [-1, 0.5, 2, 3, 7].forEach((v, i) => expect(ev[i]).toBeCloseTo(v, 14));
+  });
+
+  it("the Hermitian [[2, j], [−j, 2]] has eigenvalues 1 and 3 (2 ± |j|, common practice)", () => {
+    const ev = hermitianEigenvalues(new Float64Array(2), Float64Array.of(2, 0, 0, 1, 0, -1, 2, 0), 2);
+    expect(ev[0]).toBeCloseTo(1, 14);
+    expect(ev[1]).toBeCloseTo(3, 14);
   });
 });
 
