@@ -3,6 +3,7 @@ import { notFound } from "next/navigation";
 import { listParts } from "@/db/queries/parts";
 import { getScenario } from "@/db/queries/scenarios";
 import { ScenarioWorkspace } from "@/components/scenarios/scenario-workspace";
+import { SignoffPanel } from "@/components/signoff/signoff-panel";
 import { serialiseDates, type PartView, type RevisionView } from "@/components/scenarios/types";
 import { isAppError } from "@/lib/errors";
 import { can } from "@/lib/permission-table";
@@ -23,13 +24,16 @@ export default async function ScenarioPage({ params }: { params: Promise<{ proje
   const parts = serialiseDates(await listParts({ userId: user.id, projectId, withText: true })) as unknown as PartView[];
   const { scenario, revision } = loaded;
   return (
-    <ScenarioWorkspace
-      projectId={project.id}
-      scenario={{ id: scenario.id, projectId, name: scenario.name, latestRevisionId: scenario.latestRevisionId, latestRevisionNumber: scenario.latestRevisionNumber }}
-      revision={serialiseDates(revision) as unknown as RevisionView}
-      parts={parts}
-      readOnly={!can(project.role, "scenario.edit")}
-      role={project.role}
-    />
+    <>
+      <ScenarioWorkspace
+        projectId={project.id}
+        scenario={{ id: scenario.id, projectId, name: scenario.name, latestRevisionId: scenario.latestRevisionId, latestRevisionNumber: scenario.latestRevisionNumber }}
+        revision={serialiseDates(revision) as unknown as RevisionView}
+        parts={parts}
+        readOnly={!can(project.role, "scenario.edit")}
+        role={project.role}
+      />
+      <SignoffPanel projectId={project.id} scenarioId={scenario.id} userId={user.id} role={project.role} />
+    </>
   );
 }
