@@ -1,6 +1,6 @@
 "use client";
 
-import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { useCallback, useLayoutEffect, useMemo, useRef, useState } from "react";
 import {
   applyNodeChanges,
   ConnectionMode,
@@ -52,8 +52,11 @@ function handleRef(node: string | null, handle: string | null | undefined): Port
 /** The chart: blocks as cards with one handle per port, links as lines between handles. */
 export function ScenarioChart(props: ScenarioChartProps) {
   const { scenario, parts, readOnly, selection, onSelectionChange, onMoveBlocks, onLink, onSetSwitch, onPortMenu, highlight } = props;
+  // selection as last reported, so that node and edge changes arriving in one gesture add up
   const selectionRef = useRef(selection);
-  selectionRef.current = selection;
+  useLayoutEffect(() => {
+    selectionRef.current = selection;
+  }, [selection]);
 
   const built = useMemo<BlockNodeType[]>(() => {
     const selected = new Set(selection.blocks);
@@ -99,12 +102,15 @@ export function ScenarioChart(props: ScenarioChartProps) {
 
   // Local copy so that a drag moves the card at once; the scenario gets the position when the drag ends.
   const [nodes, setNodes] = useState<BlockNodeType[]>(built);
-  useEffect(() => {
+  const [shownBuilt, setShownBuilt] = useState(built);
+  if (shownBuilt !== built) {
+    // the scenario changed: take its nodes, keeping what React Flow measured
+    setShownBuilt(built);
     setNodes((previous) => {
       const measured = new Map(previous.map((n) => [n.id, n.measured]));
       return built.map((n) => (measured.get(n.id) ? { ...n, measured: measured.get(n.id) } : n));
     });
-  }, [built]);
+  }
 
   const edges = useMemo<Edge[]>(() => {
     const selected = new Set(selection.links);

@@ -1,6 +1,6 @@
 "use client";
 
-import { useEffect, useMemo, useState } from "react";
+import { useMemo, useState } from "react";
 import { Download, X } from "lucide-react";
 import type { Scenario } from "@/engine/types";
 import { Alert, Badge, Button, EmptyState, Input, Select, Spinner } from "@/components/ui";
@@ -13,7 +13,6 @@ import {
   TRACE_UNITS,
   traceLabel,
   traceValues,
-  type SolvedView,
   type TraceQuantity,
 } from "@/lib/client/results-math";
 import type { SolverState } from "@/lib/client/use-solver";
@@ -105,10 +104,6 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
   const unit = TRACE_UNITS[quantity];
   const markerIdx = useMemo(() => markers.map((hz) => nearestFrequencyIndex(view.frequencies, hz)), [markers, view]);
   const matrixIndex = nearestFrequencyIndex(view.frequencies, matrixHz);
-
-  useEffect(() => {
-    if (smithPort >= n) setSmithPort(0);
-  }, [n, smithPort]);
 
   const options = [];
   for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) options.push({ value: `${a},${b}`, label: traceLabel(view.ports, a, b) });

@@ -4,6 +4,7 @@ import { useEffect, useRef, useState } from "react";
 import uPlot from "uplot";
 import "uplot/dist/uPlot.min.css";
 import { formatSi } from "@/lib/client/format";
+import { useLatest } from "@/lib/client/use-latest";
 
 export type TracePlotProps = {
   /** Hz */
@@ -54,8 +55,7 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
   const box = useRef<HTMLDivElement>(null);
   const plot = useRef<uPlot | null>(null);
   const markersRef = useRef(markers);
-  const callbacks = useRef({ onHover, onPick });
-  callbacks.current = { onHover, onPick };
+  const callbacks = useLatest({ onHover, onPick });
   const themeKey = useThemeKey();
 
   useEffect(() => {

@@ -1,6 +1,6 @@
 "use client";
 
-import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from "react";
+import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, type ReactNode } from "react";
 import { ReactFlowProvider, useReactFlow } from "@xyflow/react";
 import { Copy, ClipboardPaste, Maximize, Plus, Redo2, Trash2, Undo2 } from "lucide-react";
 import type { PortRef, Scenario } from "@/engine/types";
@@ -96,7 +96,9 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
 
   // commits read the latest scenario even when two edits land before the host re-renders
   const latest = useRef(scenario);
-  latest.current = scenario;
+  useLayoutEffect(() => {
+    latest.current = scenario;
+  }, [scenario]);
 
   const commit = useCallback(
     (next: Scenario, key?: string) => {

@@ -3,7 +3,7 @@
  * Solves the scenario in the engine worker after every change: debounced, with stale answers dropped by
  * sequence number. Falls back to solving on the main thread when Workers are unavailable.
  */
-import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState } from "react";
 import type { Scenario } from "@/engine/types";
 import { partTexts, scenarioForEngine, type PartSummary } from "./scenario-model";
 import type { SolveRequest, SolveResponse } from "./solve";
@@ -47,7 +47,9 @@ export function useSolver(scenario: Scenario, parts: readonly PartSummary[]): So
   const engineScenario = useMemo(() => scenarioForEngine(scenario), [scenario]);
   const key = useMemo(() => JSON.stringify(engineScenario), [engineScenario]);
   const latest = useRef(engineScenario);
-  latest.current = engineScenario;
+  useLayoutEffect(() => {
+    latest.current = engineScenario;
+  }, [engineScenario]);
 
   useEffect(() => {
     if (typeof Worker === "undefined") return;
