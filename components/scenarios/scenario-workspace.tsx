@@ -67,8 +67,15 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
   const savingRef = useRef(false);
   const conflictRef = useRef<Conflict | null>(null);
   const timer = useRef<number | null>(null);
-  baseRef.current = base;
-  conflictRef.current = conflict;
+  const saveRef = useRef<() => Promise<void>>(async () => undefined);
+
+  const schedule = useCallback(() => {
+    if (timer.current !== null) window.clearTimeout(timer.current);
+    timer.current = window.setTimeout(() => {
+      timer.current = null;
+      void saveRef.current();
+    }, AUTOSAVE_DELAY_MS);
+  }, []);
 
   const save = useCallback(async () => {
     if (readOnly || conflictRef.current || savingRef.current || !dirtyRef.current) return;
@@ -102,20 +109,18 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
     }
     // edits made while the save was under way go out next
     if (dirtyRef.current && !conflictRef.current) schedule();
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [info.id, projectId, readOnly]);
+  }, [info.id, projectId, readOnly, schedule]);
 
-  const schedule = useCallback(() => {
-    if (timer.current !== null) window.clearTimeout(timer.current);
-    timer.current = window.setTimeout(() => {
-      timer.current = null;
-      void save();
-    }, AUTOSAVE_DELAY_MS);
+  useEffect(() => {
+    saveRef.current = save;
   }, [save]);
 
-  useEffect(() => () => {
-    if (timer.current !== null) window.clearTimeout(timer.current);
-  }, []);
+  useEffect(
+    () => () => {
+      if (timer.current !== null) window.clearTimeout(timer.current);
+    },
+    [],
+  );
 
   const onChange = useCallback(
     (next: Scenario) => {
