@@ -260,7 +260,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
           onRestored={loadLatest}
         />
       ) : null}
-      <div className="h-[calc(100vh-13rem)] min-h-[680px]">
+      <div className="min-h-[680px] 2xl:h-[calc(100vh-13rem)]">
         <Workspace key={workspaceKey} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} />
       </div>
       <ScenarioChecks
