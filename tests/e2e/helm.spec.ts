@@ -1,0 +1,127 @@
+import { expect, test, type Page } from "@playwright/test";
+import { signInAs, type DemoRole } from "./helpers";
+
+// The helm (Ctrl+K) on the seeded demo project (db/seed.ts, db/seed-scenarios.ts): "Baseline" meets the
+// TX→RX isolation rule (≥ 30 dB over 2.40–2.48 GHz), "Cheaper switch" (T/R switch isolation 25 dB instead
+// of 45 dB) does not. Everything after signing in is done with the keyboard only.
+const DEMO_PROJECT = "Kestrel telemetry front end";
+
+test.describe.configure({ timeout: 120_000 });
+
+const helm = (page: Page) => page.getByRole("dialog", { name: "Helm" });
+const helmInput = (page: Page) => helm(page).getByRole("combobox");
+
+async function openHelm(page: Page): Promise<void> {
+  await page.keyboard.press("Control+k");
+  await expect(helm(page)).toBeVisible();
+  await expect(helmInput(page)).toBeFocused();
+}
+
+/** Open the helm, type a command and run it with Enter. */
+async function command(page: Page, text: string): Promise<void> {
+  await openHelm(page);
+  await page.keyboard.type(text);
+  await expect(helm(page).getByRole("option").first()).toBeVisible();
+  await page.keyboard.press("Enter");
+}
+
+/** Answer the step the helm shows: Enter alone takes the default (the first option, or the text shown). */
+async function answer(page: Page, prompt: string, text?: string): Promise<void> {
+  await expect(helmInput(page)).toHaveAttribute("aria-label", prompt);
+  if (text !== undefined) {
+    await page.keyboard.press("Control+a");
+    await page.keyboard.type(text);
+  }
+  await page.keyboard.press("Enter");
+}
+
+/** From the projects page to a demo scenario, through the helm. */
+async function goToScenario(page: Page, role: DemoRole, scenario: string): Promise<void> {
+  await signInAs(page, role);
+  await command(page, "Go to project");
+  await answer(page, "Project", DEMO_PROJECT);
+  await expect(page.getByRole("heading", { level: 1, name: DEMO_PROJECT })).toBeVisible();
+  await command(page, `Open scenario ${scenario}`);
+  await expect(page.getByRole("heading", { level: 2, name: scenario })).toBeVisible();
+  await expect(page.getByTestId("workspace")).toBeVisible();
+}
+
+test("keyboard only: an isolation check with chosen ports and band fails on Cheaper switch", async ({ page }) => {
+  await goToScenario(page, "engineer", "Cheaper switch");
+  await command(page, "Run isolation check");
+  await answer(page, "From port", "TX");
+  await answer(page, "To port", "RX");
+  await answer(page, "Band", "2.4 GHz to 2.48 GHz");
+  await answer(page, "Least isolation (dB)", "30");
+  await expect(helm(page)).toBeHidden();
+
+  const result = page.getByRole("article", { name: "Isolation check result" });
+  await expect(result).toBeVisible({ timeout: 30_000 });
+  await expect(result.getByText("Fail", { exact: true }).first()).toBeVisible();
+  await expect(result.getByTestId("check-headline")).toContainText("TX→RX");
+  // the run is in the history, tied to revision 1
+  await expect(page.getByRole("list", { name: "Run history" }).getByRole("button").first()).toContainText("r1");
+
+  // the command is now first among the recent ones
+  await openHelm(page);
+  await expect(helm(page).getByRole("group", { name: "Recent" }).getByRole("option").first()).toHaveText(/Run isolation check/);
+  await page.keyboard.press("Escape");
+  await expect(helm(page)).toBeHidden();
+});
+
+test("keyboard only: a leak trace lists its hops and highlights them on the chart", async ({ page }) => {
+  await goToScenario(page, "engineer", "Cheaper switch");
+  await command(page, "Trace leak paths");
+  await answer(page, "From port");
+  await answer(page, "To port");
+  await answer(page, "Band");
+
+  const result = page.getByRole("article", { name: "Leak trace result" });
+  await expect(result).toBeVisible({ timeout: 30_000 });
+  const hops = result.getByRole("list", { name: "Hops of path 1" });
+  await expect(hops).toContainText("TR");
+  await expect(hops).toContainText("dB");
+  // the strongest path is shown on the chart: its blocks carry the mark
+  await expect(page.locator('[aria-label^="Block TR,"][aria-label$="on the highlighted leak path"]')).toHaveCount(1);
+  await expect(page.locator('[aria-label$="on the highlighted leak path"]').first()).toBeVisible();
+  // a block that the path does not cross is not marked
+  await expect(page.locator('[aria-label^="Block ANTB,"][aria-label$="on the highlighted leak path"]')).toHaveCount(0);
+});
+
+test("keyboard only: comparing the two demo scenarios shows the isolation rule that differs", async ({ page }) => {
+  await goToScenario(page, "engineer", "Baseline");
+  await command(page, "Compare scenarios");
+  await answer(page, "First scenario");
+  await answer(page, "Second scenario", "Cheaper switch");
+  await expect(page.getByRole("heading", { level: 2, name: "Compare" })).toBeVisible();
+
+  const differs = page.getByRole("row", { name: "Rule tx-rx-isolation, verdict differs" });
+  await expect(differs).toBeVisible({ timeout: 60_000 });
+  await expect(differs.getByText("Pass", { exact: true })).toBeVisible();
+  await expect(differs.getByText("Fail", { exact: true })).toBeVisible();
+  // the other rules keep their verdict
+  await expect(page.getByRole("row", { name: "Rule tx-match" })).toBeVisible();
+  await expect(page.getByRole("row", { name: /verdict differs/ })).toHaveCount(1);
+  // and the difference is the T/R switch's isolation
+  await expect(page.getByRole("list", { name: "Differences" })).toContainText("isolation_db: 45 → 25");
+});
+
+test("a reviewer's helm lists checks but no editing actions", async ({ page }) => {
+  await goToScenario(page, "reviewer", "Cheaper switch");
+  await openHelm(page);
+  const options = helm(page).getByRole("option");
+  await expect(options.filter({ hasText: "Run isolation check" })).toHaveCount(1);
+  await expect(options.filter({ hasText: "Export review bundle" })).toHaveCount(1);
+  for (const editing of ["Add block…", "Mark system port…", "Set switch state…", "Save revision", "Duplicate scenario"]) {
+    await expect(options.filter({ hasText: editing })).toHaveCount(0);
+  }
+  await page.keyboard.press("Escape");
+
+  // the same page for an engineer lists them (the filter is by role, not by page)
+  await page.context().clearCookies();
+  await goToScenario(page, "engineer", "Cheaper switch");
+  await openHelm(page);
+  for (const editing of ["Add block…", "Mark system port…", "Set switch state…", "Save revision", "Duplicate scenario"]) {
+    await expect(helm(page).getByRole("option").filter({ hasText: editing })).toHaveCount(1);
+  }
+});
