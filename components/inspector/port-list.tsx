@@ -227,6 +227,9 @@ function SystemPortEditor({
           />
           </span>
         </label>
+        <Button type="submit" size="sm" variant="secondary" aria-label={`Apply name and Z0 of ${refId}`}>
+          Apply
+        </Button>
         <Button size="sm" variant="ghost" aria-label={`Unmark system port ${sys.name}`} onClick={() => commit(removeSystemPort(scenario, refId))}>
           Unmark
         </Button>
