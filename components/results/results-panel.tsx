@@ -99,8 +99,18 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
   const [markerError, setMarkerError] = useState<string | null>(null);
 
   const [i, j] = [Math.min(pair[0], n - 1), Math.min(pair[1], n - 1)];
-  const values = useMemo(() => traceValues(view, i, j, quantity), [view, i, j, quantity]);
-  const label = traceLabel(view.ports, i, j);
+  const [extra, setExtra] = useState<[number, number][]>([]);
+  const shownPairs = useMemo(() => {
+    const all: [number, number][] = [[i, j]];
+    for (const [a, b] of extra) if (a < n && b < n && !all.some(([x, y]) => x === a && y === b)) all.push([a, b]);
+    return all;
+  }, [i, j, extra, n]);
+  const series = useMemo(
+    () => shownPairs.map(([a, b]) => ({ label: traceLabel(view.ports, a, b), values: traceValues(view, a, b, quantity) })),
+    [shownPairs, view, quantity],
+  );
+  const values = series[0].values;
+  const label = series[0].label;
   const unit = TRACE_UNITS[quantity];
   const markerIdx = useMemo(() => markers.map((hz) => nearestFrequencyIndex(view.frequencies, hz)), [markers, view]);
   const matrixIndex = nearestFrequencyIndex(view.frequencies, matrixHz);
@@ -112,7 +122,7 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
   const readout =
     hover === null
       ? "Point at the trace to read a value; click to place a marker."
-      : `${formatFrequency(view.frequencies[hover])} · ${label} ${fmt(values[hover])} ${unit}`;
+      : `${formatFrequency(view.frequencies[hover])} · ${series.map((s) => `${s.label} ${fmt(s.values[hover])} ${unit}`).join(" · ")}`;
 
   const addMarkerAt = (hz: number) => setMarkers((m) => (m.includes(hz) ? m : [...m, hz]));
 
@@ -158,10 +168,38 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
             />
           </label>
         </div>
+        <div className="flex flex-wrap items-center gap-2">
+          <label className="flex items-center gap-2 text-xs text-muted">
+            Overlay
+            <Select
+              aria-label="Overlay another trace"
+              value=""
+              onChange={(e) => {
+                if (!e.target.value) return;
+                const [a, b] = e.target.value.split(",").map(Number);
+                setExtra((list) => [...list, [a, b]]);
+              }}
+              options={[
+                { value: "", label: "add a trace…" },
+                ...options.filter((o) => !shownPairs.some(([a, b]) => o.value === `${a},${b}`)),
+              ]}
+            />
+          </label>
+          {shownPairs.slice(1).map(([a, b]) => (
+            <Button
+              key={`${a},${b}`}
+              variant="ghost"
+              size="sm"
+              aria-label={`Remove overlay ${traceLabel(view.ports, a, b)}`}
+              onClick={() => setExtra((list) => list.filter(([x, y]) => x !== a || y !== b))}
+            >
+              {traceLabel(view.ports, a, b)} <X aria-hidden="true" className="h-3.5 w-3.5" />
+            </Button>
+          ))}
+        </div>
         <TracePlot
           frequencies={view.frequencies}
-          values={values}
-          label={label}
+          series={series}
           unit={unit}
           markers={markerIdx}
           onHover={setHover}
@@ -213,6 +251,11 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
                 <th scope="col" className="py-1 text-right font-normal">
                   {sLabelShort(label)} ({unit})
                 </th>
+                {series.slice(1).map((s) => (
+                  <th key={s.label} scope="col" className="py-1 text-right font-normal">
+                    {sLabelShort(s.label)} ({unit})
+                  </th>
+                ))}
                 <th scope="col" className="sr-only">
                   Remove
                 </th>
@@ -226,6 +269,11 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
                     <td className="py-1 font-mono">M{m + 1}</td>
                     <td className="figures py-1 text-right">{formatFrequency(view.frequencies[k])}</td>
                     <td className="figures py-1 text-right">{fmt(values[k])}</td>
+                    {series.slice(1).map((s) => (
+                      <td key={s.label} className="figures py-1 text-right">
+                        {fmt(s.values[k])}
+                      </td>
+                    ))}
                     <td className="py-1 text-right">
                       <Button variant="ghost" size="sm" aria-label={`Remove marker M${m + 1}`} onClick={() => setMarkers(markers.filter((x) => x !== hz))}>
                         <X aria-hidden="true" className="h-3.5 w-3.5" />

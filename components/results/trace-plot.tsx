@@ -9,9 +9,8 @@ import { useLatest } from "@/lib/client/use-latest";
 export type TracePlotProps = {
   /** Hz */
   frequencies: Float64Array;
-  values: Float64Array;
-  /** series name, e.g. "S21 (TX → ANT)" */
-  label: string;
+  /** one or more traces over the same frequencies; the first is the main one */
+  series: { label: string; values: Float64Array }[];
   /** y unit: "dB", "deg", "ns" */
   unit: string;
   /** marker frequency indices */
@@ -51,7 +50,21 @@ function useThemeKey(): number {
 }
 
 /** One trace over frequency (uPlot): hover read-out through onHover, click to place a marker. */
-export function TracePlot({ frequencies, values, label, unit, markers, onHover, onPick, height = 220 }: TracePlotProps) {
+/** Canvas colours of the traces, in order (CSS variable, fallback). */
+const TRACE_COLOURS: [string, string][] = [
+  ["--pt-sea", "#2d5d8a"],
+  ["--pt-warn", "#b5852a"],
+  ["--pt-pass", "#2f7a68"],
+  ["--pt-muted", "#56606e"],
+];
+
+function plotData(frequencies: Float64Array, series: TracePlotProps["series"]): uPlot.AlignedData {
+  return [Array.from(frequencies), ...series.map((s) => finiteOrNull(s.values))] as uPlot.AlignedData;
+}
+
+export function TracePlot({ frequencies, series, unit, markers, onHover, onPick, height = 220 }: TracePlotProps) {
+  const labels = series.map((s) => s.label).join("\u0000");
+  const latestSeries = useLatest(series);
   const box = useRef<HTMLDivElement>(null);
   const plot = useRef<uPlot | null>(null);
   const markersRef = useRef(markers);
@@ -65,6 +78,8 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
     const ink = cssColour("--pt-ink", "#1D2936");
     const rule = cssColour("--pt-rule", "#CDBF9F");
     const sea = cssColour("--pt-sea", "#2A5D7C");
+    const colours = TRACE_COLOURS.map(([name, fallback]) => cssColour(name, fallback));
+    const current = latestSeries.current;
     const fail = cssColour("--pt-fail", "#B8432B");
     const axis = { stroke: ink, grid: { stroke: rule, width: 1 }, ticks: { stroke: rule, width: 1 }, font: "11px var(--font-mono, monospace)" };
     const opts: uPlot.Options = {
@@ -89,7 +104,7 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
         { ...axis, values: (_u, splits) => splits.map((v) => formatSi(v, "Hz", 4)), size: 34 },
         { ...axis, label: unit, labelSize: 14, labelFont: "11px var(--font-sans, sans-serif)", size: 56 },
       ],
-      series: [{}, { label, stroke: sea, width: 1.75, spanGaps: false }],
+      series: [{}, ...current.map((s, k) => ({ label: s.label, stroke: colours[k % colours.length], width: k === 0 ? 1.75 : 1.25, spanGaps: false }))],
       hooks: {
         setCursor: [
           (u) => {
@@ -123,7 +138,7 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
         ],
       },
     };
-    const u = new uPlot(opts, [Array.from(frequencies), finiteOrNull(values)] as uPlot.AlignedData, el);
+    const u = new uPlot(opts, plotData(frequencies, current), el);
     plot.current = u;
     const click = () => {
       const idx = u.cursor.idx;
@@ -143,16 +158,30 @@ export function TracePlot({ frequencies, values, label, unit, markers, onHover, 
     };
     // re-created when what the axes say changes; data updates go through setData below
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [label, unit, height, themeKey]);
+  }, [labels, unit, height, themeKey]);
 
   useEffect(() => {
-    plot.current?.setData([Array.from(frequencies), finiteOrNull(values)] as uPlot.AlignedData);
-  }, [frequencies, values]);
+    plot.current?.setData(plotData(frequencies, series));
+  }, [frequencies, series]);
 
   useEffect(() => {
     markersRef.current = markers;
     plot.current?.redraw(false);
   }, [markers]);
 
-  return <div ref={box} className="w-full" role="img" aria-label={`Trace plot of ${label} in ${unit}`} />;
+  return (
+    <div className="flex flex-col gap-1">
+      <div ref={box} className="w-full" role="img" aria-label={`Trace plot of ${series.map((s) => s.label).join(", ")} in ${unit}`} />
+      {series.length > 1 ? (
+        <ul className="flex flex-wrap gap-x-3 gap-y-1 text-xs text-ink" aria-label="Legend">
+          {series.map((s, k) => (
+            <li key={s.label} className="flex items-center gap-1.5">
+              <span aria-hidden="true" className="inline-block h-0.5 w-4" style={{ background: `var(${TRACE_COLOURS[k % TRACE_COLOURS.length][0]})` }} />
+              {s.label}
+            </li>
+          ))}
+        </ul>
+      ) : null}
+    </div>
+  );
 }
