@@ -17,6 +17,7 @@ import {
   type PartSummary,
 } from "@/lib/client/scenario-model";
 import { createHistory, recordEdit, redo, undo, HISTORY_LIMIT } from "@/lib/client/history";
+import { placePorts } from "@/components/chart/port-layout";
 
 // Port counts and numbering: DESIGN.md "Block kinds and port numbering".
 
@@ -203,5 +204,29 @@ describe("scenarioForEngine", () => {
     expect("expr" in out.blocks[0]).toBe(false);
     expect("position" in out.blocks[0]).toBe(false);
     expect(out.blocks[0].params).toEqual({ loss_db: 3 });
+  });
+});
+
+describe("port placement on the block cards", () => {
+  it("places every port of every kind exactly once, inside its side", () => {
+    // port counts of DESIGN.md "Block kinds and port numbering"; switch and array over a range of sizes
+    const cases: [Parameters<typeof placePorts>[0], number][] = [
+      ["load", 1], ["antenna", 1], ["attenuator", 2], ["line", 2], ["filter", 2], ["amplifier", 2],
+      ["splitter", 3], ["tee", 3], ["circulator", 3], ["coupler", 4], ["hybrid90", 4], ["hybrid180", 4],
+      ["switch", 2], ["switch", 5], ["switch", 17], ["array", 1], ["array", 8], ["touchstone", 1], ["touchstone", 2], ["touchstone", 7],
+    ];
+    for (const [kind, n] of cases) {
+      const placed = placePorts(kind, n);
+      expect(placed.map((p) => p.port).sort((a, b) => a - b)).toEqual(Array.from({ length: n }, (_, k) => k + 1));
+      for (const p of placed) expect(p.at > 0 && p.at < 1).toBe(true);
+    }
+  });
+
+  it("puts inputs on the left and outputs on the right", () => {
+    // amplifier 1 in, 2 out; splitter 1 common; switch 1 common (DESIGN.md)
+    expect(placePorts("amplifier", 2).find((p) => p.port === 1)?.side).toBe("left");
+    expect(placePorts("amplifier", 2).find((p) => p.port === 2)?.side).toBe("right");
+    expect(placePorts("splitter", 3).filter((p) => p.side === "right").map((p) => p.port)).toEqual([2, 3]);
+    expect(placePorts("switch", 4).filter((p) => p.side === "left").map((p) => p.port)).toEqual([1]);
   });
 });
