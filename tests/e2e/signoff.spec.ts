@@ -1,13 +1,19 @@
 import { readFileSync } from "node:fs";
 import { expect, test, type Page } from "@playwright/test";
 import { openBundle, reproduceBundle } from "../../engine/bundle";
-import { signInAs } from "./helpers";
+import { demoUsers, signIn, type DemoRole } from "./helpers";
 
 // Sign-off from the browser on the seeded demo project (db/seed.ts): the engineer asks the reviewer, the
 // reviewer downloads the bundle, checks it, approves with a comment, and the sign-offs page shows it.
 const DEMO_PROJECT = "Kestrel telemetry front end";
 
-test.describe.configure({ timeout: 120_000 });
+test.describe.configure({ timeout: 180_000 });
+
+/** Sign in through the form; the first sign-in after start waits for the demo seed and argon2 on a busy machine. */
+async function signInAs(page: Page, role: DemoRole): Promise<void> {
+  await signIn(page, demoUsers[role].email, demoUsers[role].password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 60_000 });
+}
 
 async function demoProjectId(page: Page): Promise<string> {
   const response = await page.request.get("/api/projects");
