@@ -44,12 +44,12 @@ export function AddBlockPalette({ open, onOpenChange, parts, onChoose }: AddBloc
     <Command.Dialog
       open={open}
       onOpenChange={onOpenChange}
-      label="Add block"
+      // cmdk names its input after this label (aria-labelledby), so it says what the input does
+      label="Filter block kinds and parts"
       overlayClassName="fixed inset-0 z-40 bg-ink/25"
       contentClassName="fixed top-[12vh] left-1/2 z-50 w-[min(34rem,92vw)] -translate-x-1/2 rounded-card border-[1.5px] border-ink bg-surface shadow-xl"
     >
       <Command.Input
-        aria-label="Filter block kinds and parts"
         placeholder="Block kind or part… (Enter adds it at the centre of the chart)"
         className="h-11 w-full border-b border-rule bg-transparent px-3 text-sm text-ink outline-none placeholder:text-muted"
       />
