@@ -290,7 +290,7 @@ export function buildCommands(data: HelmData): HelmCommand[] {
   }
 
   // --- navigation
-  commands.push({ id: "nav.projects", title: "Go to projects", group: "Navigation", run: () => navigate("/projects") });
+  commands.push({ id: "nav.projects", title: "Open the projects list", group: "Navigation", keywords: ["home", "all projects"], run: () => navigate("/projects") });
   if (projects.length > 0) {
     commands.push({
       id: "nav.project",
