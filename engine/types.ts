@@ -69,6 +69,8 @@ export type BlockSpec = {
   position?: { x: number; y: number };
   /** free text label; ignored by the engine */
   label?: string;
+  /** expressions typed for params (e.g. { loss_db: "0.12 dB/m * L_feed" }); evaluated by the web app, ignored by the engine */
+  expr?: Record<string, string>;
 };
 
 /** "BLOCK:PORT", PORT 1-based */

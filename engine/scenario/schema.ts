@@ -62,6 +62,8 @@ export const BlockSchema = z.object({
   rating_dbm: finite.optional(),
   position: z.object({ x: finite, y: finite }).optional(),
   label: z.string().optional(),
+  /** the expressions the user typed for params (the web app evaluates them; the engine ignores them) */
+  expr: z.record(z.string(), z.string().max(500)).optional(),
 });
 
 export const SystemPortSchema = z.object({

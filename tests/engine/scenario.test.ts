@@ -283,3 +283,20 @@ describe("the engine index", () => {
     expect(typeof engine.frequencyPlan).toBe("function");
   });
 });
+
+describe("parseScenario keeps the web app's editing fields", () => {
+  it("keeps the typed expressions and chart positions of a block", () => {
+    const input = twoPads() as Loose;
+    input.blocks[0].expr = { loss_db: "3 dB" };
+    input.blocks[0].position = { x: 10, y: -20 };
+    const scenario = parseScenario(input);
+    expect(scenario.blocks[0].expr).toEqual({ loss_db: "3 dB" });
+    expect(scenario.blocks[0].position).toEqual({ x: 10, y: -20 });
+  });
+
+  it("refuses an expression that is not text, naming its path", () => {
+    const input = twoPads() as Loose;
+    input.blocks[0].expr = { loss_db: 3 };
+    expect(errorOf(() => parseScenario(input)).where).toBe("blocks[0].expr.loss_db");
+  });
+});
