@@ -99,7 +99,6 @@ export function checkEntryName(name: string): void {
   };
   if (name.length === 0) refuse("it has no name");
   if (name.length > 300) refuse("its name is longer than 300 characters");
-  // eslint-disable-next-line no-control-regex
   if (/[\u0000-\u001f\u007f]/.test(name)) refuse("its name holds control characters");
   if (name.includes("\\")) refuse("its name holds a backslash");
   if (name.startsWith("/")) refuse("it is an absolute path");

@@ -56,7 +56,17 @@ function tracesSection(results: BundleResults): string {
   const f = Array.from(sol.frequencies);
   const [scale, unit] = hzScale(f[f.length - 1]);
   const x = f.map((v) => v / scale);
-  const bands = (results.scenario.rules ?? []).flatMap((r, i) => (r.band ? [{ from: r.band[0] / scale, to: r.band[1] / scale, label: `${r.id ?? `rules[${i}]`} (${r.kind})` }] : []));
+  // one shaded band per distinct range (rules often share a band), labelled with every rule on it
+  const byRange = new Map<string, { from: number; to: number; label: string }>();
+  (results.scenario.rules ?? []).forEach((r, i) => {
+    if (!r.band) return;
+    const key = `${r.band[0]}-${r.band[1]}`;
+    const label = `${r.id ?? `rules[${i}]`} (${r.kind})`;
+    const seen = byRange.get(key);
+    if (seen) seen.label += `, ${label}`;
+    else byRange.set(key, { from: r.band[0] / scale, to: r.band[1] / scale, label });
+  });
+  const bands = [...byRange.values()];
   const out: string[] = [];
   for (let j = 0; j < n; j++) {
     const traces: PlotTrace[] = [];
@@ -81,7 +91,8 @@ function verdictTable(results: BundleResults): string {
     const figures = r
       ? `worst ${num(r.worst)} ${r.unit}${r.direction ? ` (${escapeHtml(r.direction)})` : ""} at ${escapeHtml(formatHz(r.worstHz))}; limit ${num(r.limit)} ${r.unit}; margin ${num(r.margin)} ${r.unit === "dBm" ? "dB" : r.unit}`
       : "";
-    const messages = c.messages.slice(0, 4).map((m) => `<div class="small muted">${escapeHtml(m)}</div>`).join("");
+    // a rule's first message restates the figures shown above it
+    const messages = c.messages.slice(r ? 1 : 0, 4).map((m) => `<div class="small muted">${escapeHtml(m)}</div>`).join("");
     return `<tr><td>${verdictCell(c.verdict)}</td><td class="mono">${escapeHtml(c.name)}</td><td>${escapeHtml(c.title)}</td><td class="mono small">${figures}${messages}</td></tr>`;
   });
   return `<table><thead><tr><th>Verdict</th><th>Check</th><th>What</th><th>Figures</th></tr></thead><tbody>${rows.join("")}</tbody></table>`;
