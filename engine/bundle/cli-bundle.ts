@@ -33,6 +33,9 @@ export function formatReproduction(file: string, bundle: ReturnType<typeof openB
     `Bundle ${file}: ${m.format}, Portolan ${m.app.version}`,
     `  project "${m.project.name}", scenario "${m.scenario.name}" revision ${m.revision.number}, exported ${m.created_at}${m.created_by ? ` by ${m.created_by.name} <${m.created_by.email}>` : ""}`,
     `  manifest: ${Object.keys(m.files).length} files verified (SHA-256)`,
+    r.contentHashMatches
+      ? `  scenario.json is the revision's content (SHA-256 ${m.revision.content_hash.slice(0, 12)}…, the hash sign-offs bind to)`
+      : `  note: scenario.json does not hash to the revision's content hash ${m.revision.content_hash.slice(0, 12)}… (renamed since it was saved?)`,
     "",
   ];
   if (r.error) lines.push(`NOT REPRODUCED: ${r.error}`);

@@ -5,7 +5,7 @@
 import { parseTouchstone } from "../touchstone";
 import { EngineInputError, SingularSystemError } from "../types";
 import { computeBundleResults, CHECKS_FORMAT, type ChecksDocument } from "./contents";
-import { BUNDLE_PATHS } from "./format";
+import { BUNDLE_PATHS, canonicalJson, sha256 } from "./format";
 import type { OpenedBundle } from "./bundle-zip";
 
 /** Largest difference of a rule figure (dB or dBm) still counted as the same result. */
@@ -26,6 +26,11 @@ export type ReproduceResult = {
   compositeMaxDiff: number | null;
   /** why the re-run could not be made at all (bad scenario), else null */
   error: string | null;
+  /**
+   * SHA-256 of scenario.json's canonical JSON equals the revision content hash in the manifest (the hash a
+   * sign-off binds to). Informational: a scenario renamed after the revision was saved exports its new name.
+   */
+  contentHashMatches: boolean;
 };
 
 function figure(x: unknown): number | null {
@@ -49,6 +54,7 @@ function sameFigure(a: unknown, b: unknown, tol: number): boolean {
  */
 export function reproduceBundle(bundle: OpenedBundle): ReproduceResult {
   const items: ReproducedItem[] = [];
+  const contentHashMatches = sha256(canonicalJson(bundle.scenario)) === bundle.manifest.revision.content_hash;
   let stored: ChecksDocument | null = null;
   try {
     const doc = JSON.parse(bundle.files.get(BUNDLE_PATHS.checksJson) ?? "null") as ChecksDocument | null;
@@ -61,13 +67,13 @@ export function reproduceBundle(bundle: OpenedBundle): ReproduceResult {
     rerun = computeBundleResults(bundle.scenario, bundle.parts);
   } catch (err) {
     if (err instanceof EngineInputError || err instanceof SingularSystemError) {
-      return { reproduced: false, verdict: "fail", items, compositeMaxDiff: null, error: `scenario.json cannot be solved: ${err.message}` };
+      return { reproduced: false, verdict: "fail", items, compositeMaxDiff: null, error: `scenario.json cannot be solved: ${err.message}`, contentHashMatches };
     }
     throw err;
   }
   const now = rerun.checks;
   if (!stored) {
-    return { reproduced: false, verdict: now.verdict, items, compositeMaxDiff: null, error: `${BUNDLE_PATHS.checksJson} is missing or not a ${CHECKS_FORMAT} document` };
+    return { reproduced: false, verdict: now.verdict, items, compositeMaxDiff: null, error: `${BUNDLE_PATHS.checksJson} is missing or not a ${CHECKS_FORMAT} document`, contentHashMatches };
   }
   items.push({ name: "overall verdict", stored: stored.verdict, rerun: now.verdict, same: stored.verdict === now.verdict });
   const storedChecks = new Map(stored.results.checks.map((c) => [c.name, c]));
@@ -118,5 +124,5 @@ export function reproduceBundle(bundle: OpenedBundle): ReproduceResult {
       items.push({ name: "composite", stored: path, rerun: "(unreadable)", same: false, note: err instanceof Error ? err.message : String(err) });
     }
   }
-  return { reproduced: items.every((i) => i.same), verdict: now.verdict, items, compositeMaxDiff, error: null };
+  return { reproduced: items.every((i) => i.same), verdict: now.verdict, items, compositeMaxDiff, error: null, contentHashMatches };
 }

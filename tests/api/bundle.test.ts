@@ -150,6 +150,8 @@ describe("exporting a bundle", () => {
     writeFileSync(file, bundle);
     const run = spawnSync("npx", ["tsx", "engine/cli.ts", "check", file], { encoding: "utf8", timeout: 120_000 });
     expect(run.stdout).toContain("manifest: 6 files verified (SHA-256)");
+    // scenario.json hashes to the revision's content hash, the one sign-offs are bound to
+    expect(run.stdout).toContain("scenario.json is the revision's content (SHA-256");
     expect(run.stdout).toContain("REPRODUCED: the stored verdicts and figures come out the same");
     expect(run.status).toBe(1); // verified and reproduced, but the fixture's rules fail
   });
