@@ -34,12 +34,24 @@ export function internalWaves(sol: Solution, incident: Float64Array, out?: Inter
   const len = 2 * nf * P;
   if (out && (out.a.length !== len || out.b.length !== len || out.a === out.b)) throw new EngineInputError("out", `expected two distinct arrays of ${len} numbers`);
   const a = out ? out.a : new Float64Array(len);
+  const b = out ? out.b : new Float64Array(len);
   const stride = 2 * nf;
   const rows = state.kind === "growth" ? state.entry.plan.totalPorts : P;
-  const w = workOf(stride * (rows + 1));
-  const aw = w.subarray(0, stride * rows);
-  const rowScratch = w.subarray(stride * rows, stride * (rows + 1));
   let partner: Int32Array;
+  if (state.kind === "growth") {
+    partner = state.entry.plan.partner;
+  } else {
+    partner = new Int32Array(P).fill(-1);
+    for (const [p, q] of sys.links) {
+      partner[p] = q;
+      partner[q] = p;
+    }
+  }
+  // port-major rows: incident waves of every port, then S·a of the unlinked and system ports
+  let open = 0;
+  for (let p = 0; p < P; p++) if (partner[p] < 0) open++;
+  const w = workOf(stride * (rows + open));
+  const aw = w.subarray(0, stride * rows);
   if (state.kind === "growth") {
     if (state.generation >= 0 && state.generation !== state.entry.generation) {
       // a later solve of the same system reused the shared map buffer: rebuild this solution's own maps
@@ -49,33 +61,48 @@ export function internalWaves(sol: Solution, incident: Float64Array, out?: Inter
       state.generation = -1;
     }
     fillGrowth(aw, state, incident, nf, E);
-    for (let p = 0; p < P; p++) {
-      const row = p * stride;
-      for (let f = 0; f < nf; f++) {
-        a[2 * (f * P + p)] = aw[row + 2 * f];
-        a[2 * (f * P + p) + 1] = aw[row + 2 * f + 1];
-      }
-    }
-    partner = state.entry.plan.partner;
   } else {
-    if (out) a.fill(0);
-    fillDense(a, state, incident, nf, E, P, sol);
+    const af = new Float64Array(len);
+    fillDense(af, state, incident, nf, E, P, sol);
+    toPortMajor(aw, af, nf, P);
+  }
+  const bAt = fillOutgoing(w, stride * rows, partner, state.blockS, sys.blockOffset, nf, P);
+  toFrequencyMajor(a, w, null, nf, P);
+  toFrequencyMajor(b, w, bAt, nf, P);
+  return { a, b };
+}
+
+/** Frequencies per tile of the transposes: a tile of the frequency-major array stays in cache. */
+const TILE = 32;
+
+/** out[k][p] = rows[p][k] (row p of src at `at[p]` when given, else at p·2nf), tiled over frequencies. */
+function toFrequencyMajor(out: Float64Array, src: Float64Array, at: Int32Array | null, nf: number, P: number): void {
+  const stride = 2 * nf;
+  for (let f0 = 0; f0 < nf; f0 += TILE) {
+    const f1 = Math.min(nf, f0 + TILE);
     for (let p = 0; p < P; p++) {
-      const row = p * stride;
-      for (let f = 0; f < nf; f++) {
-        aw[row + 2 * f] = a[2 * (f * P + p)];
-        aw[row + 2 * f + 1] = a[2 * (f * P + p) + 1];
+      const ro = at ? at[p] : p * stride;
+      for (let f = f0; f < f1; f++) {
+        out[2 * (f * P + p)] = src[ro + 2 * f];
+        out[2 * (f * P + p) + 1] = src[ro + 2 * f + 1];
       }
-    }
-    partner = new Int32Array(P).fill(-1);
-    for (const [p, q] of sys.links) {
-      partner[p] = q;
-      partner[q] = p;
     }
   }
-  const b = out ? out.b : new Float64Array(len);
-  fillOutgoing(b, aw, rowScratch, partner, state.blockS, sys.blockOffset, nf, P);
-  return { a, b };
+}
+
+/** rows[p][k] = src[k][p], tiled over frequencies. */
+function toPortMajor(rows: Float64Array, src: Float64Array, nf: number, P: number): void {
+  const stride = 2 * nf;
+  for (let f0 = 0; f0 < nf; f0 += TILE) {
+    const f1 = Math.min(nf, f0 + TILE);
+    for (let p = 0; p < P; p++) {
+      const ro = p * stride;
+      for (let f = f0; f < f1; f++) {
+        rows[ro + 2 * f] = src[2 * (f * P + p)];
+        rows[ro + 2 * f + 1] = src[2 * (f * P + p) + 1];
+      }
+    }
+  }
 }
 
 // Port-major work areas ([p][k], interleaved): the substitution then runs its innermost loop over
@@ -166,9 +193,15 @@ function fillDense(a: Float64Array, st: DenseWaveState, incident: Float64Array, 
   }
 }
 
-/** b at every block port: the partner's a on a link (what enters one end leaves the other), else S·a. */
-function fillOutgoing(b: Float64Array, aw: Float64Array, acc: Float64Array, partner: Int32Array, blockS: SData[], offsets: number[], nf: number, P: number): void {
+/**
+ * b at every block port as port-major rows of the work area `w` (whose first rows are a): the partner's a
+ * on a link (what enters one end leaves the other), else S·a, written to new rows from `bStart` on.
+ * Returns where each port's b row starts in `w`.
+ */
+function fillOutgoing(w: Float64Array, bStart: number, partner: Int32Array, blockS: SData[], offsets: number[], nf: number, P: number): Int32Array {
   const stride = 2 * nf;
+  const at = new Int32Array(P);
+  let next = bStart;
   for (let i = 0; i < blockS.length; i++) {
     const s = blockS[i];
     const n = s.n;
@@ -178,29 +211,27 @@ function fillOutgoing(b: Float64Array, aw: Float64Array, acc: Float64Array, part
     for (let r = 0; r < n; r++) {
       const p = off + r;
       const q = partner[p];
-      let row: Float64Array = aw;
-      let ro = q * stride;
-      if (q < 0) {
-        acc.fill(0);
-        for (let c = 0; c < n; c++) {
-          const src = (off + c) * stride;
-          let so = 2 * (r * n + c);
-          for (let f = 0; f < stride; f += 2, so += fStride) {
-            const mr = d[so];
-            const mi = d[so + 1];
-            const xr = aw[src + f];
-            const xi = aw[src + f + 1];
-            acc[f] += mr * xr - mi * xi;
-            acc[f + 1] += mr * xi + mi * xr;
-          }
-        }
-        row = acc;
-        ro = 0;
+      if (q >= 0) {
+        at[p] = q * stride;
+        continue;
       }
-      for (let f = 0; f < nf; f++) {
-        b[2 * (f * P + p)] = row[ro + 2 * f];
-        b[2 * (f * P + p) + 1] = row[ro + 2 * f + 1];
+      const ro = next;
+      next += stride;
+      at[p] = ro;
+      w.fill(0, ro, ro + stride);
+      for (let c = 0; c < n; c++) {
+        const src = (off + c) * stride;
+        let so = 2 * (r * n + c);
+        for (let f = 0; f < stride; f += 2, so += fStride) {
+          const mr = d[so];
+          const mi = d[so + 1];
+          const xr = w[src + f];
+          const xi = w[src + f + 1];
+          w[ro + f] += mr * xr - mi * xi;
+          w[ro + f + 1] += mr * xi + mi * xr;
+        }
       }
     }
   }
+  return at;
 }

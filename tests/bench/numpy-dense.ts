@@ -22,6 +22,8 @@ export type NumpyTiming = {
   blas: string;
   threads: unknown;
   interior: number;
+  /** whether an untimed warm-up run came first (only when one run is short) */
+  warmup: boolean;
 };
 
 /** Whether /usr/bin/python3 with numpy is available. */
@@ -79,8 +81,9 @@ export function timeNumpyDense(sys: PreparedSystem, runs = 7, budgetSeconds = 30
       blas: string;
       threads: unknown;
       interior: number;
+      warmup: boolean;
     };
-    return { medianMs: out.median_ms, runsMs: out.runs_ms, s: out.s, numpy: out.numpy, blas: out.blas, threads: out.threads, interior: out.interior };
+    return { medianMs: out.median_ms, runsMs: out.runs_ms, s: out.s, numpy: out.numpy, blas: out.blas, threads: out.threads, interior: out.interior, warmup: out.warmup };
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
