@@ -2,14 +2,17 @@ import { execFileSync } from "node:child_process";
 import { mkdirSync, mkdtempSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { expect, test, type Browser, type Locator, type Page } from "@playwright/test";
-import { signInAs, type DemoRole } from "./helpers";
+import { expect as baseExpect, test, type Browser, type Locator, type Page } from "@playwright/test";
+import { demoUsers, signIn, type DemoRole } from "./helpers";
 
 // The scenario workspace end to end on the seeded demo (db/seed.ts, db/seed-scenarios.ts).
 const DEMO_PROJECT = "Kestrel telemetry front end";
 const SHOTS = "test-results/screenshots";
 
-test.describe.configure({ timeout: 120_000 });
+test.describe.configure({ timeout: 240_000 });
+
+// The workspace is a heavy client page and the machine is shared: wait longer than the default for it.
+const expect = baseExpect.configure({ timeout: 40_000 });
 
 async function demoProjectId(page: Page): Promise<string> {
   const response = await page.request.get("/api/projects");
@@ -18,6 +21,12 @@ async function demoProjectId(page: Page): Promise<string> {
   const project = projects.find((p) => p.name === DEMO_PROJECT);
   expect(project).toBeDefined();
   return project!.id;
+}
+
+/** Sign in through the form; the shared machine can take a while to answer the first sign-ins, so wait longer than the default. */
+async function signInAs(page: Page, role: DemoRole): Promise<void> {
+  await signIn(page, demoUsers[role].email, demoUsers[role].password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 60_000 });
 }
 
 const origin = (page: Page) => ({ origin: new URL(page.url()).origin });
