@@ -91,6 +91,7 @@ test("a reviewer downloads the bundle and signs off from the browser", async ({ 
   await decision.getByRole("button", { name: "Approve" }).click();
   await expect(item.getByText("Approved", { exact: true })).toBeVisible();
   await expect(item.getByText("Comment: Bundle re-run on my machine")).toBeVisible();
+  await panel.screenshot({ path: "test-results/screenshots/signoff-panel-approved.png" });
 
   await reviewer.goto(`/projects/${projectId}/signoffs`);
   const approved = reviewer.getByTestId("signoffs-approved");
@@ -98,5 +99,26 @@ test("a reviewer downloads the bundle and signs off from the browser", async ({ 
   await expect(row).toHaveCount(1);
   await expect(row.getByText("Approved", { exact: true })).toBeVisible();
   await expect(reviewer.getByTestId("signoffs-requested").getByTestId("signoff-row").filter({ hasText: name })).toHaveCount(0);
+  await reviewer.screenshot({ path: "test-results/screenshots/signoffs-page.png", fullPage: true });
+
+  // A later edit by the engineer leaves the approval on record but marks it stale, on both pages.
+  const againContext = await browser.newContext();
+  const again = await againContext.newPage();
+  await signInAs(again, "engineer");
+  const current = (await (await again.request.get(`/api/projects/${projectId}/scenarios/${scenarioId}`)).json()) as { revision: { id: string } };
+  const edited = padChain(name);
+  edited.blocks[1].params.loss_db = 4;
+  const saved = await again.request.post(`/api/projects/${projectId}/scenarios/${scenarioId}/revisions`, {
+    data: { baseRevisionId: current.revision.id, scenario: edited },
+    headers: { origin: new URL(again.url()).origin },
+  });
+  expect(saved.status()).toBe(201);
+  await againContext.close();
+  await reviewer.reload();
+  const staleRow = reviewer.getByTestId("signoffs-stale").getByTestId("signoff-row").filter({ hasText: name });
+  await expect(staleRow.getByText("Stale: scenario changed since")).toBeVisible();
+  await expect(staleRow.getByText("Approved", { exact: true })).toBeVisible();
+  await reviewer.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
+  await expect(reviewer.getByRole("region", { name: "Sign-off" }).getByTestId("signoff-item").filter({ hasText: "Rhea Reviewer" }).getByText("Stale: scenario changed since")).toBeVisible();
   await reviewerContext.close();
 });
