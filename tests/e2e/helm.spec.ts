@@ -46,8 +46,8 @@ async function goToScenario(page: Page, role: DemoRole, scenario: string): Promi
   await expect(page).toHaveURL(/\/projects\/[^/]+$/);
   await expect(page.getByRole("heading", { level: 1, name: DEMO_PROJECT })).toBeVisible();
   await command(page, `Open scenario ${scenario}`);
-  await expect(page.getByRole("heading", { level: 2, name: scenario })).toBeVisible();
-  await expect(page.getByTestId("workspace")).toBeVisible();
+  await expect(page.getByTestId("workspace")).toBeVisible({ timeout: 30_000 });
+  await expect(page.getByRole("heading", { level: 2, name: scenario, exact: true }).first()).toBeVisible();
 }
 
 test("keyboard only: an isolation check with chosen ports and band fails on Cheaper switch", async ({ page }) => {
@@ -87,7 +87,9 @@ test("keyboard only: a leak trace lists its hops and highlights them on the char
   await expect(hops).toContainText("dB");
   // the strongest path is shown on the chart: its blocks carry the mark
   await expect(page.locator('[aria-label^="Block TR,"][aria-label$="on the highlighted leak path"]')).toHaveCount(1);
-  await expect(page.locator('[aria-label$="on the highlighted leak path"]').first()).toBeVisible();
+  await expect(page.locator('[aria-label^="Block TR,"]')).toBeVisible();
+  // and the links between the path's blocks are marked too (DRV → TXBPF leads from TX into the chain)
+  await expect(page.locator('[aria-label="Link DRV:2 to TXBPF:1, on the highlighted leak path"]')).toHaveCount(1);
   // a block that the path does not cross is not marked
   await expect(page.locator('[aria-label^="Block ANTB,"][aria-label$="on the highlighted leak path"]')).toHaveCount(0);
 });
