@@ -127,30 +127,40 @@ function fillGrowth(aw: Float64Array, st: GrowthWaveState, incident: Float64Arra
   }
   const map = st.maps;
   const steps = plan.steps;
-  for (let s = steps.length - 1; s >= 0; s--) {
-    const step = steps[s];
-    const inner = step.inner;
-    const ports = step.ports;
-    const nC = ports.length;
-    const R = inner.length;
-    const fStride = 2 * R * nC; // one frequency's map
-    for (let r = 0; r < R; r++) {
-      const dst = inner[r] * stride;
-      for (let j = 0; j < nC; j++) {
-        const src = ports[j] * stride;
-        let mo = mapOffset[s] + 2 * (r * nC + j);
-        for (let f = 0; f < stride; f += 2, mo += fStride) {
-          const mr = map[mo];
-          const mi = map[mo + 1];
-          const xr = aw[src + f];
-          const xi = aw[src + f + 1];
-          aw[dst + f] += mr * xr - mi * xi;
-          aw[dst + f + 1] += mr * xi + mi * xr;
+  // frequencies are independent: run every step over one tile of frequencies at a time, so that the
+  // tile's rows and map entries stay in cache while the steps walk back through them
+  for (let f0 = 0; f0 < nf; f0 += SUBST_TILE) {
+    const lo = 2 * f0;
+    const hi = 2 * Math.min(nf, f0 + SUBST_TILE);
+    for (let s = steps.length - 1; s >= 0; s--) {
+      const step = steps[s];
+      const inner = step.inner;
+      const ports = step.ports;
+      const nC = ports.length;
+      const R = inner.length;
+      const fStride = 2 * R * nC; // one frequency's map
+      const base = mapOffset[s] + f0 * fStride;
+      for (let r = 0; r < R; r++) {
+        const dst = inner[r] * stride;
+        for (let j = 0; j < nC; j++) {
+          const src = ports[j] * stride;
+          let mo = base + 2 * (r * nC + j);
+          for (let f = lo; f < hi; f += 2, mo += fStride) {
+            const mr = map[mo];
+            const mi = map[mo + 1];
+            const xr = aw[src + f];
+            const xi = aw[src + f + 1];
+            aw[dst + f] += mr * xr - mi * xi;
+            aw[dst + f + 1] += mr * xi + mi * xr;
+          }
         }
       }
     }
   }
 }
+
+/** Frequencies per tile of the back-substitution. */
+const SUBST_TILE = 64;
 
 function fillDense(a: Float64Array, st: DenseWaveState, incident: Float64Array, nf: number, E: number, P: number, sol: Solution): void {
   const ni = st.inner.length;
