@@ -33,7 +33,7 @@ export const PERMISSIONS = {
   "bundle.import": ["owner", "engineer"],
   "signoff.read": ["owner", "engineer", "reviewer"],
   "signoff.request": ["owner", "engineer"],
-  "signoff.decide": ["owner", "engineer", "reviewer"],
+  "signoff.decide": ["owner", "reviewer"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Action = keyof typeof PERMISSIONS;

@@ -28,7 +28,7 @@ const EXPECTED: Record<Action, { owner: boolean; engineer: boolean; reviewer: bo
   "bundle.import": { owner: Y, engineer: Y, reviewer: N },
   "signoff.read": { owner: Y, engineer: Y, reviewer: Y },
   "signoff.request": { owner: Y, engineer: Y, reviewer: N },
-  "signoff.decide": { owner: Y, engineer: Y, reviewer: Y },
+  "signoff.decide": { owner: Y, engineer: N, reviewer: Y },
 };
 
 const ROLES: Role[] = ["owner", "engineer", "reviewer"];
