@@ -131,3 +131,66 @@ test("a reviewer's helm lists checks but no editing actions", async ({ page }) =
     await expect(helm(page).getByRole("option").filter({ hasText: editing })).toHaveCount(1);
   }
 });
+
+test("keyboard only: the power ledger, the state sweep and the drive check render their results", async ({ page }) => {
+  await goToScenario(page, "engineer", "Cheaper switch");
+  await command(page, "Show power ledger");
+  await answer(page, "Port", "TX");
+  const ledger = page.getByRole("article", { name: "Power ledger result" });
+  await expect(ledger).toBeVisible({ timeout: 30_000 });
+  await expect(ledger.getByRole("img", { name: /^Power ledger from TX at / })).toBeVisible();
+
+  await command(page, "Sweep switch states");
+  const sweep = page.getByRole("article", { name: "State sweep result" });
+  await expect(sweep).toBeVisible({ timeout: 30_000 });
+  // TR and ASW have two throws each: four combinations, one marked best and one worst
+  await expect(sweep.getByRole("row")).toHaveCount(5);
+  await expect(sweep.locator('tr[data-mark="best"]')).toHaveCount(1);
+  await expect(sweep.locator('tr[data-mark="worst"]')).toHaveCount(1);
+
+  await command(page, "Check drive levels");
+  await answer(page, "Source powers", "TX 20 dBm");
+  const drive = page.getByRole("article", { name: "Drive check result" });
+  await expect(drive).toBeVisible({ timeout: 30_000 });
+  await expect(drive.getByText("Transmitting systems are to be verified by qualified people with calibrated instruments before use.")).toBeVisible();
+  // sorting a column by keyboard: the header button toggles aria-sort
+  const header = drive.getByRole("columnheader", { name: "Block" });
+  await header.getByRole("button").focus();
+  await page.keyboard.press("Enter");
+  await expect(header).toHaveAttribute("aria-sort", /ascending|descending/);
+});
+
+test("the rules page: an engineer adds a rule with a band in GHz, a reviewer only reads", async ({ page }) => {
+  await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 30_000 });
+  await command(page, "Go to project…");
+  await answer(page, "Project", DEMO_PROJECT);
+  await expect(page).toHaveURL(/\/projects\/[^/]+$/);
+  await command(page, "Go to rules");
+  await expect(page.getByRole("heading", { level: 2, name: "Rules" })).toBeVisible();
+  await page.getByRole("button", { name: "New rule" }).click();
+  const form = page.getByRole("form", { name: "New rule" });
+  await form.getByLabel("Name").fill("mon-isolation");
+  await form.getByLabel("From port").fill("TX");
+  await form.getByLabel("To port").fill("MON");
+  await form.getByLabel("Band").fill("2.40 to 2.48 GHz");
+  // an empty limit is refused with a message beside the field, nothing is sent
+  await form.getByRole("button", { name: "Save rule" }).click();
+  await expect(form.getByText("Enter the limit.")).toBeVisible();
+  await form.getByLabel("Least isolation (dB)").fill("15");
+  await form.getByRole("button", { name: "Save rule" }).click();
+  const row = page.getByRole("row").filter({ hasText: "mon-isolation" });
+  await expect(row).toContainText("TX → MON");
+  await expect(row).toContainText("2.4 GHz to 2.48 GHz");
+
+  await page.context().clearCookies();
+  await signIn(page, demoUsers.reviewer.email, demoUsers.reviewer.password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 30_000 });
+  await command(page, "Go to project…");
+  await answer(page, "Project", DEMO_PROJECT);
+  await expect(page).toHaveURL(/\/projects\/[^/]+$/);
+  await command(page, "Go to rules");
+  await expect(page.getByRole("row").filter({ hasText: "mon-isolation" })).toBeVisible();
+  await expect(page.getByRole("button", { name: "New rule" })).toHaveCount(0);
+  await expect(page.getByRole("button", { name: /^Edit rule/ })).toHaveCount(0);
+});
