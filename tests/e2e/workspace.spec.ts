@@ -33,6 +33,8 @@ const origin = (page: Page) => ({ origin: new URL(page.url()).origin });
 
 const block = (page: Page, id: string): Locator => page.locator(`[aria-label^="Block ${id},"]`);
 const handle = (page: Page, ref: string): Locator => page.locator(`[aria-label^="Port ${ref}"]`).first();
+// the add-block list's filter field (its accessible name comes from the dialog's label, "Add block")
+const paletteFilter = (page: Page): Locator => page.locator('input[aria-label="Filter block kinds and parts"]');
 const saveState = (page: Page): Locator => page.getByRole("status", { name: /^Save state:/ });
 
 /** Drag with the mouse in small steps, as a person would (React Flow needs the intermediate moves). */
@@ -130,7 +132,7 @@ test("an engineer builds a system with mouse and keyboard, places an uploaded pa
   await page.getByRole("region", { name: "Results" }).click({ position: { x: 5, y: 5 } });
   await page.keyboard.press("Escape");
   await page.keyboard.press("a");
-  await page.getByRole("combobox", { name: "Filter block kinds and parts" }).fill("attenuator");
+  await paletteFilter(page).fill("attenuator");
   await page.keyboard.press("Enter");
   await expect(block(page, "PAD2")).toBeVisible();
 
@@ -141,7 +143,7 @@ test("an engineer builds a system with mouse and keyboard, places an uploaded pa
   // keyboard: place the part from the add-block list, link it through the inspector's port list
   await page.getByRole("region", { name: "Results" }).click({ position: { x: 5, y: 5 } });
   await page.keyboard.press("a");
-  await page.getByRole("combobox", { name: "Filter block kinds and parts" }).fill("E2E cable");
+  await paletteFilter(page).fill("E2E cable");
   await page.keyboard.press("Enter");
   const partBlock = page.locator('[aria-label^="Block E2E_CABLE"]');
   await expect(partBlock).toBeVisible();
@@ -212,7 +214,7 @@ test("a conflicting save from a second session is shown without losing the first
 
   // the first session, still on revision 1, adds its own block
   await first.getByRole("button", { name: /^Add block/ }).click();
-  await first.getByRole("option", { name: /^Antenna/ }).click();
+  await first.getByRole("option", { name: /^Antenna One-port/ }).click();
   await expect(block(first, "ANT1")).toBeVisible();
   await expect(saveState(first)).toHaveText("Conflict: changed elsewhere", { timeout: 15_000 });
   await expect(first.getByRole("alert").filter({ hasText: "This scenario changed elsewhere" })).toBeVisible();
