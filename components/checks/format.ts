@@ -3,12 +3,16 @@ import { formatFrequency } from "@/lib/client/format";
 /** dB figures with a sign on margins, a true minus, and a dash for missing values. */
 export function fmt(value: number | null | undefined, decimals = 2): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  return value.toFixed(decimals).replace("-", "−");
+  const text = value.toFixed(decimals);
+  // a value that rounds to zero is shown without a sign ("−0.00" reads as a loss)
+  return Number(text) === 0 ? (0).toFixed(decimals) : text.replace("-", "−");
 }
 
 export function fmtMargin(value: number | null | undefined, decimals = 2): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  return `${value >= 0 ? "+" : "−"}${Math.abs(value).toFixed(decimals)}`;
+  const size = Math.abs(value).toFixed(decimals);
+  if (Number(size) === 0) return size;
+  return `${value >= 0 ? "+" : "−"}${size}`;
 }
 
 export function fmtHz(value: number | null | undefined): string {
