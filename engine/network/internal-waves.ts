@@ -35,24 +35,10 @@ export function internalWaves(sol: Solution, incident: Float64Array, out?: Inter
   if (out && (out.a.length !== len || out.b.length !== len || out.a === out.b)) throw new EngineInputError("out", `expected two distinct arrays of ${len} numbers`);
   const a = out ? out.a : new Float64Array(len);
   const b = out ? out.b : new Float64Array(len);
-  const stride = 2 * nf;
   const rows = state.kind === "growth" ? state.entry.plan.totalPorts : P;
   let partner: Int32Array;
   if (state.kind === "growth") {
     partner = state.entry.plan.partner;
-  } else {
-    partner = new Int32Array(P).fill(-1);
-    for (const [p, q] of sys.links) {
-      partner[p] = q;
-      partner[q] = p;
-    }
-  }
-  // port-major rows: incident waves of every port, then S·a of the unlinked and system ports
-  let open = 0;
-  for (let p = 0; p < P; p++) if (partner[p] < 0) open++;
-  const w = workOf(stride * (rows + open));
-  const aw = w.subarray(0, stride * rows);
-  if (state.kind === "growth") {
     if (state.generation >= 0 && state.generation !== state.entry.generation) {
       // a later solve of the same system reused the shared map buffer: rebuild this solution's own maps
       const maps = new Float64Array(state.entry.mapTotal);
@@ -60,107 +46,115 @@ export function internalWaves(sol: Solution, incident: Float64Array, out?: Inter
       state.maps = maps;
       state.generation = -1;
     }
-    fillGrowth(aw, state, incident, nf, E);
   } else {
-    const af = new Float64Array(len);
-    fillDense(af, state, incident, nf, E, P, sol);
-    toPortMajor(aw, af, nf, P);
+    partner = new Int32Array(P).fill(-1);
+    for (const [p, q] of sys.links) {
+      partner[p] = q;
+      partner[q] = p;
+    }
+    if (out) a.fill(0);
+    fillDense(a, state, incident, nf, E, P, sol);
   }
-  const bAt = fillOutgoing(w, stride * rows, partner, state.blockS, sys.blockOffset, nf, P);
-  toFrequencyMajor(a, w, null, nf, P);
-  toFrequencyMajor(b, w, bAt, nf, P);
+  // Frequencies are independent, so everything runs over one tile of frequencies at a time in a
+  // port-major work area ([p][k] within the tile: the innermost loops run over frequencies): the rows
+  // of a, then rows of b for the unlinked and system ports (S·a); a linked port's b is its partner's a.
+  const tStride = 2 * TILE;
+  const at = new Int32Array(P);
+  let next = rows * tStride;
+  for (let p = 0; p < P; p++) {
+    if (partner[p] >= 0) at[p] = partner[p] * tStride;
+    else {
+      at[p] = next;
+      next += tStride;
+    }
+  }
+  const w = workOf(next);
+  for (let f0 = 0; f0 < nf; f0 += TILE) {
+    const nft = Math.min(TILE, nf - f0);
+    if (state.kind === "growth") {
+      fillGrowth(w, tStride, state, incident, E, f0, nft);
+      toFrequencyMajor(a, w, null, tStride, f0, nft, P);
+    } else {
+      toPortMajor(w, tStride, a, f0, nft, P);
+    }
+    fillOutgoing(w, tStride, at, partner, state.blockS, sys.blockOffset, f0, nft);
+    toFrequencyMajor(b, w, at, tStride, f0, nft, P);
+  }
   return { a, b };
 }
 
-/** Frequencies per tile of the transposes: a tile of the frequency-major array stays in cache. */
+/** Frequencies per tile: the tile's work area and map entries stay in cache through every stage. */
 const TILE = 32;
 
-/** out[k][p] = rows[p][k] (row p of src at `at[p]` when given, else at p·2nf), tiled over frequencies. */
-function toFrequencyMajor(out: Float64Array, src: Float64Array, at: Int32Array | null, nf: number, P: number): void {
-  const stride = 2 * nf;
-  for (let f0 = 0; f0 < nf; f0 += TILE) {
-    const f1 = Math.min(nf, f0 + TILE);
-    for (let p = 0; p < P; p++) {
-      const ro = at ? at[p] : p * stride;
-      for (let f = f0; f < f1; f++) {
-        out[2 * (f * P + p)] = src[ro + 2 * f];
-        out[2 * (f * P + p) + 1] = src[ro + 2 * f + 1];
-      }
+/** out[f0 + k][p] = row p of the tile (at `at[p]` when given, else at p·tStride), k < nft. */
+function toFrequencyMajor(out: Float64Array, w: Float64Array, at: Int32Array | null, tStride: number, f0: number, nft: number, P: number): void {
+  for (let p = 0; p < P; p++) {
+    const ro = at ? at[p] : p * tStride;
+    for (let f = 0; f < nft; f++) {
+      out[2 * ((f0 + f) * P + p)] = w[ro + 2 * f];
+      out[2 * ((f0 + f) * P + p) + 1] = w[ro + 2 * f + 1];
     }
   }
 }
 
-/** rows[p][k] = src[k][p], tiled over frequencies. */
-function toPortMajor(rows: Float64Array, src: Float64Array, nf: number, P: number): void {
-  const stride = 2 * nf;
-  for (let f0 = 0; f0 < nf; f0 += TILE) {
-    const f1 = Math.min(nf, f0 + TILE);
-    for (let p = 0; p < P; p++) {
-      const ro = p * stride;
-      for (let f = f0; f < f1; f++) {
-        rows[ro + 2 * f] = src[2 * (f * P + p)];
-        rows[ro + 2 * f + 1] = src[2 * (f * P + p) + 1];
-      }
+/** Row p of the tile = src[f0 + k][p], k < nft. */
+function toPortMajor(w: Float64Array, tStride: number, src: Float64Array, f0: number, nft: number, P: number): void {
+  for (let p = 0; p < P; p++) {
+    const ro = p * tStride;
+    for (let f = 0; f < nft; f++) {
+      w[ro + 2 * f] = src[2 * ((f0 + f) * P + p)];
+      w[ro + 2 * f + 1] = src[2 * ((f0 + f) * P + p) + 1];
     }
   }
 }
 
-// Port-major work areas ([p][k], interleaved): the substitution then runs its innermost loop over
-// frequencies, which keeps the loops long and simple. Reused between calls (calls never nest).
+// The work area, reused between calls (calls never nest).
 let work = new Float64Array(0);
 function workOf(length: number): Float64Array {
   if (work.length < length) work = new Float64Array(length);
   return work;
 }
 
-function fillGrowth(aw: Float64Array, st: GrowthWaveState, incident: Float64Array, nf: number, E: number): void {
+/** Incident waves of every port (rows of the tile) by substituting back through the stored wave maps. */
+function fillGrowth(w: Float64Array, tStride: number, st: GrowthWaveState, incident: Float64Array, E: number, f0: number, nft: number): void {
   const plan = st.entry.plan;
   const mapOffset = st.entry.mapOffset;
-  const stride = 2 * nf; // one port's row in the work area
-  aw.fill(0);
+  w.fill(0, 0, plan.totalPorts * tStride);
   for (let m = 0; m < E; m++) {
-    const row = plan.outer[m] * stride;
-    for (let f = 0; f < nf; f++) {
-      aw[row + 2 * f] = incident[2 * (f * E + m)];
-      aw[row + 2 * f + 1] = incident[2 * (f * E + m) + 1];
+    const row = plan.outer[m] * tStride;
+    for (let f = 0; f < nft; f++) {
+      w[row + 2 * f] = incident[2 * ((f0 + f) * E + m)];
+      w[row + 2 * f + 1] = incident[2 * ((f0 + f) * E + m) + 1];
     }
   }
   const map = st.maps;
   const steps = plan.steps;
-  // frequencies are independent: run every step over one tile of frequencies at a time, so that the
-  // tile's rows and map entries stay in cache while the steps walk back through them
-  for (let f0 = 0; f0 < nf; f0 += SUBST_TILE) {
-    const lo = 2 * f0;
-    const hi = 2 * Math.min(nf, f0 + SUBST_TILE);
-    for (let s = steps.length - 1; s >= 0; s--) {
-      const step = steps[s];
-      const inner = step.inner;
-      const ports = step.ports;
-      const nC = ports.length;
-      const R = inner.length;
-      const fStride = 2 * R * nC; // one frequency's map
-      const base = mapOffset[s] + f0 * fStride;
-      for (let r = 0; r < R; r++) {
-        const dst = inner[r] * stride;
-        for (let j = 0; j < nC; j++) {
-          const src = ports[j] * stride;
-          let mo = base + 2 * (r * nC + j);
-          for (let f = lo; f < hi; f += 2, mo += fStride) {
-            const mr = map[mo];
-            const mi = map[mo + 1];
-            const xr = aw[src + f];
-            const xi = aw[src + f + 1];
-            aw[dst + f] += mr * xr - mi * xi;
-            aw[dst + f + 1] += mr * xi + mi * xr;
-          }
+  const hi = 2 * nft;
+  for (let s = steps.length - 1; s >= 0; s--) {
+    const step = steps[s];
+    const inner = step.inner;
+    const ports = step.ports;
+    const nC = ports.length;
+    const R = inner.length;
+    const fStride = 2 * R * nC; // one frequency's map
+    const base = mapOffset[s] + f0 * fStride;
+    for (let r = 0; r < R; r++) {
+      const dst = inner[r] * tStride;
+      for (let j = 0; j < nC; j++) {
+        const src = ports[j] * tStride;
+        let mo = base + 2 * (r * nC + j);
+        for (let f = 0; f < hi; f += 2, mo += fStride) {
+          const mr = map[mo];
+          const mi = map[mo + 1];
+          const xr = w[src + f];
+          const xi = w[src + f + 1];
+          w[dst + f] += mr * xr - mi * xi;
+          w[dst + f + 1] += mr * xi + mi * xr;
         }
       }
     }
   }
 }
-
-/** Frequencies per tile of the back-substitution. */
-const SUBST_TILE = 64;
 
 function fillDense(a: Float64Array, st: DenseWaveState, incident: Float64Array, nf: number, E: number, P: number, sol: Solution): void {
   const ni = st.inner.length;
@@ -203,15 +197,9 @@ function fillDense(a: Float64Array, st: DenseWaveState, incident: Float64Array, 
   }
 }
 
-/**
- * b at every block port as port-major rows of the work area `w` (whose first rows are a): the partner's a
- * on a link (what enters one end leaves the other), else S·a, written to new rows from `bStart` on.
- * Returns where each port's b row starts in `w`.
- */
-function fillOutgoing(w: Float64Array, bStart: number, partner: Int32Array, blockS: SData[], offsets: number[], nf: number, P: number): Int32Array {
-  const stride = 2 * nf;
-  const at = new Int32Array(P);
-  let next = bStart;
+/** b rows of the tile for the unlinked and system ports: S·a of their block (rows at `at[p]`). */
+function fillOutgoing(w: Float64Array, tStride: number, at: Int32Array, partner: Int32Array, blockS: SData[], offsets: number[], f0: number, nft: number): void {
+  const hi = 2 * nft;
   for (let i = 0; i < blockS.length; i++) {
     const s = blockS[i];
     const n = s.n;
@@ -220,19 +208,13 @@ function fillOutgoing(w: Float64Array, bStart: number, partner: Int32Array, bloc
     const fStride = 2 * n * n;
     for (let r = 0; r < n; r++) {
       const p = off + r;
-      const q = partner[p];
-      if (q >= 0) {
-        at[p] = q * stride;
-        continue;
-      }
-      const ro = next;
-      next += stride;
-      at[p] = ro;
-      w.fill(0, ro, ro + stride);
+      if (partner[p] >= 0) continue;
+      const ro = at[p];
+      w.fill(0, ro, ro + hi);
       for (let c = 0; c < n; c++) {
-        const src = (off + c) * stride;
-        let so = 2 * (r * n + c);
-        for (let f = 0; f < stride; f += 2, so += fStride) {
+        const src = (off + c) * tStride;
+        let so = f0 * fStride + 2 * (r * n + c);
+        for (let f = 0; f < hi; f += 2, so += fStride) {
           const mr = d[so];
           const mi = d[so + 1];
           const xr = w[src + f];
@@ -243,5 +225,4 @@ function fillOutgoing(w: Float64Array, bStart: number, partner: Int32Array, bloc
       }
     }
   }
-  return at;
 }

@@ -27,8 +27,8 @@ export async function benchRows(): Promise<BenchRow[]> {
     ms: sweepMs,
     cpuMs: sweepT.cpuMedian,
     target: "≤ 2 s",
-    limitMs: 2000,
     pass: sweepMs <= 2000,
+    passCpu: sweepT.cpuMedian <= 2000,
     note: `${sweep.passing} combinations pass, ${sweep.failing} fail`,
   });
 
@@ -44,8 +44,8 @@ export async function benchRows(): Promise<BenchRow[]> {
     ms: traceMs,
     cpuMs: traceT.cpuMedian,
     target: "≤ 300 ms",
-    limitMs: 300,
     pass: traceMs <= 300,
+    passCpu: traceT.cpuMedian <= 300,
   });
   return rows;
 }

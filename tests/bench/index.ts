@@ -126,6 +126,7 @@ async function main(): Promise<void> {
     ms: feComposite.median,
     cpuMs: feComposite.cpuMedian,
     numpyMs: feNumpy?.medianMs,
+    numpyCpuMs: feNumpy?.cpuMedianMs,
   });
   rows.push({
     name: `front end: composite + internal waves (${excitations.length} excitations)`,
@@ -133,19 +134,22 @@ async function main(): Promise<void> {
     ms: feWaves.median,
     cpuMs: feWaves.cpuMedian,
     numpyMs: feNumpy?.medianMs,
+    numpyCpuMs: feNumpy?.cpuMedianMs,
     target: "≤ 30 ms and faster than numpy",
-    limitMs: 30,
     pass: feWaves.median <= 30 && (feNumpy === undefined || feWaves.median < feNumpy.medianMs),
+    passCpu: feWaves.cpuMedian <= 30 && (feNumpy === undefined || feWaves.cpuMedian < feNumpy.cpuMedianMs),
   });
 
   // (b) chains
   const chainMs: Record<number, number> = {};
+  const chainCpu: Record<number, number> = {};
   for (const n of [10, 100, 1000]) {
     progress(`chain of ${n}`);
     const sys = prepareSystem(chain(n));
     const sol = solveSystem(sys);
     const t = timeMedian(() => solveSystem(sys), RUNS, WARMUP);
     chainMs[n] = t.median;
+    chainCpu[n] = t.cpuMedian;
     const np = numpyFor(sys, sol, `chain of ${n}`);
     rows.push({
       name: `chain of ${n} two-ports: composite`,
@@ -153,8 +157,13 @@ async function main(): Promise<void> {
       ms: t.median,
       cpuMs: t.cpuMedian,
       numpyMs: np?.medianMs,
+      numpyCpuMs: np?.cpuMedianMs,
       ...(n === 1000
-        ? { target: `≤ 12 × chain of 100 (${(12 * chainMs[100]).toFixed(1)} ms)`, pass: chainMs[1000] <= 12 * chainMs[100] }
+        ? {
+            target: `≤ 12 × chain of 100 (wall ${(12 * chainMs[100]).toFixed(1)} ms, cpu ${(12 * chainCpu[100]).toFixed(1)} ms)`,
+            pass: chainMs[1000] <= 12 * chainMs[100],
+            passCpu: chainCpu[1000] <= 12 * chainCpu[100],
+          }
         : {}),
     });
   }
@@ -173,9 +182,10 @@ async function main(): Promise<void> {
     ms: arrT.median,
     cpuMs: arrT.cpuMedian,
     numpyMs: arrNumpy?.medianMs,
+    numpyCpuMs: arrNumpy?.cpuMedianMs,
     target: "≤ 1 s and ≥ 10× faster than numpy",
-    limitMs: 1000,
     pass: arrT.median <= 1000 && (arrNumpy === undefined || arrNumpy.medianMs >= 10 * arrT.median),
+    passCpu: arrT.cpuMedian <= 1000 && (arrNumpy === undefined || arrNumpy.cpuMedianMs >= 10 * arrT.cpuMedian),
   });
 
   rows.push(...(await extraRows()));
@@ -191,14 +201,16 @@ async function main(): Promise<void> {
   console.log("  composite + internal waves  one solveSystem, then internalWaves for a unit wave at each system port in turn (fresh arrays per call)");
   console.log("  state sweep / leak trace    stateSweep / leakTrace on an already-prepared system (and solution), see notes");
   console.log("  Portolan ms                 median wall time; cpu ms: median CPU time of this process over the same runs (includes V8's GC threads)");
+  console.log("  target / result             wall times decide PASS; see the legend below the table for PASS (cpu)");
   console.log("  numpy ms                    the dense solve inside Python (assemble Γ − S_ii and friends, batched solve, products); not start-up or file");
   console.log("                              reading. (Γ − S_ii)⁻¹ S_ie holds every excitation's internal waves, so it stands against both front-end rows");
   console.log("");
   console.log(formatTable(rows));
   console.log("");
-  const loaded = rows.filter((r) => r.pass === false && r.limitMs !== undefined && r.cpuMs !== undefined && r.cpuMs <= r.limitMs);
-  for (const r of loaded) {
-    console.log(`${r.name}: MISS on wall time (${r.ms.toFixed(1)} ms) but its CPU time (${r.cpuMs?.toFixed(1)} ms) is within ${r.limitMs} ms: the machine was busy; rerun at a quiet moment`);
+  console.log("result: PASS = met on wall times; PASS (cpu) = missed on wall times but met on CPU times (Portolan's and numpy's), i.e. the");
+  console.log("machine was busy: CPU time of this single-threaded work bounds its wall time on an idle machine from above; MISS = missed on both");
+  for (const r of rows) {
+    if (r.numpyCpuMs !== undefined) console.log(`${r.name}: numpy CPU time ${r.numpyCpuMs.toFixed(2)} ms (ratio on CPU times ${(r.numpyCpuMs / (r.cpuMs ?? r.ms)).toFixed(1)}×)`);
   }
   for (const r of rows) if (r.note) console.log(`${r.name}: ${r.note}`);
   if (!withNumpy) console.log("numpy: /usr/bin/python3 with numpy not found, dense comparison skipped");

@@ -15,6 +15,8 @@ const SCRIPT = fileURLToPath(new URL("./dense_numpy.py", import.meta.url));
 
 export type NumpyTiming = {
   medianMs: number;
+  /** median CPU time of the Python process over the same runs (one BLAS thread), ms */
+  cpuMedianMs: number;
   runsMs: number[];
   /** composite from numpy, [f][i][j][re, im] */
   s: number[][][][];
@@ -75,6 +77,7 @@ export function timeNumpyDense(sys: PreparedSystem, runs = 7, budgetSeconds = 30
     if (run.status !== 0) throw new Error(`dense_numpy.py failed: ${run.stderr}`);
     const out = JSON.parse(run.stdout) as {
       median_ms: number;
+      median_cpu_ms: number;
       runs_ms: number[];
       s: number[][][][];
       numpy: string;
@@ -83,7 +86,7 @@ export function timeNumpyDense(sys: PreparedSystem, runs = 7, budgetSeconds = 30
       interior: number;
       warmup: boolean;
     };
-    return { medianMs: out.median_ms, runsMs: out.runs_ms, s: out.s, numpy: out.numpy, blas: out.blas, threads: out.threads, interior: out.interior, warmup: out.warmup };
+    return { medianMs: out.median_ms, cpuMedianMs: out.median_cpu_ms, runsMs: out.runs_ms, s: out.s, numpy: out.numpy, blas: out.blas, threads: out.threads, interior: out.interior, warmup: out.warmup };
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
