@@ -14,6 +14,9 @@ test.describe.configure({ timeout: 240_000 });
 // The workspace is a heavy client page and the machine is shared: wait longer than the default for it.
 const expect = baseExpect.configure({ timeout: 40_000 });
 
+// wide enough for the chart, inspector and results side by side, tall enough to hold them
+test.use({ viewport: { width: 1600, height: 1100 } });
+
 async function demoProjectId(page: Page): Promise<string> {
   const response = await page.request.get("/api/projects");
   expect(response.status()).toBe(200);
@@ -35,6 +38,12 @@ const block = (page: Page, id: string): Locator => page.locator(`[aria-label^="B
 const handle = (page: Page, ref: string): Locator => page.locator(`[aria-label^="Port ${ref}"]`).first();
 // the add-block list's filter field (its accessible name comes from the dialog's label, "Add block")
 const paletteFilter = (page: Page): Locator => page.locator('input[aria-label="Filter block kinds and parts"]');
+const chart = (page: Page): Locator => page.locator('[aria-label="Chart"]');
+/** Put the focus back on the chart (an empty corner of it) so that single-key commands reach the workspace. */
+async function focusChart(page: Page): Promise<void> {
+  await chart(page).scrollIntoViewIfNeeded();
+  await chart(page).click({ position: { x: 12, y: 12 } });
+}
 const saveState = (page: Page): Locator => page.getByRole("status", { name: /^Save state:/ });
 
 /** Drag with the mouse in small steps, as a person would (React Flow needs the intermediate moves). */
@@ -125,23 +134,24 @@ test("an engineer builds a system with mouse and keyboard, places an uploaded pa
   await page.getByRole("button", { name: /^Add block/ }).click();
   await page.getByRole("option", { name: /^Attenuator/ }).click();
   await expect(block(page, "PAD1")).toBeVisible();
+  await chart(page).scrollIntoViewIfNeeded();
   const pad1 = await centreOf(block(page, "PAD1"));
   await drag(page, block(page, "PAD1"), { x: pad1.x - 260, y: pad1.y });
 
   // keyboard: A opens the add-block list, type to filter, Enter adds
-  await page.getByRole("region", { name: "Results" }).click({ position: { x: 5, y: 5 } });
-  await page.keyboard.press("Escape");
+  await focusChart(page);
   await page.keyboard.press("a");
   await paletteFilter(page).fill("attenuator");
   await page.keyboard.press("Enter");
   await expect(block(page, "PAD2")).toBeVisible();
 
   // mouse: drag a link from PAD1 port 2 to PAD2 port 1
+  await chart(page).scrollIntoViewIfNeeded();
   await drag(page, handle(page, "PAD1:2"), await centreOf(handle(page, "PAD2:1")));
   await expect(page.locator('[aria-label^="Link PAD1:2 to PAD2:1"], [aria-label^="Link PAD2:1 to PAD1:2"]')).toHaveCount(1);
 
   // keyboard: place the part from the add-block list, link it through the inspector's port list
-  await page.getByRole("region", { name: "Results" }).click({ position: { x: 5, y: 5 } });
+  await focusChart(page);
   await page.keyboard.press("a");
   await paletteFilter(page).fill("E2E cable");
   await page.keyboard.press("Enter");
