@@ -34,6 +34,16 @@ export type ScenarioChecksProps = {
   onHighlight: (highlight: ChartHighlight | null) => void;
 };
 
+/** Download a file the server names (content-disposition), as a link with `download` would. */
+function download(href: string): void {
+  const a = document.createElement("a");
+  a.href = href;
+  a.download = "";
+  document.body.appendChild(a);
+  a.click();
+  a.remove();
+}
+
 async function postJson<T>(url: string, body: unknown): Promise<T> {
   const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json", accept: "application/json" }, body: JSON.stringify(body), credentials: "same-origin" });
   const json = await res.json().catch(() => null);
@@ -57,8 +67,6 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
   const [pathRank, setPathRank] = useState<number | null>(null);
   const [leak, setLeak] = useState<LeakTraceResult | null>(null);
   const box = useRef<HTMLDivElement>(null);
-  const latest = useRef(scenario);
-  latest.current = scenario;
 
   useEffect(() => {
     const path = leak && pathRank !== null ? leak.paths.find((p) => p.rank === pathRank) : null;
@@ -125,13 +133,13 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
     parts,
     addBlock: (kind: BlockKind, part?: PartSummary) => {
       if (readOnly) return;
-      const blocks = latest.current.blocks;
+      const blocks = scenario.blocks;
       const right = blocks.reduce((x, b) => Math.max(x, (b.position?.x ?? 0) + CARD_WIDTH + 80), 0);
-      const r = addBlock(latest.current, kind, { x: right, y: 0 }, part);
+      const r = addBlock(scenario, kind, { x: right, y: 0 }, part);
       edit({ ok: true, scenario: r.scenario }, `Added ${r.id}.`);
     },
-    markSystemPort: (at: PortRef, name: string) => edit(setSystemPort(latest.current, at, { name }, parts), `${at} is now system port ${name}.`),
-    setSwitchState: (id: string, state: number) => edit(setSwitchState(latest.current, id, state), `${id} set to throw ${state}.`),
+    markSystemPort: (at: PortRef, name: string) => edit(setSystemPort(scenario, at, { name }, parts), `${at} is now system port ${name}.`),
+    setSwitchState: (id: string, state: number) => edit(setSwitchState(scenario, id, state), `${id} set to throw ${state}.`),
     saveRevision: () => {
       saveNow();
       setNotice("Saving…");
@@ -144,12 +152,8 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
         setNotice(e instanceof Error ? e.message : String(e));
       }
     },
-    downloadTouchstone: () => {
-      window.location.href = `/api/projects/${projectId}/scenarios/${scenarioId}/solve?format=touchstone&revision=${encodeURIComponent(revisionId)}`;
-    },
-    exportBundle: () => {
-      window.location.href = `/api/projects/${projectId}/scenarios/${scenarioId}/bundle?revisionId=${encodeURIComponent(revisionId)}`;
-    },
+    downloadTouchstone: () => download(`/api/projects/${projectId}/scenarios/${scenarioId}/solve?format=touchstone&revision=${encodeURIComponent(revisionId)}`),
+    exportBundle: () => download(`/api/projects/${projectId}/scenarios/${scenarioId}/bundle?revisionId=${encodeURIComponent(revisionId)}`),
     runCheck,
   });
 

@@ -50,24 +50,28 @@ export function Helm() {
   const { data: partsData } = useSWR<{ parts: { id: string; name: string; fileName: string }[] }>(open && projectId ? `/api/projects/${projectId}/parts` : null, fetcher);
   const { data: rulesData } = useSWR<{ rules: { spec: RuleSpec }[] }>(open && projectId ? `/api/projects/${projectId}/rules` : null, fetcher);
 
+  /** Open or close, starting afresh each time (no half-answered command survives a close). */
+  const changeOpen = useCallback(
+    (next: boolean) => {
+      setPending(null);
+      setSearch("");
+      setError(null);
+      if (next) setRecent(readRecent());
+      setOpen(next);
+    },
+    [setOpen],
+  );
+
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
       if ((e.ctrlKey || e.metaKey) && !e.altKey && e.key.toLowerCase() === "k") {
         e.preventDefault();
-        setOpen(!open);
+        changeOpen(!open);
       }
     };
     window.addEventListener("keydown", onKey);
     return () => window.removeEventListener("keydown", onKey);
-  }, [open, setOpen]);
-
-  useEffect(() => {
-    if (!open) {
-      setPending(null);
-      setSearch("");
-      setError(null);
-    } else setRecent(readRecent());
-  }, [open]);
+  }, [open, changeOpen]);
 
   const projects = useMemo(() => projectsData?.projects ?? [], [projectsData]);
   const role = page?.role ?? projects.find((p) => p.id === projectId)?.role ?? null;
@@ -91,10 +95,10 @@ export function Helm() {
   const finish = useCallback(
     (command: HelmCommand, values: Record<string, unknown>) => {
       setRecent(rememberRecent(command.id));
-      setOpen(false);
+      changeOpen(false);
       void Promise.resolve(command.run(values)).catch(() => undefined);
     },
-    [setOpen],
+    [changeOpen],
   );
 
   const advance = useCallback(
@@ -156,7 +160,7 @@ export function Helm() {
     <>
       <button
         type="button"
-        onClick={() => setOpen(true)}
+        onClick={() => changeOpen(true)}
         aria-label="Open the helm"
         aria-keyshortcuts="Control+K Meta+K"
         className="fixed right-4 bottom-4 z-30 inline-flex items-center gap-2 rounded-full border-[1.5px] border-ink bg-surface px-3 py-1.5 text-sm text-ink shadow-[2px_2px_0_0_var(--pt-rule)] hover:bg-sunken focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-focus"
@@ -169,7 +173,7 @@ export function Helm() {
       </button>
       <Command.Dialog
         open={open}
-        onOpenChange={setOpen}
+        onOpenChange={changeOpen}
         label="Helm"
         shouldFilter={step?.kind !== "text"}
         loop

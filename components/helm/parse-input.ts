@@ -20,7 +20,8 @@ export function parseFrequency(text: string): Parsed<number> {
 export function parseBand(text: string): Parsed<[number, number]> {
   const parts = text.split(/\s*(?:–|—|\bto\b|\.\.|,|\s-\s)\s*/).filter((p) => p.trim() !== "");
   if (parts.length !== 2) return { ok: false, error: "Give two frequencies, e.g. 2.4 GHz to 2.48 GHz." };
-  let [lo, hi] = parts;
+  const hi = parts[1];
+  let lo = parts[0];
   const unit = hi.match(UNIT_TAIL)?.[1];
   if (unit && !UNIT_TAIL.test(lo)) lo = `${lo} ${unit}`;
   const a = parseFrequency(lo);

@@ -2,7 +2,7 @@
 
 import { useState } from "react";
 import useSWR from "swr";
-import { useForm } from "react-hook-form";
+import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { RuleSpec } from "@/engine/types";
 import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components/ui";
@@ -131,10 +131,10 @@ function RuleFormPanel({
   onSubmit: (spec: RuleSpec) => Promise<{ ok: true } | { ok: false; message: string; fields?: Record<string, string> }>;
 }) {
   const form = useForm<RuleFormValues>({ resolver: zodResolver(ruleFormSchema), defaultValues: initial, mode: "onSubmit" });
-  const { register, handleSubmit, watch, formState, setError } = form;
+  const { register, handleSubmit, control, formState, setError } = form;
   const [serverError, setServerError] = useState<string | null>(null);
-  const kind = watch("kind");
-  const matchBy = watch("matchBy");
+  const kind = useWatch({ control, name: "kind" });
+  const matchBy = useWatch({ control, name: "matchBy" });
   const err = (k: keyof RuleFormValues) => formState.errors[k]?.message;
 
   const submit = handleSubmit(async (values) => {
