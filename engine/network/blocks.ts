@@ -28,9 +28,22 @@ export function resolveBlockS(sys: PreparedSystem, replace?: Record<string, SDat
       throw new EngineInputError(`blocks.${blk.id}`, `S has shape ${s.n} ports × ${s.nf} frequencies (data length ${s.data.length}); expected ${expectedN} × ${nf}`);
     }
     const d = s.data;
-    let probe = 0;
-    for (let j = 0; j < d.length; j++) probe += d[j] * 0; // NaN as soon as one value is ±Infinity or NaN
-    if (probe !== 0) {
+    // x·0 is NaN as soon as x is ±Infinity or NaN; four independent sums keep the loop from waiting on
+    // the latency of one long chain of additions
+    let p0 = 0;
+    let p1 = 0;
+    let p2 = 0;
+    let p3 = 0;
+    const whole = d.length - (d.length % 4);
+    let j = 0;
+    for (; j < whole; j += 4) {
+      p0 += d[j] * 0;
+      p1 += d[j + 1] * 0;
+      p2 += d[j + 2] * 0;
+      p3 += d[j + 3] * 0;
+    }
+    for (; j < d.length; j++) p0 += d[j] * 0;
+    if (p0 + p1 + p2 + p3 !== 0) {
       const j = d.findIndex((v) => !Number.isFinite(v));
       throw new EngineInputError(`blocks.${blk.id}`, `S holds a non-finite value at frequency index ${Math.floor(j / (2 * s.n * s.n))}`);
     }

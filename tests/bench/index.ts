@@ -1,6 +1,7 @@
 /**
  * `npm run bench`: timings of the interconnection on reference systems, beside the same interconnection
- * solved densely by numpy (when /usr/bin/python3 has numpy). Medians of 7 warm runs (after untimed
+ * solved densely by numpy (when /usr/bin/python3 has numpy). Medians of 7 warm runs (more, up to 42, for
+ * cases shorter than about 60 ms, after untimed
  * warm-up runs), wall time and this process's CPU time; the verdict is taken on wall time. Not part of
  * `npm test`.
  *
@@ -33,6 +34,8 @@ import { formatTable, timeMedian, type BenchRow } from "./timing";
 const RUNS = 7;
 /** Untimed runs before the timed ones (JIT compilation, plan building, first-touch of buffers). */
 const WARMUP = 3;
+/** Short cases repeat until about this much timed work (at most 6 × RUNS runs). */
+const MIN_TOTAL_MS = 400;
 /** Seconds numpy may spend repeating one case (the slow dense cases run fewer times). */
 const NUMPY_BUDGET_S = 20;
 /** Largest dense interior (2 × links) handed to numpy: the chain of 1000 (1998) would take hours at 1001 points. */
@@ -112,12 +115,12 @@ async function main(): Promise<void> {
   const prep = timeMedian(() => prepareSystem(referenceFrontEnd()), RUNS, 1);
   const fe = prepareSystem(referenceFrontEnd());
   const feSol = solveSystem(fe);
-  const feComposite = timeMedian(() => solveSystem(fe), RUNS, WARMUP);
+  const feComposite = timeMedian(() => solveSystem(fe), RUNS, WARMUP, MIN_TOTAL_MS);
   const excitations = unitExcitations(fe);
   const feWaves = timeMedian(() => {
     const sol = solveSystem(fe);
     for (const inc of excitations) internalWaves(sol, inc);
-  }, RUNS, WARMUP);
+  }, RUNS, WARMUP, MIN_TOTAL_MS);
   const feNumpy = numpyFor(fe, feSol, "front end");
   rows.push({ name: "front end: prepare (evaluate every block model)", size: describeSize(fe), ms: prep.median, cpuMs: prep.cpuMedian });
   rows.push({
@@ -147,7 +150,7 @@ async function main(): Promise<void> {
     progress(`chain of ${n}`);
     const sys = prepareSystem(chain(n));
     const sol = solveSystem(sys);
-    const t = timeMedian(() => solveSystem(sys), RUNS, WARMUP);
+    const t = timeMedian(() => solveSystem(sys), RUNS, WARMUP, MIN_TOTAL_MS);
     chainMs[n] = t.median;
     chainCpu[n] = t.cpuMedian;
     const np = numpyFor(sys, sol, `chain of ${n}`);
@@ -192,7 +195,7 @@ async function main(): Promise<void> {
 
   const load1 = loadavg();
   const fmtLoad = (l: number[]) => l.map((x) => x.toFixed(2)).join(", ");
-  console.log(`Portolan benchmark (Node ${process.version}): medians of ${RUNS} warm runs after untimed warm-up runs; verdicts on wall time`);
+  console.log(`Portolan benchmark (Node ${process.version}): medians of ${RUNS} warm runs (more for short cases) after ${WARMUP} untimed warm-up runs; verdicts on wall time`);
   console.log(`load average (1, 5, 15 min) at start ${fmtLoad(load0)}, at end ${fmtLoad(load1)} on ${cpuCount()} cores`);
   console.log("");
   console.log("What each row times:");

@@ -43,12 +43,21 @@ const medianOf = (xs: number[]): number => {
  * @param fn - the work to time
  * @param runs - timed runs (default 7)
  * @param warmup - untimed runs first (default 3)
+ * @param minTotalMs - when the last warm-up run suggests the timed runs would take less than this, run
+ *   more of them (at most 6 × runs)
  * @returns { median, cpuMedian, runs } in ms
  * @example
  * const { median } = timeMedian(() => solveSystem(sys));
  */
-export function timeMedian(fn: () => unknown, runs = 7, warmup = 3): { median: number; cpuMedian: number; runs: number[] } {
-  for (let i = 0; i < warmup; i++) fn();
+export function timeMedian(fn: () => unknown, runs = 7, warmup = 3, minTotalMs = 0): { median: number; cpuMedian: number; runs: number[] } {
+  let last = 0;
+  for (let i = 0; i < warmup; i++) {
+    const t0 = performance.now();
+    fn();
+    last = performance.now() - t0;
+  }
+  // short cases run more often (up to 6× and an odd count), so that their median is as steady as a long case's
+  if (minTotalMs > 0 && last > 0 && runs * last < minTotalMs) runs = Math.min(6 * runs, Math.ceil(minTotalMs / last)) | 1;
   const times: number[] = [];
   const cpu: number[] = [];
   for (let i = 0; i < runs; i++) {
