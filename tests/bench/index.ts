@@ -1,9 +1,8 @@
 /**
  * `npm run bench`: timings of the interconnection on reference systems, beside the same interconnection
- * solved densely by numpy (when /usr/bin/python3 has numpy). Medians of 7 warm runs (more, up to 42, for
- * cases shorter than about 60 ms, after untimed
- * warm-up runs), wall time and this process's CPU time; the verdict is taken on wall time. Not part of
- * `npm test`.
+ * solved densely by numpy (when /usr/bin/python3 has numpy). Medians of 7 warm runs (up to 42 for cases
+ * under about 60 ms) after untimed warm-up runs, wall time and this process's CPU time; the verdict is
+ * taken on wall time, with "PASS (cpu)" when only the CPU times meet the target. Not part of `npm test`.
  *
  * What each row times (printed above the table too):
  * - "prepare": prepareSystem on the scenario (every block model evaluated). No target; shown so that
