@@ -19,8 +19,8 @@
  * The bench runs under tsx's loader (package.json). Measured on this machine (load 5–7): the front end's
  * composite + internal waves took about 2× as long under tsx as the same code bundled by esbuild and run
  * by plain node (56 ms per run under tsx, 27 ms bundled; the profile puts the extra time in the body of
- * internalWaves, where it allocates its fresh output arrays, not in the arithmetic kernels). The product
- * runs a bundled build, so these figures err on the slow side.
+ * internalWaves, not in its arithmetic kernels; no deoptimisation was seen and the cause is not pinned
+ * down). The product runs a bundled build, so these figures err on the slow side.
  *
  * Other areas add rows by putting a module in tests/bench/rows/ that exports
  * `benchRows(): Promise<BenchRow[]> | BenchRow[]` (it may use the builders of ./scenarios and ./timing).
