@@ -110,6 +110,13 @@ describe("running checks", () => {
     expect(onFirst.run.revisionId).toBe(first);
     expect(onFirst.run.revisionNumber).toBe(1);
     expect(onFirst.run.verdict).toBe("pass");
+    // Hand reasoning from the switch model (DESIGN.md block table: an off throw passes 10^(−isolation_db/20)):
+    // TX reaches RX through the T/R switch's off path, so 20 dB less switch isolation is 20 dB less TX→RX
+    // isolation, up to the much weaker paths around it (e.g. via the antenna switch and reflections).
+    const worst1 = (onFirst.run.figures.result as RuleResult).worst;
+    const worst2 = (onLatest.run.figures.result as RuleResult).worst;
+    expect(worst1 - worst2).toBeGreaterThan(19.9);
+    expect(worst1 - worst2).toBeLessThan(20.1);
 
     const list = await history(cookies.reviewer, id);
     expect(list.map((r) => [r.revisionNumber, r.verdict])).toEqual([
