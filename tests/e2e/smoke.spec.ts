@@ -32,7 +32,7 @@ test("landing page shows the wordmark and a way to sign in, fetching nothing fro
   expect(failed, "failed requests").toEqual([]);
 });
 
-test("the interface fonts are served by the app itself and are in use", async ({ page }) => {
+test("the interface fonts are served by the app itself and are in use", async ({ page, baseURL }) => {
   const fontResponses: { url: string; status: number }[] = [];
   page.on("response", (response) => {
     if (/\.woff2(\?|$)/.test(response.url())) fontResponses.push({ url: response.url(), status: response.status() });
@@ -51,7 +51,7 @@ test("the interface fonts are served by the app itself and are in use", async ({
 
   expect(fontResponses.length).toBeGreaterThan(0);
   for (const r of fontResponses) {
-    expect(new URL(r.url).host).toBe("127.0.0.1:3210");
+    expect(new URL(r.url).host).toBe(new URL(baseURL ?? "").host);
     expect(r.status).toBe(200);
   }
   // The heading's first font family is the shipped one, and the browser has loaded a face of it.

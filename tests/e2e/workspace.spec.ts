@@ -36,8 +36,8 @@ const origin = (page: Page) => ({ origin: new URL(page.url()).origin });
 
 const block = (page: Page, id: string): Locator => page.locator(`[aria-label^="Block ${id},"]`);
 const handle = (page: Page, ref: string): Locator => page.locator(`[aria-label^="Port ${ref}"]`).first();
-// the add-block list's filter field (its accessible name comes from the dialog's label, "Add block")
-const paletteFilter = (page: Page): Locator => page.locator('input[aria-label="Filter block kinds and parts"]');
+// the add-block list's filter field, named by the list's label
+const paletteFilter = (page: Page): Locator => page.getByRole("combobox", { name: "Filter block kinds and parts" });
 const chart = (page: Page): Locator => page.locator('[aria-label="Chart"]');
 /** Put the focus back on the chart (an empty corner of it) so that single-key commands reach the workspace. */
 async function focusChart(page: Page): Promise<void> {
