@@ -2,7 +2,7 @@
 // for given source powers, summed incoherently Σ_s|a_s|² and worst-case coherently (Σ_s|a_s|)².
 import { EngineInputError } from "../types";
 import type { RuleSpec, Scenario, Solution } from "../types";
-import { internalWaves } from "../network";
+import { internalWavesMany } from "../network";
 import { bandIndices, formatHz, portIndex } from "./band";
 import { dbmFromWatts, wattsFromDbm } from "./conversions";
 import type { Verdict } from "./types";
@@ -113,12 +113,15 @@ export function driveCheck(solution: Solution, opts: DriveOptions): DriveResult 
   // Per (frequency, block port): Σ|a_s|² and Σ|a_s|.
   const pInc = new Float64Array(nf * np);
   const aSum = new Float64Array(nf * np);
-  for (const src of sources) {
+  // every source's waves from one batched pass over the wave maps
+  const incidents = sources.map((src) => {
     const m = solution.ports.indexOf(src.port);
     const incident = new Float64Array(2 * nf * nsp);
     const amp = Math.sqrt(src.watts);
     for (let k = 0; k < nf; k++) incident[2 * (k * nsp + m)] = amp;
-    const w = internalWaves(solution, incident);
+    return incident;
+  });
+  for (const w of internalWavesMany(solution, incidents)) {
     for (let i = 0; i < nf * np; i++) {
       const m2 = w.a[2 * i] * w.a[2 * i] + w.a[2 * i + 1] * w.a[2 * i + 1];
       pInc[i] += m2;

@@ -4,7 +4,7 @@ export { db20, magnitude, vswrFromGamma, gammaFromVswr, returnLossDb, gammaFromR
 export { bandIndices, nearestIndex, portIndex, formatHz, BAND_EDGE_TOLERANCE } from "./band";
 export { evaluateRule, evaluateRules, ruleName } from "./rules";
 export { portMatrix, portMatrixExtremes, type PortMatrix, type PortMatrixExtremes } from "./port-matrix";
-export { powerLedger, LEDGER_TOLERANCE, LEDGER_FAIL_TOLERANCE, type LedgerResult, type LedgerBlockEntry } from "./power-ledger";
+export { powerLedger, powerLedgers, LEDGER_TOLERANCE, LEDGER_FAIL_TOLERANCE, type LedgerResult, type LedgerBlockEntry } from "./power-ledger";
 export { dataQuality, MODEL_TOLERANCE, MEASURED_TOLERANCE, type DataQualityResult, type QualityFigures } from "./data-quality";
 export { kShortestPaths, createGraph, addEdge, type WeightedGraph, type RankedPath, type KShortestResult } from "./k-shortest-paths";
 export { leakTrace, idealS, LEAK_EDGE_FLOOR, type LeakTraceResult, type LeakTraceOptions, type LeakPath, type LeakHop, type LeakWhatIf } from "./leak-trace";

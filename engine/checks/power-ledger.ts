@@ -1,7 +1,7 @@
 // Power ledger: where the power entering one system port goes, from the internal power waves
 // (Kurokawa 1965): a block absorbs Σ_ports(|a|² − |b|²); closure = Σ entries − 1.
-import type { Solution } from "../types";
-import { internalWaves } from "../network";
+import type { InternalWaves, Solution } from "../types";
+import { internalWaves, internalWavesMany } from "../network";
 import { bandIndices, formatHz, portIndex } from "./band";
 import type { Verdict } from "./types";
 
@@ -53,15 +53,43 @@ export type LedgerResult = {
  * @example powerLedger(sol, "TX").blocks.find((b) => b.block === "PAD")?.fraction[0] // 0.75 for a matched 6 dB pad
  */
 export function powerLedger(solution: Solution, port: string, band?: [number, number]): LedgerResult {
-  const sys = solution.system;
   const m = portIndex(solution, port, "ledger.port");
+  const ks = band ? bandIndices(solution.frequencies, band, "ledger.band") : Array.from({ length: solution.frequencies.length }, (_, k) => k);
+  return ledgerFromWaves(solution, port, m, ks, internalWaves(solution, unitIncident(solution, m)));
+}
+
+/**
+ * powerLedger for several driven ports at once: the internal waves of every excitation come from one
+ * batched pass over the solver's wave maps (internalWavesMany), cheaper than one internalWaves per port.
+ * Each result equals powerLedger(solution, port, band).
+ *
+ * @param solution solved composite
+ * @param ports driven system port names (default: every system port, in solution order)
+ * @param band optional [lo, hi] Hz; default every plan point
+ * @returns one LedgerResult per port, in the order given
+ * @throws EngineInputError for an unknown port or an empty band
+ * @example powerLedgers(sol).map((l) => l.verdict) // ["pass", "pass"]
+ */
+export function powerLedgers(solution: Solution, ports: string[] = solution.ports, band?: [number, number]): LedgerResult[] {
+  const ms = ports.map((p) => portIndex(solution, p, "ledger.port"));
+  const ks = band ? bandIndices(solution.frequencies, band, "ledger.band") : Array.from({ length: solution.frequencies.length }, (_, k) => k);
+  const waves = internalWavesMany(solution, ms.map((m) => unitIncident(solution, m)));
+  return ports.map((p, i) => ledgerFromWaves(solution, p, ms[i], ks, waves[i]));
+}
+
+/** A unit incident wave (1 √W) at system port m at every frequency, zero elsewhere. */
+function unitIncident(solution: Solution, m: number): Float64Array {
   const nf = solution.frequencies.length;
   const nsp = solution.ports.length;
-  const np = sys.blockPorts.length;
-  const ks = band ? bandIndices(solution.frequencies, band, "ledger.band") : Array.from({ length: nf }, (_, k) => k);
   const incident = new Float64Array(2 * nf * nsp);
   for (let k = 0; k < nf; k++) incident[2 * (k * nsp + m)] = 1;
-  const w = internalWaves(solution, incident);
+  return incident;
+}
+
+function ledgerFromWaves(solution: Solution, port: string, m: number, ks: number[], w: InternalWaves): LedgerResult {
+  const sys = solution.system;
+  const nsp = solution.ports.length;
+  const np = sys.blockPorts.length;
   const s = solution.s;
 
   const sq = (d: Float64Array, o: number) => d[o] * d[o] + d[o + 1] * d[o + 1];

@@ -2,7 +2,7 @@
 // amplifiers) in one call, with one overall verdict: the web app's "run all rules", the CLI and bundles.
 import type { PreparedSystem, Scenario, Solution } from "../types";
 import { dataQuality, type DataQualityResult } from "./data-quality";
-import { powerLedger, type LedgerResult } from "./power-ledger";
+import { powerLedgers, type LedgerResult } from "./power-ledger";
 import { evaluateRules } from "./rules";
 import { stabilityCheck, type StabilityResult } from "./stability";
 import type { CheckSummary, RuleResult, Verdict } from "./types";
@@ -47,7 +47,7 @@ export function worstVerdict(verdicts: Verdict[]): Verdict {
  */
 export function runAllChecks(scenario: Scenario, prepared: PreparedSystem, solution: Solution): AllChecksResult {
   const rules = evaluateRules(solution, scenario.rules ?? []);
-  const ledgers = solution.ports.map((p) => powerLedger(solution, p));
+  const ledgers = powerLedgers(solution);
   const quality = dataQuality(solution);
   const stability = stabilityCheck(solution, { composite: "active" });
   const checks: CheckSummary[] = [];

@@ -2,8 +2,16 @@
 
 import { EngineInputError, type PreparedSystem, type SData } from "../types";
 
+// Block S already scanned for non-finite values, with the data array that was scanned: a PreparedSystem's
+// blocks (and a caller's replacement states) are solved many times over, and the scan reads every number.
+// Block data is not modified in place once handed to the engine (the PreparedSystem contract); a new data
+// array on the same SData object is scanned again.
+const scanned = new WeakMap<SData, Float64Array>();
+
 /**
- * The S of every block, with `replace` substituted by block id and shapes checked against the plan.
+ * The S of every block, with `replace` substituted by block id and shapes checked against the plan. Each
+ * block's data is scanned for non-finite values the first time it is seen (remembered per SData object and
+ * data array), so repeated solves of the same data do not read it again.
  *
  * @param sys prepared system
  * @param replace block id → S to use instead (same port count, same frequency count)
@@ -28,6 +36,7 @@ export function resolveBlockS(sys: PreparedSystem, replace?: Record<string, SDat
       throw new EngineInputError(`blocks.${blk.id}`, `S has shape ${s.n} ports × ${s.nf} frequencies (data length ${s.data.length}); expected ${expectedN} × ${nf}`);
     }
     const d = s.data;
+    if (scanned.get(s) === d) return;
     // x·0 is NaN as soon as x is ±Infinity or NaN; four independent sums keep the loop from waiting on
     // the latency of one long chain of additions
     let p0 = 0;
@@ -47,6 +56,7 @@ export function resolveBlockS(sys: PreparedSystem, replace?: Record<string, SDat
       const j = d.findIndex((v) => !Number.isFinite(v));
       throw new EngineInputError(`blocks.${blk.id}`, `S holds a non-finite value at frequency index ${Math.floor(j / (2 * s.n * s.n))}`);
     }
+    scanned.set(s, d);
   });
   return out;
 }

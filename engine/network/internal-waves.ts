@@ -83,6 +83,189 @@ export function internalWaves(sol: Solution, incident: Float64Array, out?: Inter
   return { a, b };
 }
 
+/**
+ * internalWaves for several excitations of one solution in one pass: every wave map and block S entry is
+ * read once per frequency and applied to all the excitations (several right-hand sides), so E excitations
+ * cost far less than E calls. Each result equals internalWaves(sol, incidents[e]) (same arithmetic, same
+ * order of operations per excitation).
+ *
+ * @param sol a solution from solveSystem or solveDense (solved with waves kept, the default)
+ * @param incidents one array per excitation, each [k][systemPort] interleaved re/im, length 2·nf·(system ports), √W
+ * @param out optional results to write into (one { a, b } per excitation, each array 2·nf·(block ports))
+ * @returns one { a, b } per excitation, each [k][p] interleaved, length 2·nf·(block ports)
+ * @throws EngineInputError when the solution kept no wave data or an array has the wrong length
+ * @example
+ * const inc = sol.ports.map((_, m) => { const x = new Float64Array(2 * nf * E); for (let k = 0; k < nf; k++) x[2 * (k * E + m)] = 1; return x; });
+ * const waves = internalWavesMany(sol, inc); // waves[m].a: incident waves with 1 W into system port m
+ */
+export function internalWavesMany(sol: Solution, incidents: Float64Array[], out?: InternalWaves[]): InternalWaves[] {
+  const state = waveStates.get(sol);
+  if (!state) throw new EngineInputError("solution", "internal waves need a solution solved with waves kept (solveSystem or solveDense, waves not false)");
+  const sys = sol.system;
+  const nf = sol.frequencies.length;
+  const E = sys.systemPorts.length;
+  const P = sys.blockPorts.length;
+  const len = 2 * nf * P;
+  const M = incidents.length;
+  incidents.forEach((inc, e) => {
+    if (inc.length !== 2 * nf * E) throw new EngineInputError(`incidents[${e}]`, `expected ${2 * nf * E} numbers (nf × system ports × re/im), got ${inc.length}`);
+  });
+  if (out) {
+    if (out.length !== M) throw new EngineInputError("out", `expected ${M} results, got ${out.length}`);
+    const seen = new Set<Float64Array>();
+    for (const o of out) {
+      if (o.a.length !== len || o.b.length !== len || seen.has(o.a) || seen.has(o.b) || o.a === o.b) throw new EngineInputError("out", `expected distinct arrays of ${len} numbers`);
+      seen.add(o.a);
+      seen.add(o.b);
+    }
+  }
+  if (state.kind === "dense" || M === 1) return incidents.map((inc, e) => internalWaves(sol, inc, out?.[e]));
+  const results = out ?? incidents.map(() => ({ a: new Float64Array(len), b: new Float64Array(len) }));
+  if (M === 0) return results;
+  // an incident array that is also an output would be overwritten before it is read: copy it first
+  const outs = new Set<Float64Array>();
+  for (const r of results) {
+    outs.add(r.a);
+    outs.add(r.b);
+  }
+  const inc = incidents.map((x) => (outs.has(x) ? x.slice() : x));
+  if (state.generation >= 0 && state.generation !== state.entry.generation) {
+    const maps = new Float64Array(state.entry.mapTotal);
+    runGrowth(sys, state.entry, state.blockS, maps);
+    state.maps = maps;
+    state.generation = -1;
+  }
+  const plan = state.entry.plan;
+  const partner = plan.partner;
+  const rows = plan.totalPorts;
+  // Work area per tile of frequencies: row p holds [f][e] (the excitations innermost, so that each map
+  // entry loaded once updates every excitation from contiguous memory).
+  const tile = Math.max(4, Math.floor(MANY_TILE_VALUES / M));
+  const rStride = 2 * tile * M;
+  const at = new Int32Array(P);
+  let next = rows * rStride;
+  for (let p = 0; p < P; p++) {
+    if (partner[p] >= 0) at[p] = partner[p] * rStride;
+    else {
+      at[p] = next;
+      next += rStride;
+    }
+  }
+  const w = workOf(next);
+  const as = results.map((r) => r.a);
+  const bs = results.map((r) => r.b);
+  for (let f0 = 0; f0 < nf; f0 += tile) {
+    const nft = Math.min(tile, nf - f0);
+    fillGrowthMany(w, rStride, state, inc, E, f0, nft, M);
+    toFrequencyMajorMany(as, w, null, rStride, f0, nft, P, M);
+    fillOutgoingMany(w, rStride, at, partner, state.blockS, sys.blockOffset, f0, nft, M);
+    toFrequencyMajorMany(bs, w, at, rStride, f0, nft, P, M);
+  }
+  return results;
+}
+
+/** Complex values (frequencies × excitations) per row of the batched tile. */
+const MANY_TILE_VALUES = 64;
+
+/** out[e][f0 + k][p] = row p of the batched tile, k < nft. */
+function toFrequencyMajorMany(out: Float64Array[], w: Float64Array, at: Int32Array | null, rStride: number, f0: number, nft: number, P: number, M: number): void {
+  for (let e = 0; e < M; e++) {
+    const o = out[e];
+    for (let p = 0; p < P; p++) {
+      const ro = (at ? at[p] : p * rStride) + 2 * e;
+      for (let f = 0; f < nft; f++) {
+        const src = ro + 2 * f * M;
+        const dst = 2 * ((f0 + f) * P + p);
+        o[dst] = w[src];
+        o[dst + 1] = w[src + 1];
+      }
+    }
+  }
+}
+
+/** fillGrowth for M excitations at once: rows [f][e]. */
+function fillGrowthMany(w: Float64Array, rStride: number, st: GrowthWaveState, incidents: Float64Array[], E: number, f0: number, nft: number, M: number): void {
+  const plan = st.entry.plan;
+  const mapOffset = st.entry.mapOffset;
+  w.fill(0, 0, plan.totalPorts * rStride);
+  const fw = 2 * M;
+  for (let e = 0; e < M; e++) {
+    const inc = incidents[e];
+    for (let m = 0; m < E; m++) {
+      const row = plan.outer[m] * rStride + 2 * e;
+      for (let f = 0; f < nft; f++) {
+        w[row + f * fw] = inc[2 * ((f0 + f) * E + m)];
+        w[row + f * fw + 1] = inc[2 * ((f0 + f) * E + m) + 1];
+      }
+    }
+  }
+  const map = st.maps;
+  const steps = plan.steps;
+  for (let s = steps.length - 1; s >= 0; s--) {
+    const step = steps[s];
+    const inner = step.inner;
+    const ports = step.ports;
+    const nC = ports.length;
+    const R = inner.length;
+    const fStride = 2 * R * nC;
+    const base = mapOffset[s] + f0 * fStride;
+    for (let r = 0; r < R; r++) {
+      const dst = inner[r] * rStride;
+      for (let j = 0; j < nC; j++) {
+        const src = ports[j] * rStride;
+        let mo = base + 2 * (r * nC + j);
+        for (let f = 0; f < nft; f++, mo += fStride) {
+          const mr = map[mo];
+          const mi = map[mo + 1];
+          const d0 = dst + f * fw;
+          const s0 = src + f * fw;
+          for (let e = 0; e < fw; e += 2) {
+            const xr = w[s0 + e];
+            const xi = w[s0 + e + 1];
+            w[d0 + e] += mr * xr - mi * xi;
+            w[d0 + e + 1] += mr * xi + mi * xr;
+          }
+        }
+      }
+    }
+  }
+}
+
+/** fillOutgoing for M excitations at once: rows [f][e]. */
+function fillOutgoingMany(w: Float64Array, rStride: number, at: Int32Array, partner: Int32Array, blockS: SData[], offsets: number[], f0: number, nft: number, M: number): void {
+  const fw = 2 * M;
+  const hi = nft * fw;
+  for (let i = 0; i < blockS.length; i++) {
+    const s = blockS[i];
+    const n = s.n;
+    const off = offsets[i];
+    const d = s.data;
+    const fStride = 2 * n * n;
+    for (let r = 0; r < n; r++) {
+      const p = off + r;
+      if (partner[p] >= 0) continue;
+      const ro = at[p];
+      w.fill(0, ro, ro + hi);
+      for (let c = 0; c < n; c++) {
+        const src = (off + c) * rStride;
+        let so = f0 * fStride + 2 * (r * n + c);
+        for (let f = 0; f < nft; f++, so += fStride) {
+          const mr = d[so];
+          const mi = d[so + 1];
+          const d0 = ro + f * fw;
+          const s0 = src + f * fw;
+          for (let e = 0; e < fw; e += 2) {
+            const xr = w[s0 + e];
+            const xi = w[s0 + e + 1];
+            w[d0 + e] += mr * xr - mi * xi;
+            w[d0 + e + 1] += mr * xi + mi * xr;
+          }
+        }
+      }
+    }
+  }
+}
+
 /** Frequencies per tile: the tile's work area and map entries stay in cache through every stage. */
 const TILE = 32;
 
