@@ -141,10 +141,12 @@ export function internalWavesMany(sol: Solution, incidents: Float64Array[], out?
   // Work area per tile of frequencies: row p holds [f][e] (the excitations innermost, so that each map
   // entry loaded once updates every excitation from contiguous memory).
   const tile = Math.max(4, Math.floor(MANY_TILE_VALUES / M));
-  const rStride = 2 * tile * M;
+  const rStride = 2 * tile * M + 8; // padded: rows a power of two apart share cache sets
   const at = new Int32Array(P);
+  const own = new Int32Array(P);
   let next = rows * rStride;
   for (let p = 0; p < P; p++) {
+    own[p] = p * rStride;
     if (partner[p] >= 0) at[p] = partner[p] * rStride;
     else {
       at[p] = next;
@@ -157,27 +159,28 @@ export function internalWavesMany(sol: Solution, incidents: Float64Array[], out?
   for (let f0 = 0; f0 < nf; f0 += tile) {
     const nft = Math.min(tile, nf - f0);
     fillGrowthMany(w, rStride, state, inc, E, f0, nft, M);
-    toFrequencyMajorMany(as, w, null, rStride, f0, nft, P, M);
+    toFrequencyMajorMany(as, w, own, f0, nft, P, M);
     fillOutgoingMany(w, rStride, at, partner, state.blockS, sys.blockOffset, f0, nft, M);
-    toFrequencyMajorMany(bs, w, at, rStride, f0, nft, P, M);
+    toFrequencyMajorMany(bs, w, at, f0, nft, P, M);
   }
   return results;
 }
 
 /** Complex values (frequencies × excitations) per row of the batched tile. */
-const MANY_TILE_VALUES = 64;
+const MANY_TILE_VALUES = 128;
 
-/** out[e][f0 + k][p] = row p of the batched tile, k < nft. */
-function toFrequencyMajorMany(out: Float64Array[], w: Float64Array, at: Int32Array | null, rStride: number, f0: number, nft: number, P: number, M: number): void {
-  for (let e = 0; e < M; e++) {
-    const o = out[e];
+/** out[e][f0 + k][p] = row p of the batched tile (row p starts at at[p]), k < nft. */
+function toFrequencyMajorMany(out: Float64Array[], w: Float64Array, at: Int32Array, f0: number, nft: number, P: number, M: number): void {
+  const fw = 2 * M;
+  for (let f = 0; f < nft; f++) {
+    const dst = 2 * (f0 + f) * P;
     for (let p = 0; p < P; p++) {
-      const ro = (at ? at[p] : p * rStride) + 2 * e;
-      for (let f = 0; f < nft; f++) {
-        const src = ro + 2 * f * M;
-        const dst = 2 * ((f0 + f) * P + p);
-        o[dst] = w[src];
-        o[dst + 1] = w[src + 1];
+      const src = at[p] + f * fw;
+      const d = dst + 2 * p;
+      for (let e = 0; e < M; e++) {
+        const o = out[e];
+        o[d] = w[src + 2 * e];
+        o[d + 1] = w[src + 2 * e + 1];
       }
     }
   }

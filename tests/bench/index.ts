@@ -9,8 +9,9 @@
  *   block evaluation is visible and never hidden inside an interconnection row.
  * - "composite": solveSystem on an already-prepared system (the join plan was built by the warm-up runs
  *   and is cached per PreparedSystem; wave maps kept, the default).
- * - "composite + internal waves": one solveSystem, then internalWaves for a unit incident wave at each
- *   system port in turn, each call returning fresh arrays (as the power ledger and drive check call it).
+ * - "composite + internal waves": one solveSystem, then the internal waves of a unit incident wave at each
+ *   system port, every excitation in one internalWavesMany call returning fresh arrays (as the power ledger
+ *   of every port and the drive check call it).
  * - numpy: the dense solve alone inside one Python process (building Γ − S_ii, S_ie, S_ei, S_ee from the
  *   block S, the batched solve and the products); not Python start-up, file reading or index maps. Its
  *   (Γ − S_ii)⁻¹ S_ie already holds the internal waves of every excitation, so it is set against both
@@ -29,7 +30,7 @@ import { readdirSync, existsSync } from "node:fs";
 import { availableParallelism, loadavg } from "node:os";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { join } from "node:path";
-import { internalWaves, solveSystem } from "../../engine/network";
+import { internalWavesMany, solveSystem } from "../../engine/network";
 import { prepareSystem } from "../../engine/system";
 import type { PreparedSystem, Solution } from "../../engine/types";
 import { numpyAvailable, timeNumpyDense, type NumpyTiming } from "./numpy-dense";
@@ -124,7 +125,7 @@ async function main(): Promise<void> {
   const excitations = unitExcitations(fe);
   const feWaves = timeMedian(() => {
     const sol = solveSystem(fe);
-    for (const inc of excitations) internalWaves(sol, inc);
+    internalWavesMany(sol, excitations);
   }, RUNS, WARMUP, MIN_TOTAL_MS);
   const feNumpy = numpyFor(fe, feSol, "front end");
   rows.push({ name: "front end: prepare (evaluate every block model)", size: describeSize(fe), ms: prep.median, cpuMs: prep.cpuMedian });
@@ -206,7 +207,7 @@ async function main(): Promise<void> {
   console.log("What each row times:");
   console.log("  prepare                     prepareSystem on the scenario: every block model evaluated (no target)");
   console.log("  composite                   solveSystem on the already-prepared system; join plan cached by the warm-up runs; wave maps kept");
-  console.log("  composite + internal waves  one solveSystem, then internalWaves for a unit wave at each system port in turn (fresh arrays per call)");
+  console.log("  composite + internal waves  one solveSystem, then internalWavesMany for a unit wave at each system port (one batched call, fresh arrays)");
   console.log("  state sweep / leak trace    stateSweep / leakTrace on an already-prepared system (and solution), see notes");
   console.log("  Portolan ms                 median wall time; cpu ms: median CPU time of this process over the same runs (includes V8's GC threads)");
   console.log("  target / result             wall times decide PASS; see the legend below the table for PASS (cpu)");
