@@ -1,6 +1,6 @@
-// Waves at every block port for one excitation, by substituting back through the wave maps kept by the
-// solver (each join's closed ports as a linear function of its open ports); then b = a of the partner on a
-// link, and b = S·a at unlinked and system ports.
+// Waves at every block port for one excitation (or several at once, sharing every read of the maps), by
+// substituting back through the wave maps kept by the solver (each join's closed ports as a linear function
+// of its open ports); then b = a of the partner on a link, and b = S·a at unlinked and system ports.
 
 import { luFactorUnchecked, luSolve } from "../linalg";
 import { EngineInputError, SingularSystemError, type InternalWaves, type SData, type Solution } from "../types";
