@@ -1,5 +1,5 @@
 import "server-only";
-import { desc, eq } from "drizzle-orm";
+import { desc, eq, sql } from "drizzle-orm";
 import { db } from "@/db/client";
 import { auditEvents, users } from "@/db/schema";
 import { authorize } from "@/lib/permissions";
@@ -31,6 +31,6 @@ export async function listAuditEvents({ actor, projectId, limit = 200 }: { actor
     .from(auditEvents)
     .leftJoin(users, eq(users.id, auditEvents.actorId))
     .where(eq(auditEvents.projectId, projectId))
-    .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id))
+    .orderBy(desc(auditEvents.createdAt), desc(sql`${auditEvents}.rowid`))
     .limit(limit);
 }

@@ -1,6 +1,6 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import { db } from "@/db/client";
 import { checkRuns, scenarioRevisions, users } from "@/db/schema";
 import {
@@ -208,7 +208,8 @@ export async function listCheckRuns({ userId, projectId, scenarioId, limit = 50 
     .leftJoin(scenarioRevisions, eq(scenarioRevisions.id, checkRuns.revisionId))
     .leftJoin(users, eq(users.id, checkRuns.userId))
     .where(eq(checkRuns.scenarioId, scenarioId))
-    .orderBy(desc(checkRuns.createdAt), desc(checkRuns.id))
+    // created_at has whole-second resolution by default; rowid keeps runs of the same second in insertion order
+    .orderBy(desc(checkRuns.createdAt), desc(sql`${checkRuns}.rowid`))
     .limit(limit);
   return rows.map((r) => {
     const { figures: _figures, ...summary } = toView(r);

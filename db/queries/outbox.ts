@@ -1,6 +1,6 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { desc, eq } from "drizzle-orm";
+import { desc, eq, sql } from "drizzle-orm";
 import { db } from "@/db/client";
 import { outboxMessages, type OutboxMessage } from "@/db/schema";
 
@@ -22,7 +22,7 @@ export async function listOutboxMessages({ limit = 200 }: { limit?: number } = {
       receivedAt: outboxMessages.receivedAt,
     })
     .from(outboxMessages)
-    .orderBy(desc(outboxMessages.receivedAt))
+    .orderBy(desc(outboxMessages.receivedAt), desc(sql`${outboxMessages}.rowid`))
     .limit(limit);
 }
 

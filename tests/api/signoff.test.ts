@@ -141,7 +141,7 @@ describe("sign-off from request to decision", () => {
   it("an engineer cannot approve (403), nor can another reviewer decide someone else's request", async () => {
     const byEngineer = await decide(engineer.cookie, ritaSignoff, { decision: "approved", comment: "looks fine to me" });
     expect(byEngineer.status).toBe(403);
-    expect(((await byEngineer.json()) as ErrorJson).error.message).toBe("Your role (engineer) cannot sign off; reviewers and owners can.");
+    expect(((await byEngineer.json()) as ErrorJson).error.message).toBe("Your role (engineer) does not allow this (signoff.decide).");
     const byQuinn = await decide(quietReviewer.cookie, ritaSignoff, { decision: "approved", comment: "" });
     expect(byQuinn.status).toBe(403);
     expect((await list(owner.cookie)).find((s) => s.id === ritaSignoff)?.state).toBe("requested");
