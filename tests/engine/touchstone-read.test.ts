@@ -5,7 +5,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { parseTouchstone, type TouchstoneData } from "@/engine/touchstone";
-import { hasSkrf, interleave, runSkrf, SKRF_ABSENT, type Cplx } from "../fixtures/touchstone/skrf";
+import { interleave, requireSkrf, runSkrf, type Cplx } from "../fixtures/touchstone/skrf";
 
 const DIR = join(process.cwd(), "tests/fixtures/touchstone");
 const read = (file: string): string => readFileSync(join(DIR, file), "utf8");
@@ -101,8 +101,8 @@ describe("parseTouchstone() against scikit-rf 0.15.4 on the same data", () => {
   ];
   const v20 = ["v2_twoport_21_12.s2p", "v2_twoport_12_21.s2p", "v2_threeport_full.s3p", "v2_fiveport_wrapped.s5p"];
 
-  it("reads every 1.1 and 2.0 fixture like scikit-rf 0.15.4 Network(path), to 1e-12", (ctx) => {
-    if (!hasSkrf) ctx.skip(SKRF_ABSENT);
+  it("reads every 1.1 and 2.0 fixture like scikit-rf 0.15.4 Network(path), to 1e-12", () => {
+    requireSkrf();
     const files = [...v11, ...v20];
     // scikit-rf 0.15.4 Network(path), Touchstone.get_sparameter_arrays: it treats every 2-port as N11 N21 N12 N22.
     const refs = runSkrf<SkrfRead>(files.map((f) => ({ kind: "read", path: skrfCopy(f, read(f)) })));
@@ -116,8 +116,8 @@ describe("parseTouchstone() against scikit-rf 0.15.4 on the same data", () => {
     });
   });
 
-  it("converts Y and Z data to S like scikit-rf 0.15.4 z2s / y2s (power waves, real references)", (ctx) => {
-    if (!hasSkrf) ctx.skip(SKRF_ABSENT);
+  it("converts Y and Z data to S like scikit-rf 0.15.4 z2s / y2s (power waves, real references)", () => {
+    requireSkrf();
     // 1.1: Y and Z values are normalised to R; 2.0: they are in ohms and siemens (Touchstone 2.0, option line
     // rules, from memory; the same reading as other public readers).
     const cases = [

@@ -8,7 +8,7 @@ import { describe, expect, it } from "vitest";
 import { parseTouchstone, writeTouchstone, TouchstoneError, type DataFormat, type FrequencyUnit } from "@/engine/touchstone";
 import { z0Vector } from "@/engine/renorm";
 import type { SData } from "@/engine/types";
-import { hasSkrf, interleave, runSkrf, SKRF_ABSENT, type Cplx } from "../fixtures/touchstone/skrf";
+import { interleave, requireSkrf, runSkrf, type Cplx } from "../fixtures/touchstone/skrf";
 
 const DIR = join(process.cwd(), "tests/fixtures/touchstone");
 const TMP = mkdtempSync(join(tmpdir(), "portolan-touchstone-write-"));
@@ -148,8 +148,8 @@ describe("round trips", () => {
     }
   });
 
-  it("writes files that scikit-rf 0.15.4 reads to the same S, in 1.1 and 2.0", (ctx) => {
-    if (!hasSkrf) ctx.skip(SKRF_ABSENT);
+  it("writes files that scikit-rf 0.15.4 reads to the same S, in 1.1 and 2.0", () => {
+    requireSkrf();
     const jobs: object[] = [];
     const expected: Float64Array[] = [];
     for (const [n, format, version] of [
