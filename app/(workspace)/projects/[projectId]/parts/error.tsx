@@ -1,23 +1,7 @@
 "use client";
 
-import { Alert } from "@/components/ui/alert";
-import { Button } from "@/components/ui/button";
+import { RouteError, type RouteErrorProps } from "@/components/shell/route-error";
 
-/** Shown when the parts page fails to load; the digest lets the server logs be matched. */
-export default function PartsError({ error, reset }: { error: Error & { digest?: string }; reset: () => void }) {
-  return (
-    <div className="py-10">
-      <Alert
-        tone="error"
-        title="The parts could not be loaded"
-        actions={
-          <Button variant="secondary" size="sm" onClick={reset}>
-            Try again
-          </Button>
-        }
-      >
-        Something went wrong on the server.{error.digest ? ` Reference: ${error.digest}.` : ""}
-      </Alert>
-    </div>
-  );
+export default function PartsError(props: RouteErrorProps) {
+  return <RouteError title="The parts could not be loaded" {...props} />;
 }
