@@ -36,10 +36,21 @@ export function parseWith<T>(schema: ZodType<T>, input: unknown): T {
 
 /** Read the body as text, refusing more than `limit` bytes (413) before anything is parsed. */
 export async function readBodyText(request: Request, limit: number = DEFAULT_BODY_LIMIT_BYTES): Promise<string> {
-  const tooLarge = () => new AppError("payload_too_large", 413, `The request body is larger than ${limit} bytes.`);
+  return (await readBodyBytes(request, limit)).toString("utf8");
+}
+
+/**
+ * The body as bytes, refusing more than `limit` bytes with 413 before anything is parsed: first by the
+ * declared Content-Length, then while streaming (a client may not declare it, or lie).
+ */
+export async function readBodyBytes(
+  request: Request,
+  limit: number,
+  tooLarge: () => AppError = () => new AppError("payload_too_large", 413, `The request body is larger than ${limit} bytes.`),
+): Promise<Buffer> {
   const declared = Number(request.headers.get("content-length"));
   if (Number.isFinite(declared) && declared > limit) throw tooLarge();
-  if (!request.body) return "";
+  if (!request.body) return Buffer.alloc(0);
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
   let total = 0;
@@ -53,7 +64,7 @@ export async function readBodyText(request: Request, limit: number = DEFAULT_BOD
     }
     chunks.push(value);
   }
-  return Buffer.concat(chunks).toString("utf8");
+  return Buffer.concat(chunks);
 }
 
 /** Read a JSON body within the limit (413), as JSON (400), matching the schema (400 with fields). */

@@ -1,4 +1,4 @@
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json, readBodyBytes } from "@/lib/api";
 import { BUNDLE_UPLOAD_MAX_BYTES, importBundle } from "@/lib/bundle/import";
 import { AppError } from "@/lib/errors";
 
@@ -8,26 +8,6 @@ type Params = { projectId: string };
 const MULTIPART_OVERHEAD_BYTES = 64 * 1024;
 
 const tooLarge = () => new AppError("payload_too_large", 413, `The bundle is larger than the upload limit of ${BUNDLE_UPLOAD_MAX_BYTES / (1024 * 1024)} MB.`);
-
-async function readLimitedBytes(request: Request, limit: number): Promise<Buffer> {
-  const declared = Number(request.headers.get("content-length"));
-  if (Number.isFinite(declared) && declared > limit) throw tooLarge();
-  if (!request.body) return Buffer.alloc(0);
-  const reader = request.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let total = 0;
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    total += value.byteLength;
-    if (total > limit) {
-      await reader.cancel().catch(() => undefined);
-      throw tooLarge();
-    }
-    chunks.push(value);
-  }
-  return Buffer.concat(chunks);
-}
 
 /**
  * POST multipart/form-data { file: bundle.zip } → 201 { scenario, revision, parts, manifest, contentHashMatches }
@@ -41,7 +21,7 @@ export const POST = apiRoute<Params>(async (ctx) => {
     throw new AppError("unsupported_media_type", 415, "Upload the bundle as multipart/form-data with a field named file.");
   }
   const user = await ctx.requireUser();
-  const body = await readLimitedBytes(ctx.request, BUNDLE_UPLOAD_MAX_BYTES + MULTIPART_OVERHEAD_BYTES);
+  const body = await readBodyBytes(ctx.request, BUNDLE_UPLOAD_MAX_BYTES + MULTIPART_OVERHEAD_BYTES, tooLarge);
   let form: FormData;
   try {
     form = await new Response(new Blob([new Uint8Array(body)]), { headers: { "content-type": type } }).formData();

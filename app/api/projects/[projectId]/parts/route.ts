@@ -1,5 +1,5 @@
 import { createPart, listParts } from "@/db/queries/parts";
-import { apiRoute, json, parseWith } from "@/lib/api";
+import { apiRoute, json, readBodyBytes, parseWith } from "@/lib/api";
 import { AppError } from "@/lib/errors";
 import { PART_MAX_BYTES, partFileNameSchema, partNameSchema } from "@/lib/validation/parts";
 
@@ -10,27 +10,6 @@ const MULTIPART_OVERHEAD_BYTES = 64 * 1024;
 
 const tooLarge = () =>
   new AppError("payload_too_large", 413, `The file is larger than the limit of ${PART_MAX_BYTES / (1024 * 1024)} MB for a part. Reduce the number of frequency points or split the file.`);
-
-/** The body as bytes, refusing more than `limit` (413) before anything is parsed. */
-async function readLimitedBytes(request: Request, limit: number): Promise<Buffer> {
-  const declared = Number(request.headers.get("content-length"));
-  if (Number.isFinite(declared) && declared > limit) throw tooLarge();
-  if (!request.body) return Buffer.alloc(0);
-  const reader = request.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let total = 0;
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    total += value.byteLength;
-    if (total > limit) {
-      await reader.cancel().catch(() => undefined);
-      throw tooLarge();
-    }
-    chunks.push(value);
-  }
-  return Buffer.concat(chunks);
-}
 
 /** GET …/parts[?text=1] → { parts } with figures and a preview trace; `text=1` adds each Touchstone text. */
 export const GET = apiRoute<Params>(async (ctx) => {
@@ -50,7 +29,7 @@ export const POST = apiRoute<Params>(async (ctx) => {
     throw new AppError("unsupported_media_type", 415, "Upload the Touchstone file as multipart/form-data with a field named file.");
   }
   const user = await ctx.requireUser();
-  const bytes = await readLimitedBytes(ctx.request, PART_MAX_BYTES + MULTIPART_OVERHEAD_BYTES);
+  const bytes = await readBodyBytes(ctx.request, PART_MAX_BYTES + MULTIPART_OVERHEAD_BYTES, tooLarge);
   let form: FormData;
   try {
     form = await new Response(new Blob([new Uint8Array(bytes)]), { headers: { "content-type": type } }).formData();
