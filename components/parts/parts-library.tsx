@@ -48,7 +48,7 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
           </THead>
           <TBody>
             {list.map((p) => (
-              <Tr key={p.id}>
+              <Tr key={p.id} id={`part-${p.id}`} className="target:bg-sea/15">
                 <Td>
                   <div className="font-medium text-ink">{p.name}</div>
                   <div className="font-mono text-xs text-muted">
