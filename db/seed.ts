@@ -18,7 +18,7 @@ export const DEMO_USERS = [
 export const DEMO_PROJECT = {
   name: "Kestrel telemetry front end",
   description:
-    "Front end of the Kestrel telemetry radio: one transmitter and one receiver sharing two antennas through a transfer switch, a circulator and a band-pass filter. The question is whether enough of the transmit power stays out of the receiver in every switch setting.",
+    "Front end of the Kestrel telemetry radio (an invented system): one transmitter and one receiver sharing two antennas through a T/R switch and an antenna switch, with band-pass filters, a monitor coupler and a low-noise amplifier. The question is whether enough of the transmit power stays out of the receiver in every switch setting.",
 };
 
 export type DemoSeedContext = {
