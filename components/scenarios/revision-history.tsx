@@ -8,7 +8,7 @@ import type { RevisionListItem } from "./types";
 
 const when = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone: "UTC" });
 
-const ORIGIN_TEXT: Record<string, string> = { create: "created", save: "saved", restore: "restored", duplicate: "duplicated", seed: "demo" };
+const ORIGIN_TEXT: Record<string, string> = { create: "created", save: "saved", restore: "restored", duplicate: "duplicated", seed: "demo", import: "imported from a bundle" };
 
 /** Every revision of the scenario, newest first, with restore (a new revision with the old content). */
 export function RevisionHistory({

@@ -13,7 +13,7 @@ import { authorize } from "@/lib/permissions";
 import type { DraftScenario } from "@/lib/validation/scenarios";
 import { getPartTexts } from "./parts";
 
-export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed";
+export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed" | "import";
 
 /** A revision as the API returns it. */
 export type RevisionDetail = {

@@ -116,7 +116,7 @@ export async function importBundle({ actor, projectId, bytes }: { actor: Session
     const stored: DraftScenario = renames.size === 0 ? content : { ...content, blocks: content.blocks.map((b) => (b.file && renames.has(b.file) ? { ...b, file: renames.get(b.file) } : b)) };
     const scenarioId = randomUUID();
     await tx.insert(scenarios).values({ id: scenarioId, projectId, name: name.data, createdBy: actor.id });
-    const revision = await insertRevision(tx, { scenarioId, projectId, content: stored, authorId: actor.id, origin: "create" });
+    const revision = await insertRevision(tx, { scenarioId, projectId, content: stored, authorId: actor.id, origin: "import" });
     await recordAudit(tx, {
       actor,
       projectId,

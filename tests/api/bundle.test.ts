@@ -170,7 +170,9 @@ describe("importing a bundle", () => {
     expect(result.contentHashMatches).toBe(true);
     expect(result.parts).toEqual([{ fileName: "telemetry-patch.s1p", reused: false, renamedFrom: null }]);
     const got = await call(scenarioRoute.GET, makeRequest("GET", `/api/projects/${otherProjectId}/scenarios/${result.scenario.id}`, { cookie: engineer.cookie }), { projectId: otherProjectId, scenarioId: result.scenario.id });
-    expect(((await got.json()) as { revision: { content: Scenario } }).revision.content).toEqual(original);
+    const gotBody = (await got.json()) as { revision: { content: Scenario; origin: string } };
+    expect(gotBody.revision.content).toEqual(original);
+    expect(gotBody.revision.origin).toBe("import");
     const [part] = await db.select().from(parts).where(eq(parts.projectId, otherProjectId));
     expect(part.text).toBe(PART_TEXT);
     const a = await solveJson(reviewer.cookie, projectId, scenarioId);
