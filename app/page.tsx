@@ -4,7 +4,7 @@ import { buttonClassName } from "@/components/ui/button";
 import { BearingBackdrop } from "@/components/shell/bearing-backdrop";
 import { CompassRose } from "@/components/shell/compass-rose";
 import { ThemeToggle } from "@/components/shell/theme-toggle";
-import { getCurrentSession } from "@/lib/auth/session";
+import { getCurrentSession } from "@/lib/server/auth/session";
 
 export default async function LandingPage() {
   const { user } = await getCurrentSession();

@@ -3,7 +3,7 @@ import { mkdirSync } from "node:fs";
 import path from "node:path";
 import { createClient, type Client } from "@libsql/client";
 import { drizzle, type LibSQLDatabase } from "drizzle-orm/libsql";
-import { getEnv } from "@/lib/env";
+import { getEnv } from "@/lib/base/env";
 import * as schema from "./schema";
 
 export type Database = LibSQLDatabase<typeof schema>;

@@ -3,7 +3,7 @@ import { randomUUID } from "node:crypto";
 import { and, eq } from "drizzle-orm";
 import { writeTouchstone } from "@/engine/touchstone";
 import type { RuleSpec, Scenario } from "@/engine/types";
-import { recordAudit } from "@/lib/audit";
+import { recordAudit } from "@/lib/server/audit";
 import { createPart } from "./queries/parts";
 import { insertRevision } from "./queries/revisions";
 import { rules, scenarios } from "./schema";

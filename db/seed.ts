@@ -3,8 +3,8 @@ import { randomUUID } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { runInTransaction, type Transaction } from "./client";
 import { memberships, projects, users, type Role } from "./schema";
-import { recordAudit } from "@/lib/audit";
-import { hashPassword } from "@/lib/auth/password";
+import { recordAudit } from "@/lib/server/audit";
+import { hashPassword } from "@/lib/server/auth/password";
 import { seedDemoScenarios } from "./seed-scenarios";
 
 export const DEMO_PASSWORD = "portolan-demo";

@@ -1,5 +1,5 @@
 import "server-only";
-import { getEnv } from "@/lib/env";
+import { getEnv } from "@/lib/base/env";
 import { migrateDatabase } from "./migrate";
 import { seedDemo } from "./seed";
 
@@ -15,7 +15,7 @@ export function startApp(): Promise<void> {
       if (result.seeded) console.log("[seed] demo project and users created (password: portolan-demo)");
     }
     if (env.fakeSmtp) {
-      const { ensureFakeSmtpServer } = await import("@/lib/mail/fake-smtp");
+      const { ensureFakeSmtpServer } = await import("@/lib/server/mail/fake-smtp");
       await ensureFakeSmtpServer(env.fakeSmtpPort);
     }
   })();

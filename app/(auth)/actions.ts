@@ -2,21 +2,21 @@
 
 import { redirect } from "next/navigation";
 import { z } from "zod";
-import { actionClientAddress, parseForm, runAction, safeNextPath } from "@/lib/actions";
-import { signIn, signUp } from "@/lib/auth/accounts";
-import { confirmPasswordReset, RESET_REQUESTED_MESSAGE, requestPasswordReset } from "@/lib/auth/password-reset";
+import { actionClientAddress, parseForm, runAction, safeNextPath } from "@/lib/server/actions";
+import { signIn, signUp } from "@/lib/server/auth/accounts";
+import { confirmPasswordReset, RESET_REQUESTED_MESSAGE, requestPasswordReset } from "@/lib/server/auth/password-reset";
 import {
   blankSessionCookie,
   getCurrentSession,
   invalidateSessionToken,
   readSessionTokenFromCookies,
   setSessionCookie,
-} from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import type { FormState } from "@/lib/form-state";
-import { acceptInvitation } from "@/lib/invitations";
-import { signInSchema, signUpSchema } from "@/lib/validation/auth";
-import { emailSchema, passwordSchema, personNameSchema, tokenSchema } from "@/lib/validation/common";
+} from "@/lib/server/auth/session";
+import { AppError } from "@/lib/base/errors";
+import type { FormState } from "@/lib/base/form-state";
+import { acceptInvitation } from "@/lib/server/invitations";
+import { signInSchema, signUpSchema } from "@/lib/base/validation/auth";
+import { emailSchema, passwordSchema, personNameSchema, tokenSchema } from "@/lib/base/validation/common";
 
 export async function signInAction(_previous: FormState, formData: FormData): Promise<FormState> {
   let next = "/projects";

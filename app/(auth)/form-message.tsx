@@ -1,5 +1,5 @@
 import { Alert } from "@/components/ui/alert";
-import type { FormState } from "@/lib/form-state";
+import type { FormState } from "@/lib/base/form-state";
 
 /** The form-level message of a server action's answer (field messages sit under each field). */
 export function FormMessage({ state }: { state: FormState }) {

@@ -1,8 +1,8 @@
 import type { ReactNode } from "react";
 import { AppHeader, MAIN_CONTENT_ID } from "@/components/shell/app-header";
 import { signOutAction } from "@/app/(auth)/actions";
-import { requireUser } from "@/lib/auth/session";
-import { isOutboxAvailable } from "@/lib/outbox";
+import { requireUser } from "@/lib/server/auth/session";
+import { isOutboxAvailable } from "@/lib/server/outbox";
 import { Helm, HelmProvider } from "@/components/helm";
 
 /** Every signed-in page: the header, then the page, and the helm (Ctrl/Cmd+K). Signed-out visitors go to /sign-in. */

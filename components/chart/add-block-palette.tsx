@@ -2,8 +2,8 @@
 
 import { Command } from "cmdk";
 import type { BlockKind } from "@/engine/types";
-import { ADDABLE_KINDS, kindSummary, kindTitle } from "@/lib/client/catalogue";
-import type { PartSummary } from "@/lib/client/scenario-model";
+import { ADDABLE_KINDS, kindSummary, kindTitle } from "@/lib/browser/catalogue";
+import type { PartSummary } from "@/lib/browser/scenario-model";
 
 export type AddBlockChoice = { kind: BlockKind; part?: PartSummary };
 

@@ -4,8 +4,8 @@ import { memo, type CSSProperties } from "react";
 import { Handle, Position, type Node, type NodeProps } from "@xyflow/react";
 import type { PortRef } from "@/engine/types";
 import { cn } from "@/components/ui/cn";
-import type { WorkspaceBlock } from "@/lib/client/scenario-model";
-import { formatNumber } from "@/lib/client/format";
+import type { WorkspaceBlock } from "@/lib/browser/scenario-model";
+import { formatNumber } from "@/lib/browser/format";
 import { cardHeight, placePorts, type Side } from "./port-layout";
 
 export const CARD_WIDTH = 156;

@@ -13,8 +13,8 @@ import {
 import "@xyflow/react/dist/base.css";
 import type { PortRef, Scenario } from "@/engine/types";
 import { BearingBackdrop } from "@/components/shell/bearing-backdrop";
-import { blockTitle, portLabelsOf } from "@/lib/client/catalogue";
-import { parsePortRef, portCountOf, type PartSummary } from "@/lib/client/scenario-model";
+import { blockTitle, portLabelsOf } from "@/lib/browser/catalogue";
+import { parsePortRef, portCountOf, type PartSummary } from "@/lib/browser/scenario-model";
 import { BlockNode, type BlockNodeData, type BlockNodeType } from "./block-node";
 
 export type ChartSelection = { blocks: string[]; links: string[] };

@@ -1,4 +1,4 @@
-import { formatFrequency } from "@/lib/client/format";
+import { formatFrequency } from "@/lib/browser/format";
 
 /** dB figures with a sign on margins, a true minus, and a dash for missing values. */
 export function fmt(value: number | null | undefined, decimals = 2): string {

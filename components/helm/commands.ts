@@ -1,7 +1,7 @@
 import type { RuleSpec, Scenario } from "@/engine/types";
-import { can, type Action, type Role } from "@/lib/permission-table";
-import { ADDABLE_KINDS, kindTitle } from "@/lib/client/catalogue";
-import { nextSystemPortName, portCountOf, switchThrows, type PartSummary } from "@/lib/client/scenario-model";
+import { can, type Action, type Role } from "@/lib/base/permission-table";
+import { ADDABLE_KINDS, kindTitle } from "@/lib/browser/catalogue";
+import { nextSystemPortName, portCountOf, switchThrows, type PartSummary } from "@/lib/browser/scenario-model";
 import { mergeRules } from "@/components/rules/rule-spec";
 import type { HelmScenarioActions } from "./helm-context";
 import { formatBand, parseBand, parseDb, parseFrequency, parseSources, type Parsed } from "./parse-input";

@@ -2,8 +2,8 @@
 
 import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type ReactNode } from "react";
 import type { BlockKind, PortRef, Scenario } from "@/engine/types";
-import type { Role } from "@/lib/permission-table";
-import type { PartSummary } from "@/lib/client/scenario-model";
+import type { Role } from "@/lib/base/permission-table";
+import type { PartSummary } from "@/lib/browser/scenario-model";
 import type { CheckName } from "@/components/checks/check-inputs";
 
 /**

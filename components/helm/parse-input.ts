@@ -1,5 +1,5 @@
-import { evaluateQuantity } from "@/lib/client/expressions";
-import { formatFrequency } from "@/lib/client/format";
+import { evaluateQuantity } from "@/lib/browser/expressions";
+import { formatFrequency } from "@/lib/browser/format";
 
 export type Parsed<T> = { ok: true; value: T } | { ok: false; error: string };
 

@@ -3,9 +3,9 @@
 import { useCallback, useMemo, useState } from "react";
 import type { Scenario } from "@/engine/types";
 import { Badge, Button, Field, Input } from "@/components/ui";
-import { kindSummary, paramsOf, portLabelsOf, blockTitle } from "@/lib/client/catalogue";
-import { evaluateQuantity } from "@/lib/client/expressions";
-import { readParamInput, valueToText } from "@/lib/client/param-input";
+import { kindSummary, paramsOf, portLabelsOf, blockTitle } from "@/lib/browser/catalogue";
+import { evaluateQuantity } from "@/lib/browser/expressions";
+import { readParamInput, valueToText } from "@/lib/browser/param-input";
 import {
   findPart,
   getBlock,
@@ -14,8 +14,8 @@ import {
   updateBlock,
   type PartSummary,
   type WorkspaceBlock,
-} from "@/lib/client/scenario-model";
-import { formatNumber } from "@/lib/client/format";
+} from "@/lib/browser/scenario-model";
+import { formatNumber } from "@/lib/browser/format";
 import { ExpressionForm, type ExpressionFieldSpec } from "./expression-form";
 import { PortList } from "./port-list";
 

@@ -5,7 +5,7 @@ import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
 import { Field, Input, Select } from "@/components/ui";
-import type { ParamInput } from "@/lib/client/param-input";
+import type { ParamInput } from "@/lib/browser/param-input";
 
 /** One field of an expression form: how its text is read and what it is called. */
 export type ExpressionFieldSpec = {

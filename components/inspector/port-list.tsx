@@ -3,9 +3,9 @@
 import { useState } from "react";
 import type { PortRef, Scenario } from "@/engine/types";
 import { Button, Input, Select } from "@/components/ui";
-import { portLabelsOf } from "@/lib/client/catalogue";
-import { evaluateQuantity } from "@/lib/client/expressions";
-import { formatNumber } from "@/lib/client/format";
+import { portLabelsOf } from "@/lib/browser/catalogue";
+import { evaluateQuantity } from "@/lib/browser/expressions";
+import { formatNumber } from "@/lib/browser/format";
 import {
   addLink,
   formatPortRef,
@@ -18,7 +18,7 @@ import {
   systemPortAt,
   type PartSummary,
   type WorkspaceBlock,
-} from "@/lib/client/scenario-model";
+} from "@/lib/browser/scenario-model";
 
 export type PortListProps = {
   scenario: Scenario;

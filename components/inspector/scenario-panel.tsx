@@ -4,9 +4,9 @@ import { useCallback, useMemo, useState } from "react";
 import { Plus, Trash2 } from "lucide-react";
 import type { Scenario } from "@/engine/types";
 import { Button, Input } from "@/components/ui";
-import { evaluateQuantity, reevaluateExpressions, resolveVariables, validateVariableName } from "@/lib/client/expressions";
-import { formatNumber, formatSi } from "@/lib/client/format";
-import type { ParamInput } from "@/lib/client/param-input";
+import { evaluateQuantity, reevaluateExpressions, resolveVariables, validateVariableName } from "@/lib/browser/expressions";
+import { formatNumber, formatSi } from "@/lib/browser/format";
+import type { ParamInput } from "@/lib/browser/param-input";
 import { ExpressionForm, type ExpressionFieldSpec } from "./expression-form";
 
 export type ScenarioPanelProps = {

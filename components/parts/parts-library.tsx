@@ -5,8 +5,8 @@ import useSWR from "swr";
 import { Alert, Button, ConfirmDialog, EmptyState, Field, Input, Spinner, Table, TBody, Td, Th, THead, Tr, VerdictBadge } from "@/components/ui";
 import { ApiError, fetchJson, scenarioUrls, requestJson } from "@/components/scenarios/api-client";
 import type { PartView } from "@/components/scenarios/types";
-import { formatFrequency } from "@/lib/client/format";
-import { PART_MAX_BYTES } from "@/lib/validation/parts";
+import { formatFrequency } from "@/lib/browser/format";
+import { PART_MAX_BYTES } from "@/lib/base/validation/parts";
 import { PreviewTrace } from "./preview-trace";
 
 function formatReference(ohms: [number, number][]): string {

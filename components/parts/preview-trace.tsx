@@ -1,4 +1,4 @@
-import { formatFrequency } from "@/lib/client/format";
+import { formatFrequency } from "@/lib/browser/format";
 
 /** A small inline trace of a part's |S21| (or |S11|) in dB over its frequency range. */
 export function PreviewTrace({ label, hz, db, width = 160, height = 44 }: { label: string; hz: number[]; db: number[]; width?: number; height?: number }) {

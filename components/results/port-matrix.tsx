@@ -1,7 +1,7 @@
 "use client";
 
-import { elementAt, sName, traceLabel, type SolvedView } from "@/lib/client/results-math";
-import { formatFixed, formatFrequency } from "@/lib/client/format";
+import { elementAt, sName, traceLabel, type SolvedView } from "@/lib/browser/results-math";
+import { formatFixed, formatFrequency } from "@/lib/browser/format";
 import { cn } from "@/components/ui/cn";
 
 export type PortMatrixProps = {

@@ -4,9 +4,9 @@ import { useMemo, useState } from "react";
 import { Download, X } from "lucide-react";
 import type { Scenario } from "@/engine/types";
 import { Alert, Badge, Button, EmptyState, Input, Select, Spinner } from "@/components/ui";
-import { compositeTouchstone, downloadText as download, fileStem } from "@/lib/client/downloads";
-import { evaluateQuantity } from "@/lib/client/expressions";
-import { formatFixed, formatFrequency, formatNumber } from "@/lib/client/format";
+import { compositeTouchstone, downloadText as download, fileStem } from "@/lib/browser/downloads";
+import { evaluateQuantity } from "@/lib/browser/expressions";
+import { formatFixed, formatFrequency, formatNumber } from "@/lib/browser/format";
 import {
   nearestFrequencyIndex,
   solutionToCsv,
@@ -14,8 +14,8 @@ import {
   traceLabel,
   traceValues,
   type TraceQuantity,
-} from "@/lib/client/results-math";
-import type { SolverState } from "@/lib/client/use-solver";
+} from "@/lib/browser/results-math";
+import type { SolverState } from "@/lib/browser/use-solver";
 import { PortMatrix } from "./port-matrix";
 import { SmithChart } from "./smith-chart";
 import { TracePlot } from "./trace-plot";

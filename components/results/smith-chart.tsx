@@ -1,8 +1,8 @@
 "use client";
 
 import { useMemo, useRef, useState } from "react";
-import { elementAt, reflectionToImpedance, type SolvedView } from "@/lib/client/results-math";
-import { formatFixed, formatFrequency, formatImpedance } from "@/lib/client/format";
+import { elementAt, reflectionToImpedance, type SolvedView } from "@/lib/browser/results-math";
+import { formatFixed, formatFrequency, formatImpedance } from "@/lib/browser/format";
 
 export type SmithChartProps = {
   view: SolvedView;

@@ -3,8 +3,8 @@
 import { useEffect, useRef, useState } from "react";
 import uPlot from "uplot";
 import "uplot/dist/uPlot.min.css";
-import { formatSi } from "@/lib/client/format";
-import { useLatest } from "@/lib/client/use-latest";
+import { formatSi } from "@/lib/browser/format";
+import { useLatest } from "@/lib/browser/use-latest";
 
 export type TracePlotProps = {
   /** Hz */

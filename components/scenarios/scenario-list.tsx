@@ -5,7 +5,7 @@ import { useRouter } from "next/navigation";
 import { useState, type FormEvent } from "react";
 import useSWR from "swr";
 import { Alert, Button, ConfirmDialog, EmptyState, Field, Input, Select, Spinner, Table, TBody, Td, Th, THead, Tr, Badge } from "@/components/ui";
-import { SCENARIO_TEMPLATES, type ScenarioTemplate } from "@/lib/validation/scenarios";
+import { SCENARIO_TEMPLATES, type ScenarioTemplate } from "@/lib/base/validation/scenarios";
 import { ApiError, fetchJson, requestJson, scenarioUrls } from "./api-client";
 import { TEMPLATE_LABELS } from "./templates";
 import type { ScenarioListItem } from "./types";

@@ -10,7 +10,7 @@ import { Workspace, type PartSummary, type SaveState } from "@/components/worksp
 import { Alert, Button } from "@/components/ui";
 import { ScenarioChecks } from "@/components/checks/scenario-checks";
 import type { ChartHighlight } from "@/components/checks/leak-trace-view";
-import type { Role } from "@/lib/permission-table";
+import type { Role } from "@/lib/base/permission-table";
 import { ApiError, fetchJson, requestJson, scenarioUrls } from "./api-client";
 import { RevisionHistory } from "./revision-history";
 import type { PartView, RevisionView, ScenarioView } from "./types";

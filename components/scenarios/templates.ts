@@ -1,5 +1,5 @@
 import type { Scenario } from "@/engine/types";
-import type { ScenarioTemplate } from "@/lib/validation/scenarios";
+import type { ScenarioTemplate } from "@/lib/base/validation/scenarios";
 
 /** Plan of new scenarios: the 2.4 GHz ISM band with margin, 1 MHz steps. */
 export const DEFAULT_PLAN = { start: 2.3e9, stop: 2.6e9, points: 301 } as const;

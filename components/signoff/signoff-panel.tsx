@@ -5,7 +5,7 @@ import useSWR from "swr";
 import { Download } from "lucide-react";
 import { ApiError, fetchJson, requestJson } from "@/components/scenarios/api-client";
 import { Alert, Button, Card, CardBody, CardDescription, CardHeader, CardTitle, Field, Textarea, buttonClassName } from "@/components/ui";
-import { can, type Role } from "@/lib/permission-table";
+import { can, type Role } from "@/lib/base/permission-table";
 import { SignoffStateBadge } from "./signoff-state-badge";
 import { signoffUrls, type SignoffItem } from "./types";
 

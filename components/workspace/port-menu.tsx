@@ -2,7 +2,7 @@
 
 import { useEffect, useRef } from "react";
 import type { PortRef, Scenario } from "@/engine/types";
-import { linkedPeer, systemPortAt } from "@/lib/client/scenario-model";
+import { linkedPeer, systemPortAt } from "@/lib/browser/scenario-model";
 
 export type PortMenuAction = "mark" | "unmark" | "unlink" | "inspect";
 

@@ -9,8 +9,8 @@ import { cn } from "@/components/ui/cn";
 import { AddBlockPalette, ScenarioChart, CARD_WIDTH, type AddBlockChoice, type ChartSelection } from "@/components/chart";
 import { BlockInspector, ScenarioPanel } from "@/components/inspector";
 import { ResultsPanel } from "@/components/results";
-import { resolveVariables } from "@/lib/client/expressions";
-import { createHistory, recordEdit, redo, undo, type History } from "@/lib/client/history";
+import { resolveVariables } from "@/lib/browser/expressions";
+import { createHistory, recordEdit, redo, undo, type History } from "@/lib/browser/history";
 import {
   addBlock,
   addLink,
@@ -26,8 +26,8 @@ import {
   setSystemPort,
   type Clipboard,
   type PartSummary,
-} from "@/lib/client/scenario-model";
-import { useSolver } from "@/lib/client/use-solver";
+} from "@/lib/browser/scenario-model";
+import { useSolver } from "@/lib/browser/use-solver";
 import { PortMenu, type PortMenuAction } from "./port-menu";
 
 export type SaveState = "saved" | "unsaved" | "saving" | "conflict" | "error";

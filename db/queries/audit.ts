@@ -2,8 +2,8 @@ import "server-only";
 import { desc, eq, sql } from "drizzle-orm";
 import { db } from "@/db/client";
 import { auditEvents, users } from "@/db/schema";
-import { authorize } from "@/lib/permissions";
-import type { SessionUser } from "@/lib/auth/session";
+import { authorize } from "@/lib/server/permissions";
+import type { SessionUser } from "@/lib/server/auth/session";
 
 export type AuditEntry = {
   id: string;

@@ -2,10 +2,10 @@ import "server-only";
 import { and, asc, count, eq, gt, isNull } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { invitations, memberships, users, type Role } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
-import { AppError } from "@/lib/errors";
-import { authorize } from "@/lib/permissions";
-import type { SessionUser } from "@/lib/auth/session";
+import { recordAudit } from "@/lib/server/audit";
+import { AppError } from "@/lib/base/errors";
+import { authorize } from "@/lib/server/permissions";
+import type { SessionUser } from "@/lib/server/auth/session";
 
 export type Member = { userId: string; email: string; name: string; role: Role; joinedAt: Date };
 export type PendingInvitation = { id: string; email: string; role: Role; expiresAt: Date; createdAt: Date };

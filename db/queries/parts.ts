@@ -7,11 +7,11 @@ import { maxSingularValue, reciprocityError } from "@/engine/linalg";
 import { parseTouchstone, TouchstoneError, type TouchstoneData } from "@/engine/touchstone";
 import { parseTouchstoneCached } from "@/engine/system";
 import type { Scenario } from "@/engine/types";
-import { recordAudit } from "@/lib/audit";
-import type { SessionUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { authorize } from "@/lib/permissions";
-import { PART_MAX_BYTES } from "@/lib/validation/parts";
+import { recordAudit } from "@/lib/server/audit";
+import type { SessionUser } from "@/lib/server/auth/session";
+import { AppError } from "@/lib/base/errors";
+import { authorize } from "@/lib/server/permissions";
+import { PART_MAX_BYTES } from "@/lib/base/validation/parts";
 
 /** Largest singular value above which a part's data counts as active (measured data, so not zero). */
 export const PASSIVITY_TOLERANCE = 1e-6;

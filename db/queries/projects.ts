@@ -3,10 +3,10 @@ import { randomUUID } from "node:crypto";
 import { and, asc, eq } from "drizzle-orm";
 import { db, runInTransaction } from "@/db/client";
 import { memberships, projects, type Project, type Role } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
-import { AppError } from "@/lib/errors";
-import { authorize } from "@/lib/permissions";
-import type { SessionUser } from "@/lib/auth/session";
+import { recordAudit } from "@/lib/server/audit";
+import { AppError } from "@/lib/base/errors";
+import { authorize } from "@/lib/server/permissions";
+import type { SessionUser } from "@/lib/server/auth/session";
 
 export type ProjectWithRole = Pick<Project, "id" | "name" | "description" | "createdAt" | "updatedAt"> & { role: Role };
 

@@ -5,12 +5,12 @@ import { db, runInTransaction, type Executor } from "@/db/client";
 import { scenarioRevisions, scenarios, users, type ScenarioRevision } from "@/db/schema";
 import { parseScenario } from "@/engine/scenario";
 import type { Scenario } from "@/engine/types";
-import { scenarioForEngine } from "@/lib/client/scenario-model";
-import { recordAudit } from "@/lib/audit";
-import type { SessionUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { authorize } from "@/lib/permissions";
-import type { DraftScenario } from "@/lib/validation/scenarios";
+import { scenarioForEngine } from "@/lib/browser/scenario-model";
+import { recordAudit } from "@/lib/server/audit";
+import type { SessionUser } from "@/lib/server/auth/session";
+import { AppError } from "@/lib/base/errors";
+import { authorize } from "@/lib/server/permissions";
+import type { DraftScenario } from "@/lib/base/validation/scenarios";
 import { getPartTexts } from "./parts";
 
 export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed" | "import";

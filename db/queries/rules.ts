@@ -4,10 +4,10 @@ import { and, asc, eq, sql } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { rules, users } from "@/db/schema";
 import type { RuleSpec } from "@/engine/types";
-import { recordAudit } from "@/lib/audit";
-import type { SessionUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { authorize } from "@/lib/permissions";
+import { recordAudit } from "@/lib/server/audit";
+import type { SessionUser } from "@/lib/server/auth/session";
+import { AppError } from "@/lib/base/errors";
+import { authorize } from "@/lib/server/permissions";
 
 /** A project rule as the API returns it. `spec.id` is the rule's name, unique in the project. */
 export type RuleView = {

@@ -5,10 +5,10 @@ import { db, runInTransaction } from "@/db/client";
 import { scenarioRevisions, scenarios, users, type Role } from "@/db/schema";
 import type { Scenario } from "@/engine/types";
 import { scenarioFromTemplate } from "@/components/scenarios/templates";
-import { recordAudit } from "@/lib/audit";
-import type { SessionUser } from "@/lib/auth/session";
-import { authorize } from "@/lib/permissions";
-import type { DraftScenario, ScenarioTemplate } from "@/lib/validation/scenarios";
+import { recordAudit } from "@/lib/server/audit";
+import type { SessionUser } from "@/lib/server/auth/session";
+import { authorize } from "@/lib/server/permissions";
+import type { DraftScenario, ScenarioTemplate } from "@/lib/base/validation/scenarios";
 import { insertRevision, loadRevision, requireScenarioRow, type RevisionDetail } from "./revisions";
 
 /** A scenario in the project's list. */

@@ -2,9 +2,9 @@ import "server-only";
 import { eq } from "drizzle-orm";
 import { db, type Executor } from "@/db/client";
 import { settings } from "@/db/schema";
-import { getEnv } from "@/lib/env";
-import { recordAudit, type AuditActor } from "@/lib/audit";
-import type { SignupMode } from "@/lib/validation/admin";
+import { getEnv } from "@/lib/base/env";
+import { recordAudit, type AuditActor } from "@/lib/server/audit";
+import type { SignupMode } from "@/lib/base/validation/admin";
 
 const SIGNUP_MODE_KEY = "signup_mode";
 

@@ -4,10 +4,10 @@ import { and, desc, eq, inArray, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { db, runInTransaction } from "@/db/client";
 import { memberships, projects, scenarioRevisions, scenarios, signoffs, users, type SignoffState } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
-import type { SessionUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { authorize } from "@/lib/permissions";
+import { recordAudit } from "@/lib/server/audit";
+import type { SessionUser } from "@/lib/server/auth/session";
+import { AppError } from "@/lib/base/errors";
+import { authorize } from "@/lib/server/permissions";
 import { loadRevision, requireScenarioRow } from "./revisions";
 
 /** Roles that may be asked to sign off (DESIGN: reviewers sign off; owners may too). */

@@ -3,8 +3,8 @@ import { randomUUID } from "node:crypto";
 import { asc, count, eq } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { users, type User } from "@/db/schema";
-import { recordAudit, type AuditActor } from "@/lib/audit";
-import { AppError } from "@/lib/errors";
+import { recordAudit, type AuditActor } from "@/lib/server/audit";
+import { AppError } from "@/lib/base/errors";
 
 /** What may leave the server about a user: never the password hash. */
 export type PublicUser = Pick<User, "id" | "email" | "name" | "isSiteAdmin" | "notifySignoff" | "createdAt">;

@@ -15,7 +15,7 @@ import * as adminUserRoute from "@/app/api/admin/users/[userId]/route";
 import * as adminSettingsRoute from "@/app/api/admin/settings/route";
 import * as schema from "@/db/schema";
 
-// Documented answers (lib/api.ts): body over 64 KiB → 413 payload_too_large; not JSON or not an
+// Documented answers (lib/server/api.ts): body over 64 KiB → 413 payload_too_large; not JSON or not an
 // object → 400 bad_request; JSON that fails the schema (wrong type, missing field) → 400
 // validation_failed with `fields`; no Origin on a write → 403. In every case nothing is written.
 

@@ -16,7 +16,7 @@ import { db } from "@/db/client";
 import { checkRuns, scenarioRevisions, scenarios, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
 import { getPartTexts } from "@/db/queries/parts";
-import { createSessionForUser } from "@/lib/auth/session";
+import { createSessionForUser } from "@/lib/server/auth/session";
 import type { CheckRunSummary, CheckRunView } from "@/components/checks/types";
 import type { RuleResult, LeakTraceResult, AllChecksResult, DriveResult, StateSweepResult } from "@/engine/checks";
 import type { Scenario } from "@/engine/types";

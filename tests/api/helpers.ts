@@ -42,9 +42,9 @@ export async function setUpDatabase(): Promise<void> {
   await migrateDatabase();
 }
 
-/** Start the fake SMTP server of lib/mail on this file's port. */
+/** Start the fake SMTP server of lib/server/mail on this file's port. */
 export async function startMailCatcher() {
-  const { startFakeSmtpServer } = await import("@/lib/mail/fake-smtp");
+  const { startFakeSmtpServer } = await import("@/lib/server/mail/fake-smtp");
   return startFakeSmtpServer({ port: SMTP_PORT });
 }
 
@@ -88,7 +88,7 @@ export function sessionCookieFrom(response: Response): string | null {
 
 /** Create an account directly (bypassing the API) and return its id and a session cookie. */
 export async function createAccount({ email, name = email.split("@")[0], password = "correct horse battery" }: { email: string; name?: string; password?: string }) {
-  const { signUp } = await import("@/lib/auth/accounts");
+  const { signUp } = await import("@/lib/server/auth/accounts");
   const { user, token } = await signUp({ email, name, password, viaInvitation: true });
   return { user, password, cookie: `portolan_session=${token}` };
 }

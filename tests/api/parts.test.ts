@@ -11,7 +11,7 @@ import * as scenariosRoute from "@/app/api/projects/[projectId]/scenarios/route"
 import * as revisionsRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/revisions/route";
 import { db } from "@/db/client";
 import { memberships, parts } from "@/db/schema";
-import { PART_MAX_BYTES } from "@/lib/validation/parts";
+import { PART_MAX_BYTES } from "@/lib/base/validation/parts";
 import type { Scenario } from "@/engine/types";
 
 type Account = Awaited<ReturnType<typeof createAccount>>;

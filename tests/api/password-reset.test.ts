@@ -7,8 +7,8 @@ import { POST as signInRoute } from "@/app/api/auth/sign-in/route";
 import { GET as sessionRoute } from "@/app/api/auth/session/route";
 import { db } from "@/db/client";
 import { outboxMessages, passwordResets } from "@/db/schema";
-import { hashToken } from "@/lib/auth/tokens";
-import { RESET_TOKEN_LIFETIME_MS } from "@/lib/auth/password-reset";
+import { hashToken } from "@/lib/server/auth/tokens";
+import { RESET_TOKEN_LIFETIME_MS } from "@/lib/server/auth/password-reset";
 
 let mail: Awaited<ReturnType<typeof startMailCatcher>>;
 

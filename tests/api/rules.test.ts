@@ -8,7 +8,7 @@ import * as ruleRoute from "@/app/api/projects/[projectId]/rules/[ruleId]/route"
 import { db } from "@/db/client";
 import { auditEvents, rules, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
-import { createSessionForUser } from "@/lib/auth/session";
+import { createSessionForUser } from "@/lib/server/auth/session";
 import type { RuleView } from "@/db/queries/rules";
 import { mergeRules } from "@/components/rules/rule-spec";
 import type { RuleSpec } from "@/engine/types";

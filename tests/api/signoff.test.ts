@@ -1,4 +1,4 @@
-// Sign-off end to end through the route handlers, with e-mail over SMTP to the fake server of lib/mail.
+// Sign-off end to end through the route handlers, with e-mail over SMTP to the fake server of lib/server/mail.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq, gt } from "drizzle-orm";
 import { call, createAccount, makeRequest, setUpDatabase, startMailCatcher, waitFor, type ErrorJson } from "./helpers";

@@ -1,9 +1,9 @@
 import { afterEach, beforeAll, describe, expect, it, vi } from "vitest";
 import { call, createAccount, makeRequest, sessionCookieFrom, setUpDatabase, type ErrorJson } from "./helpers";
 import { POST as signInRoute } from "@/app/api/auth/sign-in/route";
-import { ACCOUNT_FAILURE_LIMIT, BASE_LOCK_MS, IP_FAILURE_LIMIT, THROTTLE_WINDOW_MS } from "@/lib/auth/throttle";
+import { ACCOUNT_FAILURE_LIMIT, BASE_LOCK_MS, IP_FAILURE_LIMIT, THROTTLE_WINDOW_MS } from "@/lib/server/auth/throttle";
 
-// Policy under test (lib/auth/throttle.ts): 5 failures per account or 20 per client address within
+// Policy under test (lib/server/auth/throttle.ts): 5 failures per account or 20 per client address within
 // 15 minutes lock further attempts for 60 s, doubling with each lock in a row; success clears the count.
 // A fixed limit with exponential back-off is common practice (OWASP Authentication Cheat Sheet, "Account lockout").
 

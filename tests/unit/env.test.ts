@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { parseEnv } from "@/lib/env";
-import { safeNextPath } from "@/lib/actions";
+import { parseEnv } from "@/lib/base/env";
+import { safeNextPath } from "@/lib/server/actions";
 
 // The defaults documented for operators (issue 2, "Configuration"): development runs a local fake SMTP
 // server and the outbox; production uses a real SMTP_URL, hides the outbox and sets Secure cookies.

@@ -5,10 +5,10 @@ import {
   reevaluateExpressions,
   resolveVariables,
   validateVariableName,
-} from "@/lib/client/expressions";
+} from "@/lib/browser/expressions";
 import type { Scenario } from "@/engine/types";
 import type { ParamInfo } from "@/engine/blocks/params";
-import { readParamInput, valueToText } from "@/lib/client/param-input";
+import { readParamInput, valueToText } from "@/lib/browser/param-input";
 
 function value(text: string, q: Parameters<typeof evaluateQuantity>[1], scope?: Map<string, unknown>): number | [number, number] {
   const r = evaluateQuantity(text, q, scope);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { decodeEncodedWords, decodeQuotedPrintable, parseMessage } from "@/lib/mail/parse";
+import { decodeEncodedWords, decodeQuotedPrintable, parseMessage } from "@/lib/server/mail/parse";
 
 describe("outbox message parser", () => {
   // RFC 2045 §6.7 rule (5): a trailing "=" is a soft line break; "=XX" is an octet in hex.

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { ACTIONS, PERMISSIONS, can, type Action, type Role } from "@/lib/permission-table";
+import { ACTIONS, PERMISSIONS, can, type Action, type Role } from "@/lib/base/permission-table";
 
 // Expected access, written out by hand from the product design (DESIGN.md "The web app" and issue 2:
 // reviewers read, run checks, export bundles and sign off; engineers also edit scenarios, parts and

@@ -15,8 +15,8 @@ import {
   setSystemPort,
   updateBlock,
   type PartSummary,
-} from "@/lib/client/scenario-model";
-import { createHistory, recordEdit, redo, undo, HISTORY_LIMIT } from "@/lib/client/history";
+} from "@/lib/browser/scenario-model";
+import { createHistory, recordEdit, redo, undo, HISTORY_LIMIT } from "@/lib/browser/history";
 import { placePorts } from "@/components/chart/port-layout";
 
 // Port counts and numbering: DESIGN.md "Block kinds and port numbering".

@@ -8,8 +8,8 @@ import {
   reflectionToImpedance,
   solutionToCsv,
   unwrapRadians,
-} from "@/lib/client/results-math";
-import { formatDb, formatFrequency } from "@/lib/client/format";
+} from "@/lib/browser/results-math";
+import { formatDb, formatFrequency } from "@/lib/browser/format";
 
 const C0 = 299_792_458; // m/s, exact (SI Brochure, 9th ed., 2.3.1)
 

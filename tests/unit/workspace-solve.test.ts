@@ -1,10 +1,10 @@
 import { describe, expect, it } from "vitest";
 import type { Scenario } from "@/engine/types";
 import { parseTouchstone } from "@/engine/touchstone";
-import { runSolve } from "@/lib/client/solve";
-import { compositeTouchstone } from "@/lib/client/downloads";
-import { elementAt, groupDelay, magnitudeDb, solutionToCsv } from "@/lib/client/results-math";
-import { addBlock, addLink, scenarioForEngine, setSystemPort } from "@/lib/client/scenario-model";
+import { runSolve } from "@/lib/browser/solve";
+import { compositeTouchstone } from "@/lib/browser/downloads";
+import { elementAt, groupDelay, magnitudeDb, solutionToCsv } from "@/lib/browser/results-math";
+import { addBlock, addLink, scenarioForEngine, setSystemPort } from "@/lib/browser/scenario-model";
 
 const C0 = 299_792_458; // m/s, exact (SI Brochure, 9th ed., 2.3.1)
 

@@ -3,8 +3,8 @@ import Link from "next/link";
 import { redirect } from "next/navigation";
 import { Alert } from "@/components/ui/alert";
 import { getSignupMode } from "@/db/queries/settings";
-import { safeNextPath } from "@/lib/actions";
-import { getCurrentSession } from "@/lib/auth/session";
+import { safeNextPath } from "@/lib/server/actions";
+import { getCurrentSession } from "@/lib/server/auth/session";
 import { SignInForm } from "./sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { redirect } from "next/navigation";
 import { Button } from "@/components/ui/button";
-import { getCurrentSession } from "@/lib/auth/session";
+import { getCurrentSession } from "@/lib/server/auth/session";
 import { signOutAction } from "../actions";
 
 export const metadata: Metadata = { title: "Sign out" };

@@ -4,7 +4,7 @@ import { redirect } from "next/navigation";
 import { Alert } from "@/components/ui/alert";
 import { getSignupMode } from "@/db/queries/settings";
 import { countUsers } from "@/db/queries/users";
-import { getCurrentSession } from "@/lib/auth/session";
+import { getCurrentSession } from "@/lib/server/auth/session";
 import { SignUpForm } from "./sign-up-form";
 
 export const metadata: Metadata = { title: "Create an account" };

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { PageHeader } from "@/components/shell/page-header";
 import { Card, CardBody, CardDescription, CardHeader, CardTitle } from "@/components/ui";
 import { getSignoffNotifications } from "@/db/queries/signoffs";
-import { requireUser } from "@/lib/auth/session";
+import { requireUser } from "@/lib/server/auth/session";
 import { NotificationsForm } from "./notifications-form";
 
 export const metadata: Metadata = { title: "Account" };

@@ -5,12 +5,12 @@ import { z } from "zod";
 import { runInTransaction } from "@/db/client";
 import { setSignupMode } from "@/db/queries/settings";
 import { setSiteAdmin } from "@/db/queries/users";
-import { assertSiteAdmin } from "@/lib/admin";
-import { parseForm, runAction } from "@/lib/actions";
-import { requireUser } from "@/lib/auth/session";
-import type { FormState } from "@/lib/form-state";
-import { updateSettingsSchema } from "@/lib/validation/admin";
-import { idSchema } from "@/lib/validation/common";
+import { assertSiteAdmin } from "@/lib/server/admin";
+import { parseForm, runAction } from "@/lib/server/actions";
+import { requireUser } from "@/lib/server/auth/session";
+import type { FormState } from "@/lib/base/form-state";
+import { updateSettingsSchema } from "@/lib/base/validation/admin";
+import { idSchema } from "@/lib/base/validation/common";
 
 export async function updateSettingsAction(_previous: FormState, formData: FormData): Promise<FormState> {
   return runAction(formData, async (values) => {

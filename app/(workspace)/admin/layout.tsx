@@ -1,6 +1,6 @@
 import type { ReactNode } from "react";
 import { PageHeader } from "@/components/shell/page-header";
-import { requireSiteAdmin } from "@/lib/auth/session";
+import { requireSiteAdmin } from "@/lib/server/auth/session";
 import { ProjectTabs } from "../projects/[projectId]/project-tabs";
 
 /** Site administration: only site admins get past this layout (others go to /projects). */

@@ -5,12 +5,12 @@ import { redirect } from "next/navigation";
 import { z } from "zod";
 import { changeMemberRole, removeMember, revokeInvitation } from "@/db/queries/members";
 import { createProject, deleteProject, updateProject } from "@/db/queries/projects";
-import { parseForm, runAction } from "@/lib/actions";
-import { requireUser } from "@/lib/auth/session";
-import type { FormState } from "@/lib/form-state";
-import { inviteMember } from "@/lib/invitations";
-import { idSchema } from "@/lib/validation/common";
-import { changeRoleSchema, createProjectSchema, inviteMemberSchema, updateProjectSchema } from "@/lib/validation/projects";
+import { parseForm, runAction } from "@/lib/server/actions";
+import { requireUser } from "@/lib/server/auth/session";
+import type { FormState } from "@/lib/base/form-state";
+import { inviteMember } from "@/lib/server/invitations";
+import { idSchema } from "@/lib/base/validation/common";
+import { changeRoleSchema, createProjectSchema, inviteMemberSchema, updateProjectSchema } from "@/lib/base/validation/projects";
 
 // Every action validates its input with zod and checks the role on the server (inside the query functions).
 

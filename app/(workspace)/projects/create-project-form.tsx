@@ -6,7 +6,7 @@ import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { Textarea } from "@/components/ui/textarea";
-import { IDLE } from "@/lib/form-state";
+import { IDLE } from "@/lib/base/form-state";
 import { createProjectAction } from "./actions";
 
 export function CreateProjectForm() {

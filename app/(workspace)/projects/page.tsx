@@ -6,7 +6,7 @@ import { Card, CardBody, CardHeader, CardTitle } from "@/components/ui/card";
 import { EmptyState } from "@/components/ui/empty-state";
 import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listProjectsForUser } from "@/db/queries/projects";
-import { requireUser } from "@/lib/auth/session";
+import { requireUser } from "@/lib/server/auth/session";
 import { CreateProjectForm } from "./create-project-form";
 
 export const metadata: Metadata = { title: "Projects" };

@@ -1,6 +1,6 @@
 import { createProject, listProjectsForUser } from "@/db/queries/projects";
-import { apiRoute, json } from "@/lib/api";
-import { createProjectSchema } from "@/lib/validation/projects";
+import { apiRoute, json } from "@/lib/server/api";
+import { createProjectSchema } from "@/lib/base/validation/projects";
 
 /** GET /api/projects → { projects: [{ id, name, description, role, createdAt, updatedAt }] } (mine). */
 export const GET = apiRoute(async (ctx) => {

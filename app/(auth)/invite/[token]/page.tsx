@@ -2,9 +2,9 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { Alert } from "@/components/ui/alert";
 import { getUserByEmail } from "@/db/queries/users";
-import { getCurrentSession } from "@/lib/auth/session";
-import { findUsableInvitation } from "@/lib/invitations";
-import { tokenSchema } from "@/lib/validation/common";
+import { getCurrentSession } from "@/lib/server/auth/session";
+import { findUsableInvitation } from "@/lib/server/invitations";
+import { tokenSchema } from "@/lib/base/validation/common";
 import { AcceptInvitationForm } from "./accept-invitation-form";
 
 export const metadata: Metadata = { title: "Invitation" };

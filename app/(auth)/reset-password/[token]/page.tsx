@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { Alert } from "@/components/ui/alert";
-import { isResetTokenUsable } from "@/lib/auth/password-reset";
-import { tokenSchema } from "@/lib/validation/common";
+import { isResetTokenUsable } from "@/lib/server/auth/password-reset";
+import { tokenSchema } from "@/lib/base/validation/common";
 import { ResetPasswordForm } from "./reset-password-form";
 
 export const metadata: Metadata = { title: "Choose a new password" };

@@ -4,7 +4,7 @@ import { useActionState } from "react";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
-import { IDLE } from "@/lib/form-state";
+import { IDLE } from "@/lib/base/form-state";
 import { resetPasswordAction } from "../../actions";
 import { FormMessage } from "../../form-message";
 

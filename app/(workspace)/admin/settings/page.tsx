@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { getSignupMode } from "@/db/queries/settings";
-import { requireSiteAdmin } from "@/lib/auth/session";
+import { requireSiteAdmin } from "@/lib/server/auth/session";
 import { SettingsForm } from "./settings-form";
 
 export const metadata: Metadata = { title: "Settings" };

@@ -3,8 +3,8 @@
 import { useActionState } from "react";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
-import { IDLE } from "@/lib/form-state";
-import type { SignupMode } from "@/lib/validation/admin";
+import { IDLE } from "@/lib/base/form-state";
+import type { SignupMode } from "@/lib/base/validation/admin";
 import { updateSettingsAction } from "../actions";
 
 const OPTIONS: { value: SignupMode; label: string; hint: string }[] = [

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { Badge } from "@/components/ui/badge";
 import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listUsers } from "@/db/queries/users";
-import { requireSiteAdmin } from "@/lib/auth/session";
+import { requireSiteAdmin } from "@/lib/server/auth/session";
 import { SiteAdminToggle } from "./site-admin-toggle";
 
 export const metadata: Metadata = { title: "Users" };

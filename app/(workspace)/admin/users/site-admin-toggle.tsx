@@ -2,7 +2,7 @@
 
 import { useActionState } from "react";
 import { Button } from "@/components/ui/button";
-import { IDLE } from "@/lib/form-state";
+import { IDLE } from "@/lib/base/form-state";
 import { setSiteAdminAction } from "../actions";
 
 export function SiteAdminToggle({ userId, name, isSiteAdmin }: { userId: string; name: string; isSiteAdmin: boolean }) {

@@ -5,9 +5,9 @@ import { PageHeader } from "@/components/shell/page-header";
 import { EmptyState } from "@/components/ui/empty-state";
 import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listOutboxMessages } from "@/db/queries/outbox";
-import { requireSiteAdmin } from "@/lib/auth/session";
-import { getEnv } from "@/lib/env";
-import { isOutboxAvailable } from "@/lib/outbox";
+import { requireSiteAdmin } from "@/lib/server/auth/session";
+import { getEnv } from "@/lib/base/env";
+import { isOutboxAvailable } from "@/lib/server/outbox";
 
 export const metadata: Metadata = { title: "Outbox" };
 

@@ -1,7 +1,7 @@
 import type { ReactNode } from "react";
 import { PageHeader } from "@/components/shell/page-header";
 import { Badge } from "@/components/ui/badge";
-import { can } from "@/lib/permission-table";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "./load-project";
 import { ProjectTabs, type ProjectTab } from "./project-tabs";
 

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { Card, CardBody, CardDescription, CardHeader, CardTitle } from "@/components/ui/card";
-import { can } from "@/lib/permission-table";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "./load-project";
 import { DeleteProjectButton } from "./delete-project-button";
 import { ProjectSettingsForm } from "./project-settings-form";

@@ -6,7 +6,7 @@ import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { Textarea } from "@/components/ui/textarea";
-import { IDLE } from "@/lib/form-state";
+import { IDLE } from "@/lib/base/form-state";
 import { updateProjectAction } from "../actions";
 
 export function ProjectSettingsForm({ projectId, name, description }: { projectId: string; name: string; description: string }) {

@@ -1,5 +1,5 @@
 import { getSignoffNotifications, setSignoffNotifications } from "@/db/queries/signoffs";
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json } from "@/lib/server/api";
 import { notificationsSchema } from "./schema";
 
 /** GET /api/account/notifications → { notifySignoff } for the signed-in account. */

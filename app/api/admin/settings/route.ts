@@ -1,8 +1,8 @@
 import { runInTransaction } from "@/db/client";
 import { getSignupMode, setSignupMode } from "@/db/queries/settings";
-import { assertSiteAdmin } from "@/lib/admin";
-import { apiRoute, json } from "@/lib/api";
-import { updateSettingsSchema } from "@/lib/validation/admin";
+import { assertSiteAdmin } from "@/lib/server/admin";
+import { apiRoute, json } from "@/lib/server/api";
+import { updateSettingsSchema } from "@/lib/base/validation/admin";
 
 /** GET /api/admin/settings → { settings: { signupMode } } (site admin). */
 export const GET = apiRoute(async (ctx) => {

@@ -1,6 +1,6 @@
 import { listUsers } from "@/db/queries/users";
-import { assertSiteAdmin } from "@/lib/admin";
-import { apiRoute, json } from "@/lib/api";
+import { assertSiteAdmin } from "@/lib/server/admin";
+import { apiRoute, json } from "@/lib/server/api";
 
 /** GET /api/admin/users → { users } (site admin). */
 export const GET = apiRoute(async (ctx) => {

@@ -1,6 +1,6 @@
-import { apiRoute, json } from "@/lib/api";
-import { RESET_REQUESTED_MESSAGE, requestPasswordReset } from "@/lib/auth/password-reset";
-import { passwordResetRequestSchema } from "@/lib/validation/auth";
+import { apiRoute, json } from "@/lib/server/api";
+import { RESET_REQUESTED_MESSAGE, requestPasswordReset } from "@/lib/server/auth/password-reset";
+import { passwordResetRequestSchema } from "@/lib/base/validation/auth";
 
 /** POST /api/auth/password-reset { email } → 202, the same answer whether or not the account exists. */
 export const POST = apiRoute(async (ctx) => {

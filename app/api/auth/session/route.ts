@@ -1,4 +1,4 @@
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json } from "@/lib/server/api";
 
 /** GET /api/auth/session → 200 { user, expiresAt } for the signed-in user; 401 otherwise. */
 export const GET = apiRoute(async (ctx) => {

@@ -1,6 +1,6 @@
-import { apiRoute, json } from "@/lib/api";
-import { signIn } from "@/lib/auth/accounts";
-import { signInSchema } from "@/lib/validation/auth";
+import { apiRoute, json } from "@/lib/server/api";
+import { signIn } from "@/lib/server/auth/accounts";
+import { signInSchema } from "@/lib/base/validation/auth";
 
 /** POST /api/auth/sign-in { email, password } → 200 { user } and a session cookie; 401 wrong credentials; 429 throttled. */
 export const POST = apiRoute(async (ctx) => {

@@ -1,5 +1,5 @@
-import { apiRoute, noContent } from "@/lib/api";
-import { blankSessionCookie, invalidateSessionToken, readSessionToken } from "@/lib/auth/session";
+import { apiRoute, noContent } from "@/lib/server/api";
+import { blankSessionCookie, invalidateSessionToken, readSessionToken } from "@/lib/server/auth/session";
 
 /** POST /api/auth/sign-out → 204; ends the session in the database and clears the cookie. */
 export const POST = apiRoute(async (ctx) => {

@@ -1,6 +1,6 @@
-import { apiRoute, json } from "@/lib/api";
-import { signUp } from "@/lib/auth/accounts";
-import { signUpSchema } from "@/lib/validation/auth";
+import { apiRoute, json } from "@/lib/server/api";
+import { signUp } from "@/lib/server/auth/accounts";
+import { signUpSchema } from "@/lib/base/validation/auth";
 
 /** POST /api/auth/sign-up { name, email, password } → 201 { user } and a session cookie. */
 export const POST = apiRoute(async (ctx) => {

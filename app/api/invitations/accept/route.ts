@@ -1,7 +1,7 @@
-import { apiRoute, json } from "@/lib/api";
-import { validateSessionToken, readSessionToken } from "@/lib/auth/session";
-import { acceptInvitation } from "@/lib/invitations";
-import { acceptInvitationSchema } from "@/lib/validation/auth";
+import { apiRoute, json } from "@/lib/server/api";
+import { validateSessionToken, readSessionToken } from "@/lib/server/auth/session";
+import { acceptInvitation } from "@/lib/server/invitations";
+import { acceptInvitationSchema } from "@/lib/base/validation/auth";
 
 /**
  * POST /api/invitations/accept { token, name?, password? } → 200 { projectId, role, user }.

@@ -1,6 +1,6 @@
 import { deleteProject, getProjectForUser, updateProject } from "@/db/queries/projects";
-import { apiRoute, json, noContent } from "@/lib/api";
-import { updateProjectSchema } from "@/lib/validation/projects";
+import { apiRoute, json, noContent } from "@/lib/server/api";
+import { updateProjectSchema } from "@/lib/base/validation/projects";
 
 type Params = { projectId: string };
 

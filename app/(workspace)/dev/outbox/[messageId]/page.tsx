@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { PageHeader } from "@/components/shell/page-header";
 import { getOutboxMessage } from "@/db/queries/outbox";
-import { requireSiteAdmin } from "@/lib/auth/session";
-import { isOutboxAvailable } from "@/lib/outbox";
+import { requireSiteAdmin } from "@/lib/server/auth/session";
+import { isOutboxAvailable } from "@/lib/server/outbox";
 
 export const metadata: Metadata = { title: "Message" };
 

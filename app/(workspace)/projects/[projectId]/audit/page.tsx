@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { EmptyState } from "@/components/ui/empty-state";
 import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listAuditEvents } from "@/db/queries/audit";
-import { can } from "@/lib/permission-table";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 
 export const metadata: Metadata = { title: "Audit log" };

@@ -6,7 +6,7 @@ import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { Select } from "@/components/ui/select";
-import { IDLE } from "@/lib/form-state";
+import { IDLE } from "@/lib/base/form-state";
 import { inviteMemberAction } from "../../actions";
 import { ROLE_OPTIONS } from "./role-options";
 

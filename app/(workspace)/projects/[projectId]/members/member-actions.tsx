@@ -4,8 +4,8 @@ import { useActionState, useState } from "react";
 import { Button } from "@/components/ui/button";
 import { ConfirmDialog } from "@/components/ui/confirm-dialog";
 import { Select } from "@/components/ui/select";
-import type { Role } from "@/lib/permission-table";
-import { IDLE } from "@/lib/form-state";
+import type { Role } from "@/lib/base/permission-table";
+import { IDLE } from "@/lib/base/form-state";
 import { changeRoleAction, removeMemberAction, revokeInvitationAction } from "../../actions";
 import { ROLE_OPTIONS } from "./role-options";
 

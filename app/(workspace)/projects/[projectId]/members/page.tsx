@@ -3,7 +3,7 @@ import { Badge } from "@/components/ui/badge";
 import { Card, CardBody, CardDescription, CardHeader, CardTitle } from "@/components/ui/card";
 import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listMembers, listPendingInvitations } from "@/db/queries/members";
-import { can } from "@/lib/permission-table";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 import { InviteForm } from "./invite-form";
 import { MemberActions, RevokeInvitationButton } from "./member-actions";

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { listParts } from "@/db/queries/parts";
 import { PartsLibrary } from "@/components/parts/parts-library";
 import { serialiseDates, type PartView } from "@/components/scenarios/types";
-import { can } from "@/lib/permission-table";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 
 export const metadata: Metadata = { title: "Parts" };

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { listRules } from "@/db/queries/rules";
 import { RulesEditor, type RuleItem } from "@/components/rules/rules-editor";
 import { serialiseDates } from "@/components/scenarios/types";
-import { can } from "@/lib/permission-table";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 
 export const metadata: Metadata = { title: "Rules" };

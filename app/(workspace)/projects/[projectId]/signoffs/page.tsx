@@ -6,7 +6,7 @@ import { STATE_LABELS } from "@/components/signoff/types";
 import { EmptyState } from "@/components/ui/empty-state";
 import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listSignoffs, type SignoffView } from "@/db/queries/signoffs";
-import { can } from "@/lib/permission-table";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 
 export const metadata: Metadata = { title: "Sign-offs" };

@@ -1,7 +1,7 @@
 import { setSiteAdmin } from "@/db/queries/users";
-import { assertSiteAdmin } from "@/lib/admin";
-import { apiRoute, json } from "@/lib/api";
-import { updateUserSchema } from "@/lib/validation/admin";
+import { assertSiteAdmin } from "@/lib/server/admin";
+import { apiRoute, json } from "@/lib/server/api";
+import { updateUserSchema } from "@/lib/base/validation/admin";
 
 /** PATCH /api/admin/users/:userId { isSiteAdmin } → { user } (site admin); 409 when removing the last site admin. */
 export const PATCH = apiRoute<{ userId: string }>(async (ctx) => {

@@ -1,6 +1,6 @@
-import { apiRoute, json } from "@/lib/api";
-import { confirmPasswordReset } from "@/lib/auth/password-reset";
-import { passwordResetConfirmSchema } from "@/lib/validation/auth";
+import { apiRoute, json } from "@/lib/server/api";
+import { confirmPasswordReset } from "@/lib/server/auth/password-reset";
+import { passwordResetConfirmSchema } from "@/lib/base/validation/auth";
 
 /** POST /api/auth/password-reset/confirm { token, password } → 200; 422 if the link expired or was used. */
 export const POST = apiRoute(async (ctx) => {

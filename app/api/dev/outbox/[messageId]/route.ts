@@ -1,7 +1,7 @@
 import { getOutboxMessage } from "@/db/queries/outbox";
-import { apiRoute, json } from "@/lib/api";
-import { AppError } from "@/lib/errors";
-import { assertOutboxAccess } from "@/lib/outbox";
+import { apiRoute, json } from "@/lib/server/api";
+import { AppError } from "@/lib/base/errors";
+import { assertOutboxAccess } from "@/lib/server/outbox";
 
 /** GET /api/dev/outbox/:messageId → { message } with text, html and raw source (site admin). */
 export const GET = apiRoute<{ messageId: string }>(async (ctx) => {

@@ -1,5 +1,5 @@
 import { listAuditEvents } from "@/db/queries/audit";
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json } from "@/lib/server/api";
 
 /** GET /api/projects/:projectId/audit → { events } newest first (owners). */
 export const GET = apiRoute<{ projectId: string }>(async (ctx) => {

@@ -1,6 +1,6 @@
-import { apiRoute, json, readBodyBytes } from "@/lib/api";
-import { BUNDLE_UPLOAD_MAX_BYTES, importBundle } from "@/lib/bundle/import";
-import { AppError } from "@/lib/errors";
+import { apiRoute, json, readBodyBytes } from "@/lib/server/api";
+import { BUNDLE_UPLOAD_MAX_BYTES, importBundle } from "@/lib/server/bundle/import";
+import { AppError } from "@/lib/base/errors";
 
 type Params = { projectId: string };
 

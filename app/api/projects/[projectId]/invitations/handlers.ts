@@ -1,6 +1,6 @@
-import { apiRoute, json } from "@/lib/api";
-import { inviteMember } from "@/lib/invitations";
-import { inviteMemberSchema } from "@/lib/validation/projects";
+import { apiRoute, json } from "@/lib/server/api";
+import { inviteMember } from "@/lib/server/invitations";
+import { inviteMemberSchema } from "@/lib/base/validation/projects";
 
 /** Shared by POST …/invitations and POST …/members: invite by e-mail with a role (owners) → 201 { invitation }. */
 export const inviteHandler = apiRoute<{ projectId: string }>(async (ctx) => {

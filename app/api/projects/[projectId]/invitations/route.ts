@@ -1,5 +1,5 @@
 import { listPendingInvitations } from "@/db/queries/members";
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json } from "@/lib/server/api";
 import { inviteHandler } from "./handlers";
 
 /** GET /api/projects/:projectId/invitations → { invitations } still open (owners). */

@@ -1,5 +1,5 @@
 import { listMembers } from "@/db/queries/members";
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json } from "@/lib/server/api";
 import { inviteHandler } from "../invitations/handlers";
 
 /** GET /api/projects/:projectId/members → { members: [{ userId, email, name, role, joinedAt }] } (any member). */

@@ -1,7 +1,7 @@
 import { createPart, listParts } from "@/db/queries/parts";
-import { apiRoute, json, readBodyBytes, parseWith } from "@/lib/api";
-import { AppError } from "@/lib/errors";
-import { PART_MAX_BYTES, partFileNameSchema, partNameSchema } from "@/lib/validation/parts";
+import { apiRoute, json, readBodyBytes, parseWith } from "@/lib/server/api";
+import { AppError } from "@/lib/base/errors";
+import { PART_MAX_BYTES, partFileNameSchema, partNameSchema } from "@/lib/base/validation/parts";
 
 type Params = { projectId: string };
 

@@ -1,5 +1,5 @@
 import { createRule, listRules } from "@/db/queries/rules";
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json } from "@/lib/server/api";
 import { ruleBodySchema } from "./schema";
 
 type Params = { projectId: string };

@@ -1,6 +1,6 @@
 import { createScenario, listScenarios } from "@/db/queries/scenarios";
-import { apiRoute, json } from "@/lib/api";
-import { createScenarioSchema, SCENARIO_BODY_LIMIT_BYTES } from "@/lib/validation/scenarios";
+import { apiRoute, json } from "@/lib/server/api";
+import { createScenarioSchema, SCENARIO_BODY_LIMIT_BYTES } from "@/lib/base/validation/scenarios";
 
 type Params = { projectId: string };
 

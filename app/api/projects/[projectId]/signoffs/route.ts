@@ -1,7 +1,7 @@
 import { listSignoffs, requestSignoff } from "@/db/queries/signoffs";
-import { apiRoute, json, parseWith } from "@/lib/api";
-import { notifySignoffRequested } from "@/lib/signoffs/notify";
-import { idSchema } from "@/lib/validation/common";
+import { apiRoute, json, parseWith } from "@/lib/server/api";
+import { notifySignoffRequested } from "@/lib/server/signoffs/notify";
+import { idSchema } from "@/lib/base/validation/common";
 import { requestSignoffSchema } from "./schema";
 
 type Params = { projectId: string };

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { idSchema } from "@/lib/validation/common";
+import { idSchema } from "@/lib/base/validation/common";
 
 export const requestSignoffSchema = z.object({
   scenarioId: idSchema,

@@ -5,8 +5,8 @@ import { getScenario } from "@/db/queries/scenarios";
 import { ScenarioWorkspace } from "@/components/scenarios/scenario-workspace";
 import { SignoffPanel } from "@/components/signoff/signoff-panel";
 import { serialiseDates, type PartView, type RevisionView } from "@/components/scenarios/types";
-import { isAppError } from "@/lib/errors";
-import { can } from "@/lib/permission-table";
+import { isAppError } from "@/lib/base/errors";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../../load-project";
 
 export const metadata: Metadata = { title: "Scenario" };

@@ -1,5 +1,5 @@
 import { revokeInvitation } from "@/db/queries/members";
-import { apiRoute, noContent } from "@/lib/api";
+import { apiRoute, noContent } from "@/lib/server/api";
 
 /** DELETE /api/projects/:projectId/invitations/:invitationId → 204 (owners). */
 export const DELETE = apiRoute<{ projectId: string; invitationId: string }>(async (ctx) => {

@@ -1,6 +1,6 @@
 import { changeMemberRole, removeMember } from "@/db/queries/members";
-import { apiRoute, json, noContent } from "@/lib/api";
-import { changeRoleSchema } from "@/lib/validation/projects";
+import { apiRoute, json, noContent } from "@/lib/server/api";
+import { changeRoleSchema } from "@/lib/base/validation/projects";
 
 type Params = { projectId: string; userId: string };
 

@@ -1,5 +1,5 @@
 import { deletePart, getPart, PartInUseError } from "@/db/queries/parts";
-import { apiRoute, json, noContent } from "@/lib/api";
+import { apiRoute, json, noContent } from "@/lib/server/api";
 
 type Params = { projectId: string; partId: string };
 

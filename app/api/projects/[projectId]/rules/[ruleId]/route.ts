@@ -1,5 +1,5 @@
 import { deleteRule, updateRule } from "@/db/queries/rules";
-import { apiRoute, json, noContent } from "@/lib/api";
+import { apiRoute, json, noContent } from "@/lib/server/api";
 import { ruleBodySchema } from "../schema";
 
 type Params = { projectId: string; ruleId: string };

@@ -1,7 +1,7 @@
 import { deleteScenario, getScenario, renameScenario } from "@/db/queries/scenarios";
-import { apiRoute, json, noContent, parseWith } from "@/lib/api";
-import { idSchema } from "@/lib/validation/common";
-import { renameScenarioSchema } from "@/lib/validation/scenarios";
+import { apiRoute, json, noContent, parseWith } from "@/lib/server/api";
+import { idSchema } from "@/lib/base/validation/common";
+import { renameScenarioSchema } from "@/lib/base/validation/scenarios";
 
 type Params = { projectId: string; scenarioId: string };
 

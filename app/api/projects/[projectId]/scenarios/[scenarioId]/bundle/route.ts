@@ -1,6 +1,6 @@
-import { apiRoute, parseWith } from "@/lib/api";
-import { exportBundle } from "@/lib/bundle/export";
-import { idSchema } from "@/lib/validation/common";
+import { apiRoute, parseWith } from "@/lib/server/api";
+import { exportBundle } from "@/lib/server/bundle/export";
+import { idSchema } from "@/lib/base/validation/common";
 
 type Params = { projectId: string; scenarioId: string };
 

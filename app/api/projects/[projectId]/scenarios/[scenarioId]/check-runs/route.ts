@@ -1,6 +1,6 @@
 import { listCheckRuns, runCheck } from "@/db/queries/check-runs";
 import { checkRunRequestSchema } from "@/components/checks/check-inputs";
-import { apiRoute, json, parseWith } from "@/lib/api";
+import { apiRoute, json, parseWith } from "@/lib/server/api";
 import { z } from "zod";
 
 type Params = { projectId: string; scenarioId: string };

@@ -1,7 +1,7 @@
 import { duplicateScenario } from "@/db/queries/scenarios";
-import { apiRoute, json, parseWith, readBodyText } from "@/lib/api";
-import { AppError } from "@/lib/errors";
-import { duplicateScenarioSchema } from "@/lib/validation/scenarios";
+import { apiRoute, json, parseWith, readBodyText } from "@/lib/server/api";
+import { AppError } from "@/lib/base/errors";
+import { duplicateScenarioSchema } from "@/lib/base/validation/scenarios";
 
 type Params = { projectId: string; scenarioId: string };
 

@@ -1,6 +1,6 @@
 import { listRevisions, saveRevision, StaleRevisionError } from "@/db/queries/revisions";
-import { apiRoute, json } from "@/lib/api";
-import { saveRevisionSchema, SCENARIO_BODY_LIMIT_BYTES } from "@/lib/validation/scenarios";
+import { apiRoute, json } from "@/lib/server/api";
+import { saveRevisionSchema, SCENARIO_BODY_LIMIT_BYTES } from "@/lib/base/validation/scenarios";
 
 type Params = { projectId: string; scenarioId: string };
 

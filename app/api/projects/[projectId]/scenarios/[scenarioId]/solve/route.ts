@@ -4,12 +4,12 @@ import { parseScenario } from "@/engine/scenario";
 import { solveScenario } from "@/engine/system";
 import { writeTouchstone } from "@/engine/touchstone";
 import { EngineInputError, SingularSystemError, type Solution } from "@/engine/types";
-import { apiRoute, json, parseWith } from "@/lib/api";
-import { fileStem } from "@/lib/client/downloads";
-import { solutionToCsv } from "@/lib/client/results-math";
-import { scenarioForEngine } from "@/lib/client/scenario-model";
-import { AppError } from "@/lib/errors";
-import { solveQuerySchema } from "@/lib/validation/scenarios";
+import { apiRoute, json, parseWith } from "@/lib/server/api";
+import { fileStem } from "@/lib/browser/downloads";
+import { solutionToCsv } from "@/lib/browser/results-math";
+import { scenarioForEngine } from "@/lib/browser/scenario-model";
+import { AppError } from "@/lib/base/errors";
+import { solveQuerySchema } from "@/lib/base/validation/scenarios";
 
 type Params = { projectId: string; scenarioId: string };
 

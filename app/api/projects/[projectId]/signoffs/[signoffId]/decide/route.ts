@@ -1,6 +1,6 @@
 import { decideSignoff } from "@/db/queries/signoffs";
-import { apiRoute, json } from "@/lib/api";
-import { notifySignoffDecided } from "@/lib/signoffs/notify";
+import { apiRoute, json } from "@/lib/server/api";
+import { notifySignoffDecided } from "@/lib/server/signoffs/notify";
 import { decideSignoffSchema } from "../../schema";
 
 type Params = { projectId: string; signoffId: string };

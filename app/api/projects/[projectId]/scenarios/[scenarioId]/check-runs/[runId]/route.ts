@@ -1,5 +1,5 @@
 import { getCheckRun } from "@/db/queries/check-runs";
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json } from "@/lib/server/api";
 
 type Params = { projectId: string; scenarioId: string; runId: string };
 

@@ -1,5 +1,5 @@
 import { restoreRevision } from "@/db/queries/revisions";
-import { apiRoute, json } from "@/lib/api";
+import { apiRoute, json } from "@/lib/server/api";
 
 type Params = { projectId: string; scenarioId: string; revisionId: string };
 

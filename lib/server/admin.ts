@@ -1,6 +1,6 @@
 import "server-only";
-import { AppError } from "@/lib/errors";
-import type { SessionUser } from "@/lib/auth/session";
+import { AppError } from "@/lib/base/errors";
+import type { SessionUser } from "@/lib/server/auth/session";
 
 /** Site-admin-only operations (users, settings). */
 export function assertSiteAdmin(user: SessionUser): void {

@@ -4,14 +4,14 @@ import { runInTransaction } from "@/db/client";
 import { getInvitationByTokenHash, insertInvitation, markInvitationAccepted, type InvitationWithProject } from "@/db/queries/invitations";
 import { getUserByEmail } from "@/db/queries/users";
 import { memberships, projects, users, type Role } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
-import { signUp, type SignedIn } from "@/lib/auth/accounts";
-import { createSessionForUser, type SessionUser } from "@/lib/auth/session";
-import { generateToken, hashToken } from "@/lib/auth/tokens";
-import { AppError } from "@/lib/errors";
-import { sendMail } from "@/lib/mail/send";
-import { invitationMail } from "@/lib/mail/templates";
-import { authorize } from "@/lib/permissions";
+import { recordAudit } from "@/lib/server/audit";
+import { signUp, type SignedIn } from "@/lib/server/auth/accounts";
+import { createSessionForUser, type SessionUser } from "@/lib/server/auth/session";
+import { generateToken, hashToken } from "@/lib/server/auth/tokens";
+import { AppError } from "@/lib/base/errors";
+import { sendMail } from "@/lib/server/mail/send";
+import { invitationMail } from "@/lib/server/mail/templates";
+import { authorize } from "@/lib/server/permissions";
 
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
 

@@ -6,10 +6,10 @@ import { db } from "@/db/client";
 import { BUNDLE_PATHS, BundleError, bundleFiles, computeBundleResults, sha256, writeBundleZip, type BundleIdentity } from "@/engine/bundle";
 import { EngineInputError, SingularSystemError } from "@/engine/types";
 import packageJson from "@/package.json";
-import { recordAudit } from "@/lib/audit";
-import type { SessionUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { authorize } from "@/lib/permissions";
+import { recordAudit } from "@/lib/server/audit";
+import type { SessionUser } from "@/lib/server/auth/session";
+import { AppError } from "@/lib/base/errors";
+import { authorize } from "@/lib/server/permissions";
 import { renderReportHtml } from "./report-html";
 
 export type ExportedBundle = { fileName: string; bytes: Uint8Array; identity: BundleIdentity; revisionNumber: number; contentHash: string };

@@ -3,7 +3,7 @@ import { DrizzleSQLiteAdapter } from "@lucia-auth/adapter-drizzle";
 import { Lucia, TimeSpan } from "lucia";
 import { getDb } from "@/db/client";
 import { sessions, users } from "@/db/schema";
-import { getEnv } from "@/lib/env";
+import { getEnv } from "@/lib/base/env";
 
 export const SESSION_COOKIE_NAME = "portolan_session";
 

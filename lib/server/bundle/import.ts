@@ -8,12 +8,12 @@ import { parts, scenarios } from "@/db/schema";
 import { BundleError, engineScenario, openBundle, usedPartFiles, type BundleManifest } from "@/engine/bundle";
 import { parseScenario } from "@/engine/scenario";
 import { EngineInputError } from "@/engine/types";
-import { recordAudit } from "@/lib/audit";
-import type { SessionUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { authorize } from "@/lib/permissions";
-import { PART_FILE_NAME_PATTERN, PART_MAX_BYTES } from "@/lib/validation/parts";
-import { draftScenarioSchema, scenarioNameSchema, type DraftScenario } from "@/lib/validation/scenarios";
+import { recordAudit } from "@/lib/server/audit";
+import type { SessionUser } from "@/lib/server/auth/session";
+import { AppError } from "@/lib/base/errors";
+import { authorize } from "@/lib/server/permissions";
+import { PART_FILE_NAME_PATTERN, PART_MAX_BYTES } from "@/lib/base/validation/parts";
+import { draftScenarioSchema, scenarioNameSchema, type DraftScenario } from "@/lib/base/validation/scenarios";
 
 /** Largest bundle zip accepted for upload (its inflated contents are limited separately, to 50 MB). */
 export const BUNDLE_UPLOAD_MAX_BYTES = 20 * 1024 * 1024;

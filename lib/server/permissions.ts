@@ -2,11 +2,11 @@ import "server-only";
 import { and, eq } from "drizzle-orm";
 import { db, type Executor } from "@/db/client";
 import { memberships, projects } from "@/db/schema";
-import { AppError } from "@/lib/errors";
-import { can, type Action, type Role } from "@/lib/permission-table";
+import { AppError } from "@/lib/base/errors";
+import { can, type Action, type Role } from "@/lib/base/permission-table";
 
-export { ACTIONS, PERMISSIONS, can } from "@/lib/permission-table";
-export type { Action, Role } from "@/lib/permission-table";
+export { ACTIONS, PERMISSIONS, can } from "@/lib/base/permission-table";
+export type { Action, Role } from "@/lib/base/permission-table";
 
 /** The user's role in the project, or null when they are not a member (or the project does not exist). */
 export async function getRole({ userId, projectId, executor = db }: { userId: string; projectId: string; executor?: Executor }): Promise<Role | null> {

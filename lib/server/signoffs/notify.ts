@@ -1,7 +1,7 @@
 import "server-only";
 import type { DecidedSignoff, RequestedSignoffs, SignoffRecipient, SignoffView } from "@/db/queries/signoffs";
-import { sendMail, type MailInput } from "@/lib/mail/send";
-import { appLink } from "@/lib/mail/templates";
+import { sendMail, type MailInput } from "@/lib/server/mail/send";
+import { appLink } from "@/lib/server/mail/templates";
 
 function escapeHtml(value: string): string {
   return value.replace(/[&<>"']/g, (ch) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[ch] ?? ch);

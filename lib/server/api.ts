@@ -1,10 +1,10 @@
 import "server-only";
 import type { Cookie } from "lucia";
 import { z, type ZodType } from "zod";
-import { authenticateRequest, type SessionInfo, type SessionUser } from "@/lib/auth/session";
-import { clientAddress } from "@/lib/auth/accounts";
-import { getEnv } from "@/lib/env";
-import { AppError, isAppError } from "@/lib/errors";
+import { authenticateRequest, type SessionInfo, type SessionUser } from "@/lib/server/auth/session";
+import { clientAddress } from "@/lib/server/auth/accounts";
+import { getEnv } from "@/lib/base/env";
+import { AppError, isAppError } from "@/lib/base/errors";
 
 /** Default limit for JSON request bodies. */
 export const DEFAULT_BODY_LIMIT_BYTES = 64 * 1024;

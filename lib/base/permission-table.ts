@@ -3,7 +3,7 @@ import type { Role } from "@/db/schema";
 export type { Role };
 
 /**
- * Client-safe: components may import this file to hide controls; the server decides through lib/permissions.ts.
+ * Client-safe: components may import this file to hide controls; the server decides through lib/server/permissions.ts.
  *
  * Every project action and the roles allowed to do it: the one place where access is decided.
  * Reviewers read, run checks, export bundles and sign off; engineers also edit; owners also manage

@@ -3,7 +3,7 @@ import { cache } from "react";
 import { cookies } from "next/headers";
 import { redirect } from "next/navigation";
 import type { Cookie, Session, User } from "lucia";
-import { AppError } from "@/lib/errors";
+import { AppError } from "@/lib/base/errors";
 import { getLucia, SESSION_COOKIE_NAME } from "./lucia";
 import { generateToken, hashToken } from "./tokens";
 

@@ -1,7 +1,7 @@
 import "server-only";
-import { getEnv } from "@/lib/env";
-import { AppError } from "@/lib/errors";
-import type { SessionUser } from "@/lib/auth/session";
+import { getEnv } from "@/lib/base/env";
+import { AppError } from "@/lib/base/errors";
+import type { SessionUser } from "@/lib/server/auth/session";
 
 /** The development outbox exists outside production, or in production when OUTBOX_ENABLED is set. */
 export function isOutboxAvailable(): boolean {

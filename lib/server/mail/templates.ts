@@ -1,6 +1,6 @@
 import "server-only";
 import type { Role } from "@/db/schema";
-import { getEnv } from "@/lib/env";
+import { getEnv } from "@/lib/base/env";
 import type { MailInput } from "./send";
 
 function escapeHtml(value: string): string {

@@ -2,7 +2,7 @@ import "server-only";
 import { runInTransaction } from "@/db/client";
 import { countUsers, getUserWithPasswordByEmail, insertUser, type PublicUser } from "@/db/queries/users";
 import { getSignupMode } from "@/db/queries/settings";
-import { AppError } from "@/lib/errors";
+import { AppError } from "@/lib/base/errors";
 import { hashPassword, verifyAgainstDummy, verifyPassword } from "./password";
 import { createSessionForUser, type SessionUser } from "./session";
 import { assertNotThrottled, clearSignInFailures, recordFailedSignIn, tooManyAttempts } from "./throttle";

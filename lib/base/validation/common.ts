@@ -22,7 +22,7 @@ export const roleSchema = z.enum(["owner", "engineer", "reviewer"], { error: "Ch
 
 export const idSchema = z.string().min(1).max(100);
 
-/** Random tokens from lib/auth/tokens (43 base64url characters); a little slack for other lengths. */
+/** Random tokens from lib/server/auth/tokens (43 base64url characters); a little slack for other lengths. */
 export const tokenSchema = z
   .string({ error: "The link is missing its token." })
   .regex(/^[A-Za-z0-9_-]{20,200}$/, { error: "The link is not valid." });

@@ -2,9 +2,9 @@ import "server-only";
 import { headers } from "next/headers";
 import { unstable_rethrow } from "next/navigation";
 import type { ZodType } from "zod";
-import { validationError } from "@/lib/api";
-import { AppError, isAppError } from "@/lib/errors";
-import type { FormState } from "@/lib/form-state";
+import { validationError } from "@/lib/server/api";
+import { AppError, isAppError } from "@/lib/base/errors";
+import type { FormState } from "@/lib/base/form-state";
 
 /** Fields never sent back to the browser in `values`. */
 const SECRET_FIELDS = new Set(["password", "confirmPassword", "token"]);
@@ -49,7 +49,7 @@ export async function runAction(formData: FormData, work: (values: Record<string
 
 /** The client address of the current request (server actions), for throttling. */
 export async function actionClientAddress(): Promise<string> {
-  const { clientAddress } = await import("@/lib/auth/accounts");
+  const { clientAddress } = await import("@/lib/server/auth/accounts");
   return clientAddress(await headers());
 }
 

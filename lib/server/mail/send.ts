@@ -1,6 +1,6 @@
 import "server-only";
 import nodemailer, { type Transporter } from "nodemailer";
-import { getEnv } from "@/lib/env";
+import { getEnv } from "@/lib/base/env";
 
 export type MailInput = { to: string; subject: string; text: string; html?: string };
 

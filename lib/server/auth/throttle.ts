@@ -2,7 +2,7 @@ import "server-only";
 import { eq, inArray } from "drizzle-orm";
 import { getDb, runInTransaction } from "@/db/client";
 import { loginThrottle } from "@/db/schema";
-import { AppError } from "@/lib/errors";
+import { AppError } from "@/lib/base/errors";
 
 /** Failed sign-ins counted within this window. */
 export const THROTTLE_WINDOW_MS = 15 * 60 * 1000;
