@@ -6,6 +6,8 @@
  * frequencies is stored frequency-major, row-major: element (k, i, j) has its real part at
  * `2 * ((k * n + i) * n + j)` and its imaginary part right after it.
  */
+import type { z } from "zod";
+import type { RuleSchema } from "./scenario/schema";
 
 /** S-parameters of an n-port at nf frequencies (see the layout above). Ports are 0-based here. */
 export type SData = {
@@ -78,11 +80,8 @@ export type PortRef = string;
 
 export type SystemPortSpec = { name: string; at: PortRef; z0?: number };
 
-export type RuleSpec =
-  | { kind: "isolation"; id?: string; from: string; to: string; band: [number, number]; min_db: number; one_way?: boolean }
-  | { kind: "match"; id?: string; port: string; band: [number, number]; min_return_loss_db?: number; max_vswr?: number }
-  | { kind: "insertion_loss"; id?: string; from: string; to: string; band: [number, number]; max_db: number }
-  | { kind: "drive"; id?: string; sources: { port: string; dbm: number }[]; band?: [number, number]; coherent?: boolean };
+/** A rule of a scenario file, as its zod schema (engine/scenario/schema.ts `RuleSchema`) reads it. */
+export type RuleSpec = z.infer<typeof RuleSchema>;
 
 export type Scenario = {
   format: "portolan.scenario/1";

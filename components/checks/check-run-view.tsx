@@ -2,8 +2,8 @@
 
 import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult } from "@/engine/checks";
 import { VerdictBadge } from "@/components/ui";
-import { CHECK_TITLES } from "./check-inputs";
-import type { CheckRunView as Run } from "./types";
+import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
+import type { CheckRunView as Run } from "@/lib/domain/checks/types";
 import { DriveView } from "./drive-view";
 import { LeakTraceView } from "./leak-trace-view";
 import { LedgerChart } from "./ledger-chart";

@@ -3,9 +3,9 @@
 import useSWR from "swr";
 import { Alert, Button, Spinner, VerdictBadge } from "@/components/ui";
 import { cn } from "@/components/ui/cn";
-import { CHECK_TITLES } from "./check-inputs";
+import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import { CheckRunView } from "./check-run-view";
-import type { CheckRunSummary, CheckRunView as Run } from "./types";
+import type { CheckRunSummary, CheckRunView as Run } from "@/lib/domain/checks/types";
 
 export const checkRunUrls = {
   list: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs`,

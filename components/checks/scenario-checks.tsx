@@ -10,10 +10,10 @@ import { can, type Role } from "@/lib/base/permission-table";
 import { addBlock, setSwitchState, setSystemPort, type PartSummary } from "@/lib/browser/scenario-model";
 import { CARD_WIDTH } from "@/components/chart";
 import type { LeakTraceResult } from "@/engine/checks";
-import type { CheckName } from "./check-inputs";
+import type { CheckName } from "@/lib/domain/checks/inputs";
 import { ChecksPanel, checkRunUrls } from "./checks-panel";
 import { highlightOfPath, type ChartHighlight } from "./leak-trace-view";
-import type { CheckRunView } from "./types";
+import type { CheckRunView } from "@/lib/domain/checks/types";
 
 export type ScenarioChecksProps = {
   projectId: string;

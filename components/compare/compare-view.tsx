@@ -7,7 +7,7 @@ import type { AllChecksResult, RuleResult } from "@/engine/checks";
 import type { Scenario } from "@/engine/types";
 import { Alert, Badge, Field, Select, Spinner, VerdictBadge } from "@/components/ui";
 import { checkRunUrls } from "@/components/checks/checks-panel";
-import type { CheckRunSummary, CheckRunView } from "@/components/checks/types";
+import type { CheckRunSummary, CheckRunView } from "@/lib/domain/checks/types";
 import { fmt, fmtMargin } from "@/components/checks/format";
 import { defaultPair } from "@/components/helm/commands";
 import { diffScenarios, type ScenarioDiff } from "./diff-scenarios";

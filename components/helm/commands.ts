@@ -2,7 +2,7 @@ import type { RuleSpec, Scenario } from "@/engine/types";
 import { can, type Action, type Role } from "@/lib/base/permission-table";
 import { ADDABLE_KINDS, kindTitle } from "@/lib/browser/catalogue";
 import { nextSystemPortName, portCountOf, switchThrows, type PartSummary } from "@/lib/browser/scenario-model";
-import { mergeRules } from "@/components/rules/rule-spec";
+import { mergeRules } from "@/lib/domain/rules/merge";
 import type { HelmScenarioActions } from "./helm-context";
 import { formatBand, parseBand, parseDb, parseFrequency, parseSources, type Parsed } from "./parse-input";
 

@@ -4,7 +4,7 @@ import { createContext, useCallback, useContext, useEffect, useMemo, useRef, use
 import type { BlockKind, PortRef, Scenario } from "@/engine/types";
 import type { Role } from "@/lib/base/permission-table";
 import type { PartSummary } from "@/lib/browser/scenario-model";
-import type { CheckName } from "@/components/checks/check-inputs";
+import type { CheckName } from "@/lib/domain/checks/inputs";
 
 /**
  * What a scenario page lends the helm while it is on screen: the scenario being edited, the viewer's

@@ -4,7 +4,7 @@ import { useRef, useState, type FormEvent } from "react";
 import useSWR from "swr";
 import { Alert, Button, ConfirmDialog, EmptyState, Field, Input, Spinner, Table, TBody, Td, Th, THead, Tr, VerdictBadge } from "@/components/ui";
 import { ApiError, fetchJson, scenarioUrls, requestJson } from "@/components/scenarios/api-client";
-import type { PartView } from "@/components/scenarios/types";
+import type { PartView } from "@/lib/domain/parts/types";
 import { formatFrequency } from "@/lib/browser/format";
 import { PART_MAX_BYTES } from "@/lib/base/validation/parts";
 import { PreviewTrace } from "./preview-trace";

@@ -1,6 +1,6 @@
 "use client";
 
-import { elementAt, sName, traceLabel, type SolvedView } from "@/lib/browser/results-math";
+import { elementAt, sName, traceLabel, type SolvedView } from "@/lib/domain/results/results-math";
 import { formatFixed, formatFrequency } from "@/lib/browser/format";
 import { cn } from "@/components/ui/cn";
 

@@ -4,7 +4,8 @@ import { useMemo, useState } from "react";
 import { Download, X } from "lucide-react";
 import type { Scenario } from "@/engine/types";
 import { Alert, Badge, Button, EmptyState, Input, Select, Spinner } from "@/components/ui";
-import { compositeTouchstone, downloadText as download, fileStem } from "@/lib/browser/downloads";
+import { compositeTouchstone, downloadText as download } from "@/lib/browser/downloads";
+import { fileStem } from "@/lib/domain/scenarios/file-stem";
 import { evaluateQuantity } from "@/lib/browser/expressions";
 import { formatFixed, formatFrequency, formatNumber } from "@/lib/browser/format";
 import {
@@ -14,7 +15,7 @@ import {
   traceLabel,
   traceValues,
   type TraceQuantity,
-} from "@/lib/browser/results-math";
+} from "@/lib/domain/results/results-math";
 import type { SolverState } from "@/lib/browser/use-solver";
 import { PortMatrix } from "./port-matrix";
 import { SmithChart } from "./smith-chart";

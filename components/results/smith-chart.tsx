@@ -1,7 +1,7 @@
 "use client";
 
 import { useMemo, useRef, useState } from "react";
-import { elementAt, reflectionToImpedance, type SolvedView } from "@/lib/browser/results-math";
+import { elementAt, reflectionToImpedance, type SolvedView } from "@/lib/domain/results/results-math";
 import { formatFixed, formatFrequency, formatImpedance } from "@/lib/browser/format";
 
 export type SmithChartProps = {

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import type { RuleSpec } from "@/engine/types";
 import { formatBand, parseBand, parseDb, parseSources } from "@/components/helm/parse-input";
-import { RULE_KINDS, ruleSpecSchema } from "./rule-spec";
+import { RULE_KINDS, ruleSpecSchema } from "@/lib/domain/rules/schema";
 
 /** The rules form as typed: text fields, with units allowed in bands ("2.4 GHz to 2.48 GHz") and powers. */
 export type RuleFormValues = {

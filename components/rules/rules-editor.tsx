@@ -8,7 +8,7 @@ import type { RuleSpec } from "@/engine/types";
 import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components/ui";
 import { SortableTable, type SortColumn } from "@/components/checks/sortable-table";
 import { formatBand } from "@/components/helm/parse-input";
-import { RULE_KIND_LABELS, RULE_KINDS } from "./rule-spec";
+import { RULE_KIND_LABELS, RULE_KINDS } from "@/lib/domain/rules/schema";
 import { EMPTY_RULE_FORM, formFromSpec, ruleFormSchema, specFromForm, type RuleFormValues } from "./rule-form";
 
 export type RuleItem = { id: string; kind: RuleSpec["kind"]; spec: RuleSpec; createdByName: string | null; updatedAt: string };

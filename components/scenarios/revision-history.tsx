@@ -4,7 +4,7 @@ import useSWR from "swr";
 import { useState } from "react";
 import { Alert, Badge, Button, Spinner, Table, TBody, Td, Th, THead, Tr } from "@/components/ui";
 import { fetchJson, requestJson, scenarioUrls } from "./api-client";
-import type { RevisionListItem } from "./types";
+import type { RevisionListItem } from "@/lib/domain/scenarios/types";
 
 const when = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone: "UTC" });
 

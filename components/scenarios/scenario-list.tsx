@@ -7,8 +7,8 @@ import useSWR from "swr";
 import { Alert, Button, ConfirmDialog, EmptyState, Field, Input, Select, Spinner, Table, TBody, Td, Th, THead, Tr, Badge } from "@/components/ui";
 import { SCENARIO_TEMPLATES, type ScenarioTemplate } from "@/lib/base/validation/scenarios";
 import { ApiError, fetchJson, requestJson, scenarioUrls } from "./api-client";
-import { TEMPLATE_LABELS } from "./templates";
-import type { ScenarioListItem } from "./types";
+import { TEMPLATE_LABELS } from "@/lib/domain/scenarios/templates";
+import type { ScenarioListItem } from "@/lib/domain/scenarios/types";
 
 const when = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
 

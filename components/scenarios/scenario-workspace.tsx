@@ -13,7 +13,8 @@ import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
 import { ApiError, fetchJson, requestJson, scenarioUrls } from "./api-client";
 import { RevisionHistory } from "./revision-history";
-import type { PartView, RevisionView, ScenarioView } from "./types";
+import type { PartView } from "@/lib/domain/parts/types";
+import type { RevisionView, ScenarioView } from "@/lib/domain/scenarios/types";
 
 /** Wait after the last edit before saving, ms. */
 export const AUTOSAVE_DELAY_MS = 1500;

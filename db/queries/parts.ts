@@ -3,7 +3,6 @@ import { randomUUID } from "node:crypto";
 import { and, asc, eq } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { parts, scenarioRevisions, scenarios, type Part } from "@/db/schema";
-import { maxSingularValue, reciprocityError } from "@/engine/linalg";
 import { parseTouchstone, TouchstoneError, type TouchstoneData } from "@/engine/touchstone";
 import { parseTouchstoneCached } from "@/engine/system";
 import type { Scenario } from "@/engine/types";
@@ -12,61 +11,14 @@ import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
 import { authorize } from "@/lib/server/permissions";
 import { PART_MAX_BYTES } from "@/lib/base/validation/parts";
+import { partFigures, partPreview, partVerdicts, type PartPreview, type PartVerdicts } from "@/lib/domain/parts/figures";
 
-/** Largest singular value above which a part's data counts as active (measured data, so not zero). */
-export const PASSIVITY_TOLERANCE = 1e-6;
-/** |S_ij − S_ji| above which a part's data counts as non-reciprocal. */
-export const RECIPROCITY_TOLERANCE = 1e-6;
-
-/** A small |S| trace for the parts page: |S21| (|S11| for one-port data) in dB, at most 120 points. */
-export type PartPreview = { label: string; hz: number[]; db: number[] };
-
-/** A part as the API lists it (no text unless asked). */
-export type PartSummaryRow = Omit<Part, "text" | "projectId" | "uploadedBy"> & {
-  /** "pass" when σmax ≤ 1 + tolerance over the data, else "fail" (passive parts must not add energy) */
-  passivity: "pass" | "fail";
-  /** "pass" when S = Sᵀ within tolerance, else "warn" (isolators and amplifiers are legitimately not) */
-  reciprocity: "pass" | "warn";
-  preview: PartPreview;
-  text?: string;
-};
-
-/** Passivity and reciprocity figures of Touchstone data (Pozar, Microwave Engineering 4th ed., §4.3). */
-export function partFigures(data: TouchstoneData) {
-  let maxSingular = 0;
-  let maxSingularHz = data.frequencies[0];
-  let recip = 0;
-  let recipHz = data.frequencies[0];
-  for (let k = 0; k < data.s.nf; k++) {
-    const sv = maxSingularValue(data.s, k);
-    if (sv > maxSingular) {
-      maxSingular = sv;
-      maxSingularHz = data.frequencies[k];
-    }
-    const r = reciprocityError(data.s, k);
-    if (r > recip) {
-      recip = r;
-      recipHz = data.frequencies[k];
-    }
-  }
-  return { maxSingular, maxSingularHz, reciprocityError: recip, reciprocityHz: recipHz };
-}
-
-/** |S21| (or |S11| for one-port data) in dB at up to `max` evenly spaced points of the data. */
-export function partPreview(data: TouchstoneData, max = 120): PartPreview {
-  const n = data.s.n;
-  const [i, j] = n >= 2 ? [1, 0] : [0, 0];
-  const step = Math.max(1, Math.ceil(data.s.nf / max));
-  const hz: number[] = [];
-  const db: number[] = [];
-  for (let k = 0; k < data.s.nf; k += step) {
-    const at = 2 * ((k * n + i) * n + j);
-    const mag = Math.hypot(data.s.data[at], data.s.data[at + 1]);
-    hz.push(data.frequencies[k]);
-    db.push(mag > 0 ? 20 * Math.log10(mag) : -300);
-  }
-  return { label: n >= 2 ? "|S21|" : "|S11|", hz, db };
-}
+/** A part as the API lists it (no text unless asked), with its verdicts (lib/domain/parts/figures.ts). */
+export type PartSummaryRow = Omit<Part, "text" | "projectId" | "uploadedBy"> &
+  PartVerdicts & {
+    preview: PartPreview;
+    text?: string;
+  };
 
 function summarise(row: Part, withText: boolean): PartSummaryRow {
   const { text, projectId: _projectId, uploadedBy: _uploadedBy, ...rest } = row;
@@ -80,8 +32,7 @@ function summarise(row: Part, withText: boolean): PartSummaryRow {
   }
   return {
     ...rest,
-    passivity: row.maxSingular <= 1 + PASSIVITY_TOLERANCE ? "pass" : "fail",
-    reciprocity: row.reciprocityError <= RECIPROCITY_TOLERANCE ? "pass" : "warn",
+    ...partVerdicts(row),
     preview,
     ...(withText ? { text } : {}),
   };

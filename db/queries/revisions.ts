@@ -3,9 +3,8 @@ import { createHash, randomUUID } from "node:crypto";
 import { and, desc, eq } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { scenarioRevisions, scenarios, users, type ScenarioRevision } from "@/db/schema";
-import { parseScenario } from "@/engine/scenario";
 import type { Scenario } from "@/engine/types";
-import { scenarioForEngine } from "@/lib/browser/scenario-model";
+import { scenarioWarnings } from "@/lib/domain/scenarios/for-engine";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
@@ -44,28 +43,6 @@ export function canonicalJson(value: unknown): string {
 /** SHA-256 (hex) of the canonical JSON of a scenario: what a sign-off binds to. */
 export function hashScenarioContent(content: unknown): string {
   return createHash("sha256").update(canonicalJson(content), "utf8").digest("hex");
-}
-
-/**
- * What the engine says about a (possibly incomplete) scenario: reference problems, missing parts.
- * Saving never fails on these; they are stored with the revision and shown as warnings.
- */
-export function scenarioWarnings(content: Scenario, partTexts: Record<string, string>): string[] {
-  const warnings: string[] = [];
-  if (content.blocks.length === 0) warnings.push("The chart has no blocks yet.");
-  if (content.ports.length === 0) warnings.push("No system ports are marked yet.");
-  for (const block of content.blocks) {
-    if (block.kind === "touchstone" && block.data === undefined && block.file !== undefined && partTexts[block.file] === undefined) {
-      warnings.push(`Block ${block.id} uses ${block.file}, which is not among the project's parts.`);
-    }
-  }
-  if (warnings.length > 0) return warnings;
-  try {
-    parseScenario(scenarioForEngine(content), { parts: partTexts });
-  } catch (error) {
-    warnings.push(error instanceof Error ? error.message : String(error));
-  }
-  return warnings;
 }
 
 const revisionColumns = {

@@ -19,11 +19,6 @@ export type RuleView = {
   updatedAt: Date;
 };
 
-/** The name of a rule (its `id` field), used in verdicts and for the merge with a scenario's own rules. */
-export function ruleLabel(spec: RuleSpec, index: number): string {
-  return spec.id ?? `rules[${index}]`;
-}
-
 async function selectRules(executor: Executor, projectId: string): Promise<RuleView[]> {
   const rows = await executor
     .select({ id: rules.id, kind: rules.kind, spec: rules.spec, createdAt: rules.createdAt, updatedAt: rules.updatedAt, createdByName: users.name })

@@ -4,7 +4,7 @@ import { asc, eq } from "drizzle-orm";
 import { db, runInTransaction } from "@/db/client";
 import { scenarioRevisions, scenarios, users, type Role } from "@/db/schema";
 import type { Scenario } from "@/engine/types";
-import { scenarioFromTemplate } from "@/components/scenarios/templates";
+import { scenarioFromTemplate } from "@/lib/domain/scenarios/templates";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { authorize } from "@/lib/server/permissions";

@@ -74,40 +74,48 @@ export const SystemPortSchema = z.object({
 
 const band = z.tuple([positiveHz, positiveHz]);
 
-export const RuleSchema = z.discriminatedUnion("kind", [
-  z.object({
-    kind: z.literal("isolation"),
-    id: z.string().optional(),
-    from: z.string().min(1),
-    to: z.string().min(1),
-    band,
-    min_db: finite,
-    one_way: z.boolean().optional(),
-  }),
-  z.object({
-    kind: z.literal("match"),
-    id: z.string().optional(),
-    port: z.string().min(1),
-    band,
-    min_return_loss_db: finite.optional(),
-    max_vswr: z.number().min(1).optional(),
-  }),
-  z.object({
-    kind: z.literal("insertion_loss"),
-    id: z.string().optional(),
-    from: z.string().min(1),
-    to: z.string().min(1),
-    band,
-    max_db: finite,
-  }),
-  z.object({
-    kind: z.literal("drive"),
-    id: z.string().optional(),
-    sources: z.array(z.object({ port: z.string().min(1), dbm: finite })).min(1),
-    band: band.optional(),
-    coherent: z.boolean().optional(),
-  }),
-]);
+/**
+ * The four rule kinds of a scenario file, each its own object so that the web app's rule forms and
+ * check inputs extend them instead of restating them. `RuleSpec` in engine/types.ts
+ * is inferred from `RuleSchema`.
+ */
+export const IsolationRuleSchema = z.object({
+  kind: z.literal("isolation"),
+  id: z.string().optional(),
+  from: z.string().min(1),
+  to: z.string().min(1),
+  band,
+  min_db: finite,
+  one_way: z.boolean().optional(),
+});
+
+export const MatchRuleSchema = z.object({
+  kind: z.literal("match"),
+  id: z.string().optional(),
+  port: z.string().min(1),
+  band,
+  min_return_loss_db: finite.optional(),
+  max_vswr: z.number().min(1).optional(),
+});
+
+export const InsertionLossRuleSchema = z.object({
+  kind: z.literal("insertion_loss"),
+  id: z.string().optional(),
+  from: z.string().min(1),
+  to: z.string().min(1),
+  band,
+  max_db: finite,
+});
+
+export const DriveRuleSchema = z.object({
+  kind: z.literal("drive"),
+  id: z.string().optional(),
+  sources: z.array(z.object({ port: z.string().min(1), dbm: finite })).min(1),
+  band: band.optional(),
+  coherent: z.boolean().optional(),
+});
+
+export const RuleSchema = z.discriminatedUnion("kind", [IsolationRuleSchema, MatchRuleSchema, InsertionLossRuleSchema, DriveRuleSchema]);
 
 export const ScenarioSchema = z.object({
   format: z.literal("portolan.scenario/1"),

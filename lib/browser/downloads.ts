@@ -2,7 +2,7 @@
  * Files the results panel offers: the composite as Touchstone and as CSV, and the browser download.
  */
 import { writeTouchstone } from "@/engine/touchstone";
-import type { SolvedView } from "./results-math";
+import type { SolvedView } from "@/lib/domain/results/results-math";
 
 /**
  * Touchstone text of the composite, RI in GHz: version 1.1 when every system port has the same Z0,
@@ -20,11 +20,6 @@ export function compositeTouchstone(view: SolvedView, scenarioName: string): str
     },
     { format: "RI", unit: "GHz" },
   );
-}
-
-/** A safe file name stem from a scenario name. */
-export function fileStem(name: string): string {
-  return name.trim().replace(/[^A-Za-z0-9._-]+/g, "_").replace(/^_+|_+$/g, "") || "scenario";
 }
 
 /** Offers `text` as a file download (Blob + temporary link). Browser only. */

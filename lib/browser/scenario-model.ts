@@ -3,9 +3,10 @@
  * The chart, the inspector and the keyboard commands all edit through these, so the rules (one link per
  * port, a system port is never linked, ids are unique) live in one place and are unit-tested.
  *
- * Port counts follow DESIGN.md "Block kinds and port numbering"; they are kept here, not read from the
- * engine, so that editing works (and is testable) without evaluating any model.
+ * Port counts come from the engine's block catalogue (engine/blocks/catalogue.ts, docs/blocks.md), read
+ * as declarations: editing works (and is testable) without evaluating any model.
  */
+import { BLOCK_CATALOGUE } from "@/engine/blocks/catalogue";
 import type { BlockKind, BlockSpec, PortRef, Scenario, SystemPortSpec } from "@/engine/types";
 
 /**
@@ -25,23 +26,6 @@ export type EditResult = { ok: true; scenario: Scenario } | { ok: false; reason:
 
 /** Blocks copied with the links among them. */
 export type Clipboard = { blocks: WorkspaceBlock[]; links: [PortRef, PortRef][] };
-
-const FIXED_PORTS: Partial<Record<BlockKind, number>> = {
-  load: 1,
-  antenna: 1,
-  attenuator: 2,
-  line: 2,
-  phase_shifter: 2,
-  isolator: 2,
-  amplifier: 2,
-  filter: 2,
-  splitter: 3,
-  tee: 3,
-  circulator: 3,
-  coupler: 4,
-  hybrid90: 4,
-  hybrid180: 4,
-};
 
 /** Short id stems per kind; ids become e.g. PAD1, SW2. */
 const ID_STEMS: Record<BlockKind, string> = {
@@ -96,8 +80,8 @@ export function findPart(block: BlockSpec, parts: readonly PartSummary[] = []): 
  * a part its declared count (block.ports, the part list, or the .sNp file name). 0 when unknown.
  */
 export function portCountOf(block: BlockSpec, parts: readonly PartSummary[] = []): number {
-  const fixed = FIXED_PORTS[block.kind];
-  if (fixed !== undefined) return fixed;
+  const fixed = block.kind === "touchstone" ? undefined : BLOCK_CATALOGUE[block.kind].ports;
+  if (typeof fixed === "number") return fixed;
   const params = block.params ?? {};
   if (block.kind === "switch") return 1 + positiveInt(params.throws, 1);
   if (block.kind === "array") return positiveInt(params.elements, 1);
@@ -436,22 +420,6 @@ export function pasteBlocks(
   return {
     scenario: { ...scenario, blocks: [...scenario.blocks, ...blocks], links: [...scenario.links, ...links] },
     ids: blocks.map((b) => b.id),
-  };
-}
-
-/**
- * The scenario as the engine reads it: `expr` and the chart position removed from every block, so that
- * moving a block does not trigger a solve.
- */
-export function scenarioForEngine(scenario: Scenario): Scenario {
-  return {
-    ...scenario,
-    blocks: scenario.blocks.map((b) => {
-      const { expr: _expr, position: _position, ...rest } = b as WorkspaceBlock;
-      void _expr;
-      void _position;
-      return rest;
-    }),
   };
 }
 

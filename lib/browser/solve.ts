@@ -5,7 +5,7 @@
 import { parseScenario } from "@/engine/scenario";
 import { solveScenario } from "@/engine/system";
 import type { Scenario } from "@/engine/types";
-import type { SolvedView } from "./results-math";
+import type { SolvedView } from "@/lib/domain/results/results-math";
 
 export type SolveRequest = {
   /** increases with every request; a response with an older seq than the latest is stale */

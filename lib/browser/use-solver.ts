@@ -5,7 +5,8 @@
  */
 import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState } from "react";
 import type { Scenario } from "@/engine/types";
-import { partTexts, scenarioForEngine, type PartSummary } from "./scenario-model";
+import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
+import { partTexts, type PartSummary } from "./scenario-model";
 import type { SolveRequest, SolveResponse } from "./solve";
 
 /** Wait after the last change before solving, ms. */

@@ -17,7 +17,7 @@ import { checkRuns, scenarioRevisions, scenarios, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
 import { getPartTexts } from "@/db/queries/parts";
 import { createSessionForUser } from "@/lib/server/auth/session";
-import type { CheckRunSummary, CheckRunView } from "@/components/checks/types";
+import type { CheckRunSummary, CheckRunView } from "@/lib/domain/checks/types";
 import type { RuleResult, LeakTraceResult, AllChecksResult, DriveResult, StateSweepResult } from "@/engine/checks";
 import type { Scenario } from "@/engine/types";
 

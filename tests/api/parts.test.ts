@@ -96,7 +96,8 @@ describe("uploading parts", () => {
     ]);
     expect(part.maxSingular).toBeCloseTo(ref.sigma, 9);
     expect(part.reciprocityError).toBeCloseTo(ref.recip, 9);
-    expect(part.passivity).toBe(ref.sigma <= 1 + 1e-6 ? "pass" : "fail");
+    // measured data beyond 1e-6 warns, as the engine's data-quality check judges it (engine/checks/data-quality.ts)
+    expect(part.passivity).toBe(ref.sigma <= 1 + 1e-6 ? "pass" : "warn");
     expect(part.reciprocity).toBe(ref.recip <= 1e-6 ? "pass" : "warn");
     expect(part.preview.label).toBe("|S21|");
     expect(part.preview.hz.length).toBe(ref.f.length);

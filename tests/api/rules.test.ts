@@ -10,7 +10,7 @@ import { auditEvents, rules, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
 import { createSessionForUser } from "@/lib/server/auth/session";
 import type { RuleView } from "@/db/queries/rules";
-import { mergeRules } from "@/components/rules/rule-spec";
+import { mergeRules } from "@/lib/domain/rules/merge";
 import type { RuleSpec } from "@/engine/types";
 
 let projectId: string;

@@ -10,12 +10,12 @@ import {
   portCountOf,
   removeBlocks,
   renameBlock,
-  scenarioForEngine,
   setSwitchState,
   setSystemPort,
   updateBlock,
   type PartSummary,
 } from "@/lib/browser/scenario-model";
+import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
 import { createHistory, recordEdit, redo, undo, HISTORY_LIMIT } from "@/lib/browser/history";
 import { placePorts } from "@/components/chart/port-layout";
 

@@ -8,7 +8,7 @@ import {
   reflectionToImpedance,
   solutionToCsv,
   unwrapRadians,
-} from "@/lib/browser/results-math";
+} from "@/lib/domain/results/results-math";
 import { formatDb, formatFrequency } from "@/lib/browser/format";
 
 const C0 = 299_792_458; // m/s, exact (SI Brochure, 9th ed., 2.3.1)

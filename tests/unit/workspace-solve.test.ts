@@ -3,8 +3,9 @@ import type { Scenario } from "@/engine/types";
 import { parseTouchstone } from "@/engine/touchstone";
 import { runSolve } from "@/lib/browser/solve";
 import { compositeTouchstone } from "@/lib/browser/downloads";
-import { elementAt, groupDelay, magnitudeDb, solutionToCsv } from "@/lib/browser/results-math";
-import { addBlock, addLink, scenarioForEngine, setSystemPort } from "@/lib/browser/scenario-model";
+import { elementAt, groupDelay, magnitudeDb, solutionToCsv } from "@/lib/domain/results/results-math";
+import { addBlock, addLink, setSystemPort } from "@/lib/browser/scenario-model";
+import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
 
 const C0 = 299_792_458; // m/s, exact (SI Brochure, 9th ed., 2.3.1)
 

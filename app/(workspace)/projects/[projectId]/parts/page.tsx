@@ -1,7 +1,8 @@
 import type { Metadata } from "next";
 import { listParts } from "@/db/queries/parts";
 import { PartsLibrary } from "@/components/parts/parts-library";
-import { serialiseDates, type PartView } from "@/components/scenarios/types";
+import type { PartView } from "@/lib/domain/parts/types";
+import { serialiseDates } from "@/lib/domain/scenarios/types";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 

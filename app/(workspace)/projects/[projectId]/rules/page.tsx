@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { listRules } from "@/db/queries/rules";
 import { RulesEditor, type RuleItem } from "@/components/rules/rules-editor";
-import { serialiseDates } from "@/components/scenarios/types";
+import { serialiseDates } from "@/lib/domain/scenarios/types";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { listScenarios } from "@/db/queries/scenarios";
 import { ScenarioList } from "@/components/scenarios/scenario-list";
-import { serialiseDates, type ScenarioListItem } from "@/components/scenarios/types";
+import { serialiseDates, type ScenarioListItem } from "@/lib/domain/scenarios/types";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 

@@ -1,6 +1,6 @@
 import { z } from "zod";
-import { ruleSpecSchema } from "@/components/rules/rule-spec";
+import { ruleSpecSchema } from "@/lib/domain/rules/schema";
 
-/** POST …/rules and PUT …/rules/:ruleId: `{ spec }`, a project rule (see components/rules/rule-spec.ts). */
+/** POST …/rules and PUT …/rules/:ruleId: `{ spec }`, a project rule (see lib/domain/rules/schema.ts). */
 export const ruleBodySchema = z.object({ spec: ruleSpecSchema }).strict();
 export type RuleBody = z.infer<typeof ruleBodySchema>;

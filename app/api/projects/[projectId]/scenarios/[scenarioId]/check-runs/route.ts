@@ -1,5 +1,6 @@
-import { listCheckRuns, runCheck } from "@/db/queries/check-runs";
-import { checkRunRequestSchema } from "@/components/checks/check-inputs";
+import { listCheckRuns } from "@/db/queries/check-runs";
+import { runCheck } from "@/lib/server/check-runs";
+import { checkRunRequestSchema } from "@/lib/domain/checks/inputs";
 import { apiRoute, json, parseWith } from "@/lib/server/api";
 import { z } from "zod";
 

@@ -5,9 +5,9 @@ import { solveScenario } from "@/engine/system";
 import { writeTouchstone } from "@/engine/touchstone";
 import { EngineInputError, SingularSystemError, type Solution } from "@/engine/types";
 import { apiRoute, json, parseWith } from "@/lib/server/api";
-import { fileStem } from "@/lib/browser/downloads";
-import { solutionToCsv } from "@/lib/browser/results-math";
-import { scenarioForEngine } from "@/lib/browser/scenario-model";
+import { fileStem } from "@/lib/domain/scenarios/file-stem";
+import { solutionToCsv } from "@/lib/domain/results/results-math";
+import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
 import { AppError } from "@/lib/base/errors";
 import { solveQuerySchema } from "@/lib/base/validation/scenarios";
 

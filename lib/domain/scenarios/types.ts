@@ -28,28 +28,6 @@ export type RevisionListItem = Omit<RevisionView, "content">;
 
 export type ScenarioView = { id: string; projectId: string; name: string; latestRevisionId: string; latestRevisionNumber: number };
 
-export type PartView = {
-  id: string;
-  name: string;
-  fileName: string;
-  ports: number;
-  version: string;
-  points: number;
-  startHz: number;
-  stopHz: number;
-  sizeBytes: number;
-  referenceOhms: [number, number][];
-  maxSingular: number;
-  maxSingularHz: number;
-  reciprocityError: number;
-  reciprocityHz: number;
-  passivity: "pass" | "fail";
-  reciprocity: "pass" | "warn";
-  preview: { label: string; hz: number[]; db: number[] };
-  createdAt: string;
-  text?: string;
-};
-
 /** Date → ISO string for props of client components, recursively for plain objects and arrays. */
 export function serialiseDates<T>(value: T): T {
   if (value instanceof Date) return value.toISOString() as unknown as T;

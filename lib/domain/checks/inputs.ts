@@ -1,4 +1,6 @@
 import { z } from "zod";
+import { InsertionLossRuleSchema, IsolationRuleSchema, MatchRuleSchema } from "@/engine/scenario/schema";
+import { hasMatchLimit } from "@/lib/domain/rules/schema";
 
 /** Every check a run can hold (the check-runs route's `check`). */
 export const CHECK_NAMES = ["isolation", "match", "insertion_loss", "leak_trace", "power_ledger", "drive", "state_sweep", "stability", "all_rules"] as const;
@@ -22,14 +24,17 @@ const band = z.tuple([hz, hz]).refine(([lo, hi]) => hi >= lo, { error: "The band
 const port = z.string().trim().min(1).max(64);
 const dbValue = z.number().finite();
 
-/** Inputs per check; every object is strict, so a misspelt field is a 400, not a silent default. */
+/**
+ * Inputs per check; every object is strict, so a misspelt field is a 400, not a silent default. The
+ * three rule checks take the engine's rule (engine/scenario/schema.ts) without its kind and name.
+ */
 export const checkInputSchemas = {
-  isolation: z.object({ from: port, to: port, band, min_db: dbValue, one_way: z.boolean().optional() }).strict(),
-  match: z
-    .object({ port, band, min_return_loss_db: dbValue.min(0).optional(), max_vswr: z.number().finite().min(1).optional() })
+  isolation: IsolationRuleSchema.omit({ kind: true, id: true }).extend({ from: port, to: port, band, min_db: dbValue }).strict(),
+  match: MatchRuleSchema.omit({ kind: true, id: true })
+    .extend({ port, band, min_return_loss_db: dbValue.min(0).optional(), max_vswr: z.number().finite().min(1).optional() })
     .strict()
-    .refine((r) => r.min_return_loss_db !== undefined || r.max_vswr !== undefined, { error: "Give min_return_loss_db or max_vswr.", path: ["min_return_loss_db"] }),
-  insertion_loss: z.object({ from: port, to: port, band, max_db: dbValue }).strict(),
+    .refine(hasMatchLimit, { error: "Give min_return_loss_db or max_vswr.", path: ["min_return_loss_db"] }),
+  insertion_loss: InsertionLossRuleSchema.omit({ kind: true, id: true }).extend({ from: port, to: port, band, max_db: dbValue }).strict(),
   leak_trace: z
     .object({ from: port, to: port, frequencyHz: hz.optional(), band: band.optional(), k: z.number().int().min(1).max(50).optional(), min_db: dbValue.optional() })
     .strict(),
