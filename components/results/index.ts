@@ -1,5 +1,5 @@
 export { ResultsPanel, type ResultsPanelProps } from "./results-panel";
-export { compositeTouchstone, downloadText, fileStem } from "@/lib/browser/downloads";
+export { downloadText, fileStem } from "@/lib/browser/downloads";
 export { TracePlot, type TracePlotProps } from "./trace-plot";
 export { SmithChart, type SmithChartProps } from "./smith-chart";
 export { PortMatrix, type PortMatrixProps } from "./port-matrix";

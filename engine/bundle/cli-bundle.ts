@@ -1,9 +1,9 @@
 // `portolan check <bundle.zip>`: verify a bundle's manifest and re-run its checks from its own files.
-// Registered through OPTIONAL_COMMAND_MODULES in engine/cli.ts after the checks' module: it wraps their
-// `check` command and takes over when the argument is a .zip.
+// The `check` entry of the command table (engine/cli.ts): it wraps the checks' scenario command and
+// takes over when the argument is a .zip.
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
-import { CliUsageError, type CliCommand, type CliIO } from "../cli";
+import { CliUsageError, type CliCommand, type CliIO } from "../cli-support";
 import { CHECK_USAGE, runCheck } from "../checks/cli-check";
 import { BundleIntegrityError, openBundle } from "./bundle-zip";
 import { BundleError } from "./format";
@@ -93,11 +93,9 @@ async function runCheckOrBundle(args: string[], io: CliIO): Promise<number> {
   return runCheck(args, io);
 }
 
-/** Replaces the checks' `check` command with one that also takes bundles (see engine/cli.ts). */
-export const cliCommands: Record<string, CliCommand> = {
-  check: {
-    summary: "run a scenario's rules and built-in checks, or verify and re-run a bundle (.zip)",
-    usage: `${CHECK_USAGE}\n\n${BUNDLE_CHECK_USAGE}`,
-    run: runCheckOrBundle,
-  },
+/** `portolan check`: a scenario's checks, or a bundle's verification and re-run (see engine/cli.ts). */
+export const checkCommand: CliCommand = {
+  summary: "run a scenario's rules and built-in checks, or verify and re-run a bundle (.zip)",
+  usage: `${CHECK_USAGE}\n\n${BUNDLE_CHECK_USAGE}`,
+  run: runCheckOrBundle,
 };

@@ -1,6 +1,6 @@
 // The `portolan check <scenario.json> [--json]` command: solve, run every rule and built-in check, print
 // a table (or JSON), exit 0 when all pass, 1 when any fails, 2 on bad input.
-import { CliUsageError, solveScenarioFile, type CliCommand, type CliIO } from "../cli";
+import { CliUsageError, solveScenarioFile, type CliIO } from "../cli-support";
 import { formatHz } from "./band";
 import { runAllChecks, type AllChecksResult } from "./run-all";
 
@@ -74,8 +74,3 @@ export async function runCheck(args: string[], io: CliIO): Promise<number> {
   io.out(json ? `${JSON.stringify(result)}\n` : formatCheckTable(result));
   return result.verdict === "fail" ? 1 : 0;
 }
-
-/** Commands registered by engine/cli.ts (see OPTIONAL_COMMAND_MODULES there). */
-export const cliCommands: Record<string, CliCommand> = {
-  check: { summary: "run the scenario's rules and built-in checks; exit 1 when any fails", usage: CHECK_USAGE, run: runCheck },
-};

@@ -1,3 +1,4 @@
 export { prepareSystem, type PrepareOptions } from "./prepare-system";
 export { solveScenario, type SolveScenarioOptions } from "./solve-scenario";
 export { loadPart, partText, parseTouchstoneCached, clearPartCache, type PartSource } from "./parts";
+export { solutionToJson, type SolutionJson } from "./solution-json";
