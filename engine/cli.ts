@@ -1,17 +1,18 @@
 /**
  * The `portolan` command line. Commands are entries of one static table (COMMANDS below): a new command
  * is a module exporting a CliCommand and one line in the table.
- * Exit codes: 0 success, 2 bad input (one message on stderr), 1 an internal error; commands document
- * their own further codes (check: 1 a failing check, 3 a bundle tampered or not reproduced).
+ * Exit codes: 0 success, 2 bad input or a scenario over --max-memory (one message on stderr), 70 an
+ * internal error (EX_SOFTWARE); commands document their own further codes (check: 1 a failing check,
+ * 3 a bundle tampered or not reproduced). 1 never means a crash.
  */
 import { resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 import { checkCommand } from "./bundle/cli-bundle";
-import { CliUsageError, EXIT_BAD_INPUT, type CliCommand, type CliIO } from "./cli-support";
+import { CliUsageError, EXIT_BAD_INPUT, EXIT_INTERNAL, type CliCommand, type CliIO } from "./cli-support";
 import { solveCommand } from "./system/cli-solve";
 import { EngineInputError } from "./types";
 
-export { CliUsageError, EXIT_BAD_INPUT, solveScenarioFile, type CliCommand, type CliIO } from "./cli-support";
+export { CliUsageError, EXIT_BAD_INPUT, EXIT_INTERNAL, solveScenarioFile, type CliCommand, type CliIO } from "./cli-support";
 
 /** The command table, by the word typed after `portolan`. */
 export const COMMANDS: Readonly<Record<string, CliCommand>> = {
@@ -24,6 +25,7 @@ function usageText(): string {
   const lines = ["Usage: portolan <command> [options]", "", "Commands:"];
   for (const [name, command] of Object.entries(COMMANDS)) lines.push(`  ${name.padEnd(8)} ${command.summary}`);
   lines.push("", "Run `portolan <command> --help` for a command's options.");
+  lines.push("Exit codes: 0 success, 2 bad input or over --max-memory, 70 internal error; check adds 1 (a check fails) and 3 (bundle not reproduced).");
   for (const command of Object.values(COMMANDS)) lines.push("", command.usage);
   return `${lines.join("\n")}\n`;
 }
@@ -60,8 +62,8 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       io.err(`${err.message}\n`);
       return EXIT_BAD_INPUT;
     }
-    io.err(`internal error: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`);
-    return 1;
+    io.err(`internal error (exit ${EXIT_INTERNAL}): ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`);
+    return EXIT_INTERNAL;
   }
 }
 

@@ -3,7 +3,7 @@
 // takes over when the argument is a .zip.
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
-import { CliUsageError, type CliCommand, type CliIO } from "../cli-support";
+import { CliUsageError, takeOption, type CliCommand, type CliIO } from "../cli-support";
 import { CHECK_USAGE, runCheck } from "../checks/cli-check";
 import { BundleIntegrityError, openBundle } from "./bundle-zip";
 import { BundleError } from "./format";
@@ -20,7 +20,7 @@ export const BUNDLE_CHECK_USAGE = [
   "  --json         print the comparison as JSON instead",
   "  Exit codes: 0 verified, reproduced and all pass (warnings allowed); 1 verified and reproduced but a",
   "  check fails; 2 the file cannot be read or is refused (not a zip, no manifest, unsafe entries, limits);",
-  "  3 tampered (a file does not match manifest.json) or the stored verdicts do not reproduce.",
+  "  3 tampered (a file does not match manifest.json) or the stored verdicts do not reproduce; 70 internal error.",
 ].join("\n");
 
 /**
@@ -84,9 +84,11 @@ async function runCheckOrBundle(args: string[], io: CliIO): Promise<number> {
     io.out(`${CHECK_USAGE}\n\n${BUNDLE_CHECK_USAGE}\n`);
     return 0;
   }
-  const positional = args.filter((a) => !a.startsWith("-"));
+  // the value of --max-memory is not a file name (a bundle's re-run uses solveScenario's default limit)
+  const rest = takeOption(args, "--max-memory").rest;
+  const positional = rest.filter((a) => !a.startsWith("-"));
   if (positional.length === 1 && /\.zip$/i.test(positional[0])) {
-    const unknown = args.find((a) => a.startsWith("-") && a !== "--json");
+    const unknown = rest.find((a) => a.startsWith("-") && a !== "--json");
     if (unknown) throw new CliUsageError(`unknown option ${unknown} (see portolan check --help)`);
     return runBundleCheck(positional[0], args.includes("--json"), io);
   }

@@ -1,35 +1,37 @@
 // `portolan solve <scenario.json> [--json] [--out file.sNp]`: the composite S-parameters of a scenario.
 import { writeFileSync } from "node:fs";
 import { resolve } from "node:path";
-import { CliUsageError, solveScenarioFile, type CliCommand, type CliIO } from "../cli-support";
+import { CliUsageError, MAX_MEMORY_USAGE, solveScenarioFile, takeMaxMemory, type CliCommand, type CliIO } from "../cli-support";
 import { writeCompositeTouchstone } from "../touchstone/composite";
 import { solutionToJson } from "./solution-json";
 
 export const SOLVE_USAGE = [
-  "portolan solve <scenario.json> [--json] [--out file.sNp]",
+  "portolan solve <scenario.json> [--json] [--out file.sNp] [--max-memory SIZE]",
   "  Solves the scenario and prints the composite S-parameters of its system ports.",
   "  (default)      Touchstone 1.1 (RI, Hz, R = system Z0); Touchstone 2.0 with [Reference]",
   "                 when system ports have different Z0",
   "  --json         JSON: { frequencies, ports, port_z0, s: [f][i][j] as [re, im], warnings, solve_ms }",
   "  --out FILE     write the Touchstone file to FILE (its name must end .sNp, N = system ports)",
+  MAX_MEMORY_USAGE,
   "  Part files named in the scenario are read relative to the scenario file.",
-  "  Exit codes: 0 success, 2 bad input (message on stderr), 1 internal error.",
+  "  Exit codes: 0 success, 2 bad input or over --max-memory (message on stderr), 70 internal error.",
 ].join("\n");
 
 /**
  * Runs `solve`: prints (or writes) the composite; returns 0, bad input is thrown as CliUsageError.
  * @example await runSolve(["front-end.json", "--json"], io) // 0
  */
-export async function runSolve(args: string[], io: CliIO): Promise<number> {
+export async function runSolve(argv: string[], io: CliIO): Promise<number> {
+  if (argv.includes("--help") || argv.includes("-h")) {
+    io.out(`${SOLVE_USAGE}\n`);
+    return 0;
+  }
+  const { maxBytes, rest: args } = takeMaxMemory(argv);
   let json = false;
   let out: string | undefined;
   const positional: string[] = [];
   for (let i = 0; i < args.length; i++) {
     const arg = args[i];
-    if (arg === "--help" || arg === "-h") {
-      io.out(`${SOLVE_USAGE}\n`);
-      return 0;
-    }
     if (arg === "--json") json = true;
     else if (arg === "--out" || arg.startsWith("--out=")) {
       out = arg.startsWith("--out=") ? arg.slice(6) : args[++i];
@@ -39,7 +41,8 @@ export async function runSolve(args: string[], io: CliIO): Promise<number> {
   }
   if (positional.length !== 1) throw new CliUsageError("expected exactly one scenario file: portolan solve <scenario.json> [--json] [--out file.sNp]");
   if (json && out) throw new CliUsageError("--json and --out cannot be combined: --out writes Touchstone");
-  const solution = solveScenarioFile(positional[0], io.cwd);
+  // a plain solve asks for no internal waves, so their maps are not kept
+  const solution = solveScenarioFile(positional[0], io.cwd, { maxBytes, waves: false });
   const touchstone = () => writeCompositeTouchstone(solution, { scenarioName: solution.system.scenario.name });
   if (out) {
     const n = solution.ports.length;
