@@ -5,6 +5,7 @@
  * internal error (EX_SOFTWARE); commands document their own further codes (check: 1 a failing check,
  * 3 a bundle tampered or not reproduced). 1 never means a crash.
  */
+import { realpathSync } from "node:fs";
 import { resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 import { checkCommand } from "./bundle/cli-bundle";
@@ -20,6 +21,14 @@ export const COMMANDS: Readonly<Record<string, CliCommand>> = {
   // scenarios and review bundles (.zip)
   check: checkCommand,
 };
+
+function realPath(path: string): string {
+  try {
+    return realpathSync(path);
+  } catch {
+    return path;
+  }
+}
 
 function usageText(): string {
   const lines = ["Usage: portolan <command> [options]", "", "Commands:"];
@@ -67,7 +76,9 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
   }
 }
 
-const invokedDirectly = process.argv[1] !== undefined && import.meta.url === pathToFileURL(resolve(process.argv[1])).href;
+// Run when this file (or the bundle built from it, dist/portolan.mjs) is the program: through a symlink
+// such as node_modules/.bin/portolan too, hence the real path.
+const invokedDirectly = process.argv[1] !== undefined && import.meta.url === pathToFileURL(realPath(resolve(process.argv[1]))).href;
 if (invokedDirectly) {
   void main(process.argv.slice(2), {
     out: (t) => process.stdout.write(t),
