@@ -8,6 +8,7 @@ import { closeStack } from "./close";
 import { joinStack } from "./join";
 import { formatHz } from "./names";
 import { buildPlan, type Plan } from "./plan";
+import { primeKernels, primingSystem } from "./prime";
 import { waveStates, type PlanEntry } from "./wave-store";
 
 /** Options of solveSystem / solveDense. */
@@ -213,6 +214,9 @@ export function runGrowth(sys: PreparedSystem, entry: PlanEntry, blockS: SData[]
   return { data, warnings };
 }
 
+/** Whether this process has run the kernels over the priming system yet (engine/network/prime.ts). */
+let primed = false;
+
 /**
  * Solve the interconnection: S_ext = S_ee + S_ei (Γ − S_ii)⁻¹ S_ie computed by growing sub-networks in a
  * greedy minimum-frontier order, then each system port referenced to its own Z0 (power waves, through a
@@ -232,6 +236,11 @@ export function runGrowth(sys: PreparedSystem, entry: PlanEntry, blockS: SData[]
  */
 export function solveSystem(sys: PreparedSystem, opts: SolveOptions = {}): Solution {
   const t0 = performance.now();
+  if (!primed) {
+    primed = true;
+    const priming = primingSystem();
+    primeKernels(runGrowth, priming, entryFor(priming));
+  }
   const entry = entryFor(sys);
   const blockS = resolveBlockS(sys, opts.replace);
   const nf = sys.frequencies.length;
