@@ -3,7 +3,7 @@ import { createHash, randomUUID } from "node:crypto";
 import { and, desc, eq } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { scenarioRevisions, scenarios, users, type ScenarioRevision } from "@/db/schema";
-import { canonicalJson } from "@/engine/canonical-json";
+import { CanonicalJsonError, canonicalJson } from "@/engine/canonical-json";
 import { parseScenario } from "@/engine/scenario";
 import type { Scenario } from "@/engine/types";
 import { scenarioForEngine } from "@/lib/browser/scenario-model";
@@ -34,7 +34,15 @@ export type RevisionSummary = Omit<RevisionDetail, "content">;
 
 /** SHA-256 (hex) of the canonical JSON (RFC 8785, engine/canonical-json.ts) of a scenario: what a sign-off binds to. */
 export function hashScenarioContent(content: unknown): string {
-  return createHash("sha256").update(canonicalJson(content), "utf8").digest("hex");
+  let text: string;
+  try {
+    text = canonicalJson(content);
+  } catch (err) {
+    // RFC 8785 has no form for a lone UTF-16 surrogate (or a non-finite number): refuse, naming where it is
+    if (err instanceof CanonicalJsonError) throw new AppError("unprocessable", 422, `The scenario cannot be saved: ${err.message.replace(/^\$\.?/, "")}`, { [err.path.replace(/^\$\.?/, "") || "content"]: err.message });
+    throw err;
+  }
+  return createHash("sha256").update(text, "utf8").digest("hex");
 }
 
 /**
