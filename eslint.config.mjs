@@ -3,7 +3,7 @@ import nextTypescript from "eslint-config-next/typescript";
 
 const config = [
   {
-    ignores: [".next/**", "node_modules/**", "drizzle/**", "test-results/**", "playwright-report/**", "data/**", "next-env.d.ts"],
+    ignores: [".next/**", "node_modules/**", "dist/**", "drizzle/**", "test-results/**", "playwright-report/**", "data/**", "next-env.d.ts"],
   },
   ...nextCoreWebVitals,
   ...nextTypescript,

@@ -8,6 +8,7 @@ export default defineConfig({
   test: {
     include: ["tests/engine/**/*.test.ts", "tests/api/**/*.test.ts", "tests/unit/**/*.test.ts"],
     environment: "node",
+    globalSetup: ["tests/global-setup.ts"],
     testTimeout: 60_000,
     hookTimeout: 120_000,
     pool: "forks",

@@ -20,3 +20,4 @@ export * from "./system";
 export * from "./checks";
 // the interpolation and the checks both export a hertz formatter; the checks' one is the public one
 export { formatHz } from "./checks";
+export * from "./canonical-json";

@@ -4,7 +4,8 @@ import { useMemo, useState } from "react";
 import { Download, X } from "lucide-react";
 import type { Scenario } from "@/engine/types";
 import { Alert, Badge, Button, EmptyState, Input, Select, Spinner } from "@/components/ui";
-import { compositeTouchstone, downloadText as download } from "@/lib/browser/downloads";
+import { writeCompositeTouchstone } from "@/engine/touchstone";
+import { downloadText as download } from "@/lib/browser/downloads";
 import { fileStem } from "@/lib/domain/scenarios/file-stem";
 import { evaluateQuantity } from "@/lib/browser/expressions";
 import { formatFixed, formatFrequency, formatNumber } from "@/lib/browser/format";
@@ -133,7 +134,7 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
         <Button
           variant="secondary"
           size="sm"
-          onClick={() => download(`${fileStem(scenario.name)}.s${n}p`, compositeTouchstone(view, scenario.name), "text/plain")}
+          onClick={() => download(`${fileStem(scenario.name)}.s${n}p`, writeCompositeTouchstone(view, { scenarioName: scenario.name }), "text/plain")}
         >
           <Download aria-hidden="true" className="h-4 w-4" /> Download Touchstone
         </Button>

@@ -3,6 +3,7 @@ import { createHash, randomUUID } from "node:crypto";
 import { and, desc, eq } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { scenarioRevisions, scenarios, users, type ScenarioRevision } from "@/db/schema";
+import { CanonicalJsonError, canonicalJson } from "@/engine/canonical-json";
 import type { Scenario } from "@/engine/types";
 import { scenarioWarnings } from "@/lib/domain/scenarios/for-engine";
 import { recordAudit } from "@/lib/server/audit";
@@ -30,19 +31,17 @@ export type RevisionDetail = {
 /** A revision in the history list (no content). */
 export type RevisionSummary = Omit<RevisionDetail, "content">;
 
-/** JSON with object keys sorted at every level, no whitespace: equal content gives equal text. */
-export function canonicalJson(value: unknown): string {
-  if (value === null || typeof value !== "object") return JSON.stringify(value) ?? "null";
-  if (Array.isArray(value)) return `[${value.map((v) => canonicalJson(v === undefined ? null : v)).join(",")}]`;
-  const entries = Object.entries(value as Record<string, unknown>)
-    .filter(([, v]) => v !== undefined)
-    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-  return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
-}
-
-/** SHA-256 (hex) of the canonical JSON of a scenario: what a sign-off binds to. */
+/** SHA-256 (hex) of the canonical JSON (RFC 8785, engine/canonical-json.ts) of a scenario: what a sign-off binds to. */
 export function hashScenarioContent(content: unknown): string {
-  return createHash("sha256").update(canonicalJson(content), "utf8").digest("hex");
+  let text: string;
+  try {
+    text = canonicalJson(content);
+  } catch (err) {
+    // RFC 8785 has no form for a lone UTF-16 surrogate (or a non-finite number): refuse, naming where it is
+    if (err instanceof CanonicalJsonError) throw new AppError("unprocessable", 422, `The scenario cannot be saved: ${err.message.replace(/^\$\.?/, "")}`, { [err.path.replace(/^\$\.?/, "") || "content"]: err.message });
+    throw err;
+  }
+  return createHash("sha256").update(text, "utf8").digest("hex");
 }
 
 const revisionColumns = {

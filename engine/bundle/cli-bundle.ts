@@ -1,9 +1,9 @@
 // `portolan check <bundle.zip>`: verify a bundle's manifest and re-run its checks from its own files.
-// Registered through OPTIONAL_COMMAND_MODULES in engine/cli.ts after the checks' module: it wraps their
-// `check` command and takes over when the argument is a .zip.
+// The `check` entry of the command table (engine/cli.ts): it wraps the checks' scenario command and
+// takes over when the argument is a .zip.
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
-import { CliUsageError, type CliCommand, type CliIO } from "../cli";
+import { CliUsageError, takeOption, type CliCommand, type CliIO } from "../cli-support";
 import { CHECK_USAGE, runCheck } from "../checks/cli-check";
 import { BundleIntegrityError, openBundle } from "./bundle-zip";
 import { BundleError } from "./format";
@@ -20,7 +20,7 @@ export const BUNDLE_CHECK_USAGE = [
   "  --json         print the comparison as JSON instead",
   "  Exit codes: 0 verified, reproduced and all pass (warnings allowed); 1 verified and reproduced but a",
   "  check fails; 2 the file cannot be read or is refused (not a zip, no manifest, unsafe entries, limits);",
-  "  3 tampered (a file does not match manifest.json) or the stored verdicts do not reproduce.",
+  "  3 tampered (a file does not match manifest.json) or the stored verdicts do not reproduce; 70 internal error.",
 ].join("\n");
 
 /**
@@ -84,20 +84,20 @@ async function runCheckOrBundle(args: string[], io: CliIO): Promise<number> {
     io.out(`${CHECK_USAGE}\n\n${BUNDLE_CHECK_USAGE}\n`);
     return 0;
   }
-  const positional = args.filter((a) => !a.startsWith("-"));
+  // the value of --max-memory is not a file name (a bundle's re-run uses solveScenario's default limit)
+  const rest = takeOption(args, "--max-memory").rest;
+  const positional = rest.filter((a) => !a.startsWith("-"));
   if (positional.length === 1 && /\.zip$/i.test(positional[0])) {
-    const unknown = args.find((a) => a.startsWith("-") && a !== "--json");
+    const unknown = rest.find((a) => a.startsWith("-") && a !== "--json");
     if (unknown) throw new CliUsageError(`unknown option ${unknown} (see portolan check --help)`);
     return runBundleCheck(positional[0], args.includes("--json"), io);
   }
   return runCheck(args, io);
 }
 
-/** Replaces the checks' `check` command with one that also takes bundles (see engine/cli.ts). */
-export const cliCommands: Record<string, CliCommand> = {
-  check: {
-    summary: "run a scenario's rules and built-in checks, or verify and re-run a bundle (.zip)",
-    usage: `${CHECK_USAGE}\n\n${BUNDLE_CHECK_USAGE}`,
-    run: runCheckOrBundle,
-  },
+/** `portolan check`: a scenario's checks, or a bundle's verification and re-run (see engine/cli.ts). */
+export const checkCommand: CliCommand = {
+  summary: "run a scenario's rules and built-in checks, or verify and re-run a bundle (.zip)",
+  usage: `${CHECK_USAGE}\n\n${BUNDLE_CHECK_USAGE}`,
+  run: runCheckOrBundle,
 };

@@ -6,7 +6,7 @@
 import { leakTrace, runAllChecks, type AllChecksResult, type LeakTraceResult } from "../checks";
 import { parseScenario } from "../scenario";
 import { solveScenario } from "../system";
-import { writeTouchstone } from "../touchstone";
+import { writeCompositeTouchstone } from "../touchstone";
 import { EngineInputError, type Scenario, type Solution } from "../types";
 import { BUNDLE_PATHS, BundleError, checkEntryName } from "./format";
 
@@ -111,17 +111,7 @@ export function computeBundleResults(content: unknown, parts: Record<string, str
  * @example compositeFile(sol).path // "results/composite.s2p"
  */
 export function compositeFile(solution: Solution): { path: string; text: string } {
-  const z0s = solution.portZ0;
-  const uniform = z0s.every((z) => z === z0s[0]);
-  const text = writeTouchstone(
-    {
-      frequencies: solution.frequencies,
-      s: solution.s,
-      z0: uniform ? z0s[0] : Float64Array.from(z0s.flatMap((z) => [z, 0])),
-      comments: [`Portolan composite of scenario "${solution.system.scenario.name}"`, ...solution.ports.map((p, i) => `port ${i + 1}: ${p} (Z0 ${z0s[i]} ohm)`)],
-    },
-    { version: uniform ? "1.1" : "2.0", format: "RI", unit: "Hz", digits: 17 },
-  );
+  const text = writeCompositeTouchstone(solution, { scenarioName: solution.system.scenario.name, digits: 17 });
   return { path: `${BUNDLE_PATHS.composite}.s${solution.ports.length}p`, text };
 }
 

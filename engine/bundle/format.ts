@@ -108,19 +108,5 @@ export function checkEntryName(name: string): void {
   if (segments.some((s) => s === "" || s === ".")) refuse("its path has an empty or '.' segment");
 }
 
-/**
- * JSON with object keys sorted at every level and no whitespace, so that equal content gives equal text
- * (the same canonical form the app hashes scenario revisions with; `undefined` members are left out).
- *
- * @param value - any JSON value
- * @returns canonical JSON text
- * @example canonicalJson({ b: 1, a: [2, { d: 3, c: 4 }] }) // '{"a":[2,{"c":4,"d":3}],"b":1}'
- */
-export function canonicalJson(value: unknown): string {
-  if (value === null || typeof value !== "object") return JSON.stringify(value) ?? "null";
-  if (Array.isArray(value)) return `[${value.map((v) => canonicalJson(v === undefined ? null : v)).join(",")}]`;
-  const entries = Object.entries(value as Record<string, unknown>)
-    .filter(([, v]) => v !== undefined)
-    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-  return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
-}
+// The bundle's canonical JSON is the engine's one (RFC 8785), the same the app hashes revisions with.
+export { canonicalJson } from "../canonical-json";

@@ -5,6 +5,7 @@
 import { parseTouchstone } from "../touchstone";
 import { EngineInputError, SingularSystemError } from "../types";
 import { computeBundleResults, CHECKS_FORMAT, type ChecksDocument } from "./contents";
+import { CanonicalJsonError } from "../canonical-json";
 import { BUNDLE_PATHS, canonicalJson, sha256 } from "./format";
 import type { OpenedBundle } from "./bundle-zip";
 
@@ -54,7 +55,13 @@ function sameFigure(a: unknown, b: unknown, tol: number): boolean {
  */
 export function reproduceBundle(bundle: OpenedBundle): ReproduceResult {
   const items: ReproducedItem[] = [];
-  const contentHashMatches = sha256(canonicalJson(bundle.scenario)) === bundle.manifest.revision.content_hash;
+  let contentHashMatches = false;
+  try {
+    contentHashMatches = sha256(canonicalJson(bundle.scenario)) === bundle.manifest.revision.content_hash;
+  } catch (err) {
+    // a scenario with no canonical form (a lone surrogate in a string) cannot match any content hash
+    if (!(err instanceof CanonicalJsonError)) throw err;
+  }
   let stored: ChecksDocument | null = null;
   try {
     const doc = JSON.parse(bundle.files.get(BUNDLE_PATHS.checksJson) ?? "null") as ChecksDocument | null;

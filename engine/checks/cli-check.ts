@@ -1,15 +1,17 @@
 // The `portolan check <scenario.json> [--json]` command: solve, run every rule and built-in check, print
 // a table (or JSON), exit 0 when all pass, 1 when any fails, 2 on bad input.
-import { CliUsageError, solveScenarioFile, type CliCommand, type CliIO } from "../cli";
+import { CliUsageError, MAX_MEMORY_USAGE, solveScenarioFile, takeMaxMemory, type CliIO } from "../cli-support";
 import { formatHz } from "./band";
 import { runAllChecks, type AllChecksResult } from "./run-all";
 
 export const CHECK_USAGE = [
-  "portolan check <scenario.json> [--json]",
+  "portolan check <scenario.json> [--json] [--max-memory SIZE]",
   "  Solves the scenario, runs its rules and the built-in checks (power ledger closure, passivity,",
   "  reciprocity where expected, amplifier stability) and prints a table of verdicts.",
   "  --json         print every result as JSON instead",
-  "  Exit codes: 0 all pass (warnings allowed), 1 any check fails, 2 bad input (message on stderr).",
+  MAX_MEMORY_USAGE,
+  "  Exit codes: 0 all pass (warnings allowed), 1 any check fails, 2 bad input or over --max-memory",
+  "  (message on stderr), 70 internal error.",
 ].join("\n");
 
 /**
@@ -49,20 +51,21 @@ export function formatCheckTable(r: AllChecksResult): string {
  * @param io output sinks and working directory
  * @example await runCheck(["front-end.json", "--json"], io) // 0
  */
-export async function runCheck(args: string[], io: CliIO): Promise<number> {
+export async function runCheck(argv: string[], io: CliIO): Promise<number> {
+  if (argv.includes("--help") || argv.includes("-h")) {
+    io.out(`${CHECK_USAGE}\n`);
+    return 0;
+  }
+  const { maxBytes, rest: args } = takeMaxMemory(argv);
   let json = false;
   const positional: string[] = [];
   for (const arg of args) {
-    if (arg === "--help" || arg === "-h") {
-      io.out(`${CHECK_USAGE}\n`);
-      return 0;
-    }
     if (arg === "--json") json = true;
     else if (arg.startsWith("-")) throw new CliUsageError(`unknown option ${arg} (see portolan check --help)`);
     else positional.push(arg);
   }
   if (positional.length !== 1) throw new CliUsageError("expected exactly one scenario file: portolan check <scenario.json> [--json]");
-  const solution = solveScenarioFile(positional[0], io.cwd);
+  const solution = solveScenarioFile(positional[0], io.cwd, { maxBytes });
   const scenario = solution.system.scenario;
   let result: AllChecksResult;
   try {
@@ -74,8 +77,3 @@ export async function runCheck(args: string[], io: CliIO): Promise<number> {
   io.out(json ? `${JSON.stringify(result)}\n` : formatCheckTable(result));
   return result.verdict === "fail" ? 1 : 0;
 }
-
-/** Commands registered by engine/cli.ts (see OPTIONAL_COMMAND_MODULES there). */
-export const cliCommands: Record<string, CliCommand> = {
-  check: { summary: "run the scenario's rules and built-in checks; exit 1 when any fails", usage: CHECK_USAGE, run: runCheck },
-};

@@ -2,7 +2,7 @@
 export { complexMatmul, complexMatmulConjA } from "./matmul";
 export { luFactor, luFactorUnchecked, luSolve, luSolveConjTranspose } from "./lu";
 export { conditionEstimate1, norm1 } from "./condition";
-export { solveLinear, SINGULAR_CONDITION } from "./solve";
+export { solveLinear, solveComplexInPlace, SINGULAR_CONDITION } from "./solve";
 export { hermitianEigenvalues, hermitianTridiagonal, largestHermitianEigenvalue } from "./hermitian-eigen";
 export { maxSingularValue, singularValues, sliceFrequency } from "./singular-value";
 export { unitarityError } from "./unitarity";

@@ -8,6 +8,7 @@ import { closeStack } from "./close";
 import { joinStack } from "./join";
 import { formatHz } from "./names";
 import { buildPlan, type Plan } from "./plan";
+import { primeKernels, primingSystem } from "./prime";
 import { waveStates, type PlanEntry } from "./wave-store";
 
 /** Options of solveSystem / solveDense. */
@@ -213,6 +214,24 @@ export function runGrowth(sys: PreparedSystem, entry: PlanEntry, blockS: SData[]
   return { data, warnings };
 }
 
+/** Whether this process has run the kernels over the priming system yet (engine/network/prime.ts). */
+let primed = false;
+
+/**
+ * Runs the join kernels over a tiny system (engine/network/prime.ts) the first time it is called in a
+ * process, so that their first optimisation has type feedback for every path; later calls return at once.
+ * solveSystem calls it. (Priming long enough for V8 to optimise the kernels before the real solve was
+ * tried and cost more than it saved: reaching the optimisation budget is the slow part.)
+ *
+ * @example primeSolver(); // before a process's first solve
+ */
+export function primeSolver(): void {
+  if (primed) return;
+  primed = true;
+  const priming = primingSystem();
+  primeKernels(runGrowth, priming, entryFor(priming));
+}
+
 /**
  * Solve the interconnection: S_ext = S_ee + S_ei (Γ − S_ii)⁻¹ S_ie computed by growing sub-networks in a
  * greedy minimum-frontier order, then each system port referenced to its own Z0 (power waves, through a
@@ -232,6 +251,7 @@ export function runGrowth(sys: PreparedSystem, entry: PlanEntry, blockS: SData[]
  */
 export function solveSystem(sys: PreparedSystem, opts: SolveOptions = {}): Solution {
   const t0 = performance.now();
+  primeSolver();
   const entry = entryFor(sys);
   const blockS = resolveBlockS(sys, opts.replace);
   const nf = sys.frequencies.length;

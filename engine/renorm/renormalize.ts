@@ -2,7 +2,7 @@
 // derived from the wave definitions of Kurokawa, "Power waves and the scattering matrix", IEEE T-MTT 13(2), 1965,
 // eqs. (1)–(2), and of Marks and Williams, "A general waveguide circuit theory", J. Res. NIST 97(5), 1992 (pseudo-waves).
 import { EngineInputError, SingularSystemError, type SData, type WaveKind, type Z0Vector } from "../types";
-import { solveComplexInPlace } from "./complex-lu";
+import { solveComplexInPlace } from "../linalg/solve";
 import { checkZ0 } from "./z0-vector";
 
 /*

@@ -1,3 +1,15 @@
 export { prepareSystem, type PrepareOptions } from "./prepare-system";
 export { solveScenario, type SolveScenarioOptions } from "./solve-scenario";
 export { loadPart, partText, parseTouchstoneCached, clearPartCache, type PartSource } from "./parts";
+export { solutionToJson, type SolutionJson } from "./solution-json";
+export {
+  estimateSolve,
+  estimateValidScenario,
+  checkSolveSize,
+  formatBytes,
+  SizeLimitError,
+  DEFAULT_MAX_SOLVE_BYTES,
+  type SolveEstimate,
+  type EstimateOptions,
+} from "./estimate";
+export { resolveTopology, type Topology } from "./topology";

@@ -7,19 +7,25 @@ import { interpolateS } from "../interp";
 import { renormalize, z0Vector } from "../renorm";
 import { placeBlockError } from "../scenario/block-errors";
 import { frequencyPlan } from "../scenario/frequency-plan";
-import { parseScenario, splitPortRef } from "../scenario/parse-scenario";
+import { parseScenario } from "../scenario/parse-scenario";
 import {
   EngineInputError,
-  type BlockPortInfo,
   type BlockSpec,
   type EvaluatedBlock,
   type PreparedSystem,
   type Scenario,
 } from "../types";
+import { checkSolveSize, estimateValidScenario } from "./estimate";
 import { loadPart, type PartSource } from "./parts";
+import { resolveTopology } from "./topology";
 
-/** Options of prepareSystem: where part files come from (see PartSource). */
-export type PrepareOptions = PartSource;
+/** Options of prepareSystem: where part files come from (see PartSource) and an optional size limit. */
+export type PrepareOptions = PartSource & {
+  /** refuse with SizeLimitError, before any block is evaluated, when estimateSolve's bytes exceed this */
+  maxBytes?: number;
+  /** for the size estimate: whether the solve will keep wave maps for internal waves (default true) */
+  waves?: boolean;
+};
 
 function formatHz(f: number): string {
   if (f >= 1e9) return `${+(f / 1e9).toPrecision(6)} GHz`;
@@ -94,11 +100,14 @@ function evaluatePart(
  * 1965), interpolated onto the plan honouring `scenario.extrapolate`), and resolves links and system
  * ports to global block-port indices (blocks in scenario order, ports 1…n within each block).
  * Block ports that are neither linked nor system ports are matched terminations; each gets a warning.
+ * With `maxBytes`, the size of the solve is estimated first (estimateSolve: plan, port counts, join order)
+ * and a scenario over the limit is refused before any block data is allocated.
  *
  * @param scenario - a scenario (typically from parseScenario)
- * @param opts - where part files come from: `readFile(relPath)` and/or `parts` (texts by file name)
+ * @param opts - where part files come from: `readFile(relPath)` and/or `parts` (texts by file name); `maxBytes`
  * @returns the PreparedSystem (frequencies in Hz, blocks' S over nf points, index maps, warnings)
  * @throws EngineInputError with a JSON path (or file:line for part data) for unusable input
+ * @throws SizeLimitError (an EngineInputError) when `maxBytes` is given and the estimate exceeds it
  * @example
  * const sys = prepareSystem(scenario, { readFile: (p) => readFileSync(join(dir, p), "utf8") });
  * sys.blockPorts.length; // total block ports
@@ -107,11 +116,9 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
   parseScenario(scenario, opts);
   const frequencies = frequencyPlan(scenario.frequency);
   const z0 = scenario.z0;
+  if (opts.maxBytes !== undefined && opts.maxBytes !== Infinity) checkSolveSize(estimateValidScenario(scenario, frequencies.length, opts), opts.maxBytes);
   const warnings: string[] = [];
   const blocks: EvaluatedBlock[] = [];
-  const blockPorts: BlockPortInfo[] = [];
-  const blockOffset: number[] = [];
-  const indexOf = new Map<string, number>();
 
   scenario.blocks.forEach((spec, i) => {
     const where = `blocks[${i}]`;
@@ -139,38 +146,8 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
     }
     blocks.push(evaluated);
     warnings.push(...evaluated.warnings);
-    blockOffset.push(blockPorts.length);
-    indexOf.set(spec.id, i);
-    for (let p = 1; p <= evaluated.s.n; p++) blockPorts.push({ index: blockPorts.length, block: spec.id, port: p });
   });
-
-  const resolve = (ref: string, where: string): number => {
-    const { block, port } = splitPortRef(ref);
-    const i = indexOf.get(block);
-    if (i === undefined) throw new EngineInputError(where, `no block with id "${block}" (in "${ref}")`);
-    const n = blocks[i].s.n;
-    if (port < 1 || port > n) throw new EngineInputError(where, `block ${block} has ${n} port${n === 1 ? "" : "s"}; there is no port ${port} (in "${ref}")`);
-    return blockOffset[i] + port - 1;
-  };
-
-  const used = new Uint8Array(blockPorts.length);
-  const links: [number, number][] = scenario.links.map((link, i) => {
-    const a = resolve(link[0], `links[${i}][0]`);
-    const b = resolve(link[1], `links[${i}][1]`);
-    used[a] = 1;
-    used[b] = 1;
-    return [a, b];
-  });
-  const systemPorts = scenario.ports.map((sp, i) => {
-    const at = resolve(sp.at, `ports[${i}].at`);
-    used[at] = 1;
-    return { name: sp.name, at, z0: sp.z0 ?? z0 };
-  });
-  const unterminated: number[] = [];
-  for (let p = 0; p < blockPorts.length; p++) {
-    if (used[p]) continue;
-    unterminated.push(p);
-    warnings.push(`block ${blockPorts[p].block} port ${blockPorts[p].port} is not linked and not a system port: treated as a matched termination`);
-  }
-  return { scenario, frequencies, z0, blocks, blockPorts, blockOffset, links, systemPorts, unterminated, warnings };
+  const topology = resolveTopology(scenario, blocks.map((b) => b.s.n));
+  warnings.push(...topology.warnings);
+  return { scenario, frequencies, z0, blocks, ...topology, warnings };
 }

@@ -1,7 +1,7 @@
 // Touchstone reader after the Touchstone File Format Specification, Version 2.0 (IBIS Open Forum, 2009), which also
 // restates the Version 1.x rules; section names below are those of that document, recalled from memory.
 import type { SData, Z0Vector } from "../types";
-import { solveComplexInPlace } from "../renorm/complex-lu";
+import { solveComplexInPlace } from "../linalg/solve";
 import { TouchstoneError } from "./errors";
 import { parseDecimal } from "./numbers";
 

@@ -174,6 +174,18 @@ describe("revisions", () => {
     expect(await countRows(scenarioRevisions)).toBe(before);
   });
 
+  it("content with no canonical JSON (a lone UTF-16 surrogate, RFC 8785 §3.2.2.2) is refused with the field named (422), nothing written", async () => {
+    const before = await countRows(scenarioRevisions);
+    const latest = (await (await getScenario(engineer.cookie, scenarioId)).json()) as { revision: RevisionJson };
+    const content = twoPads("Revised");
+    content.ports[0].name = "TX \ud800";
+    const response = await save(engineer.cookie, scenarioId, { baseRevisionId: latest.revision.id, scenario: content });
+    expect(response.status).toBe(422);
+    const body = (await response.json()) as ErrorJson;
+    expect(body.error.message).toMatch(/ports\[0\]\.name: string holds a lone UTF-16 surrogate/);
+    expect(await countRows(scenarioRevisions)).toBe(before);
+  });
+
   it("a draft with a link to a missing block is stored, with the engine's message as a warning", async () => {
     const latest = (await (await getScenario(engineer.cookie, scenarioId)).json()) as { revision: RevisionJson };
     const draft = { ...twoPads("Revised"), links: [["PAD1:2", "NOPE:1"]] };

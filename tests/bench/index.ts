@@ -12,6 +12,8 @@
  * - "composite + internal waves": one solveSystem, then the internal waves of a unit incident wave at each
  *   system port, every excitation in one internalWavesMany call returning fresh arrays (as the power ledger
  *   of every port and the drive check call it).
+ * - "cold solve, fresh process": the first solveSystem (after prepareSystem, no wave maps) in a new Node
+ *   process running an esbuild bundle, as the CLI runs; median over several processes (tests/bench/cold.ts).
  * - numpy: the dense solve alone inside one Python process (building Γ − S_ii, S_ie, S_ei, S_ee from the
  *   block S, the batched solve and the products); not Python start-up, file reading or index maps. Its
  *   (Γ − S_ii)⁻¹ S_ie already holds the internal waves of every excitation, so it is set against both
@@ -33,11 +35,14 @@ import { join } from "node:path";
 import { internalWavesMany, solveSystem } from "../../engine/network";
 import { prepareSystem } from "../../engine/system";
 import type { PreparedSystem, Solution } from "../../engine/types";
+import { timeColdSolve } from "./cold";
 import { numpyAvailable, timeNumpyDense, type NumpyTiming } from "./numpy-dense";
 import { array64, chain, referenceFrontEnd } from "./scenarios";
 import { formatTable, timeMedian, type BenchRow } from "./timing";
 
 const RUNS = 7;
+/** Fresh processes for the cold-solve row. */
+const COLD_PROCESSES = 7;
 /** Untimed runs before the timed ones (JIT compilation, plan building, first-touch of buffers). */
 const WARMUP = 3;
 /** Short cases repeat until about this much timed work (at most 6 × RUNS runs). */
@@ -149,6 +154,22 @@ async function main(): Promise<void> {
     passCpu: feWaves.cpuMedian <= 30 && (feNumpy === undefined || feWaves.cpuMedian < feNumpy.cpuMedianMs),
   });
 
+  // (a′) the same front end solved once in a fresh process (bundled like the CLI), against numpy's dense solve
+  progress("front end: cold solves in fresh processes");
+  const cold = await timeColdSolve(COLD_PROCESSES);
+  rows.push({
+    name: `front end: cold solve, fresh process (median of ${COLD_PROCESSES})`,
+    size: describeSize(fe),
+    ms: cold.solveMs,
+    cpuMs: cold.solveCpuMs,
+    numpyMs: feNumpy?.medianMs,
+    numpyCpuMs: feNumpy?.cpuMedianMs,
+    target: "faster than numpy",
+    pass: feNumpy === undefined || cold.solveMs < feNumpy.medianMs,
+    passCpu: feNumpy === undefined || cold.solveCpuMs < feNumpy.cpuMedianMs,
+    note: `first solveSystem after prepareSystem in a new Node process running an esbuild bundle (no wave maps, as \`portolan solve\`); the cold prepare before it took a median ${cold.prepareMs.toFixed(1)} ms`,
+  });
+
   // (b) chains
   const chainMs: Record<number, number> = {};
   const chainCpu: Record<number, number> = {};
@@ -208,6 +229,7 @@ async function main(): Promise<void> {
   console.log("  prepare                     prepareSystem on the scenario: every block model evaluated (no target)");
   console.log("  composite                   solveSystem on the already-prepared system; join plan cached by the warm-up runs; wave maps kept");
   console.log("  composite + internal waves  one solveSystem, then internalWavesMany for a unit wave at each system port (one batched call, fresh arrays)");
+  console.log("  cold solve, fresh process   the first solveSystem after prepareSystem in a new Node process (esbuild bundle, as the CLI); median over processes");
   console.log("  state sweep / leak trace    stateSweep / leakTrace on an already-prepared system (and solution), see notes");
   console.log("  Portolan ms                 median wall time; cpu ms: median CPU time of this process over the same runs (includes V8's GC threads)");
   console.log("  target / result             wall times decide PASS; see the legend below the table for PASS (cpu)");

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { spawnSync } from "node:child_process";
+import { runPython } from "./reference/python";
 import { BLOCK_CATALOGUE, BUILT_IN_KINDS, blockPortCount, evaluateBlock, idealizeBlock, C0 } from "@/engine/blocks";
 import { EngineInputError, type BlockSpec } from "@/engine/types";
 import {
@@ -60,16 +60,10 @@ describe("test helper sigmaMax()", () => {
     let seed = 7;
     const rnd = () => ((seed = (seed * 16807) % 2147483647) / 2147483647) * 2 - 1;
     for (const n of [1, 2, 3, 5, 8]) mats.push(Array.from({ length: 2 * n * n }, rnd));
-    const py = spawnSync(
-      "/usr/bin/python3",
-      [
-        "-c",
-        "import json,sys,numpy as np\nfor m in json.load(sys.stdin):\n n=int(round((len(m)/2)**0.5)); a=np.array(m[0::2])+1j*np.array(m[1::2]); print(repr(float(np.linalg.svd(a.reshape(n,n),compute_uv=False)[0])))",
-      ],
-      { input: JSON.stringify(mats), encoding: "utf8" },
-    );
-    expect(py.status).toBe(0);
-    const ref = py.stdout.trim().split("\n").map(Number);
+    const ref = runPython("import json,sys\nfor m in json.load(sys.stdin):\n n=int(round((len(m)/2)**0.5)); a=np.array(m[0::2])+1j*np.array(m[1::2]); print(repr(float(np.linalg.svd(a.reshape(n,n),compute_uv=False)[0])))", { input: mats })
+      .trim()
+      .split("\n")
+      .map(Number);
     mats.forEach((m, q) => {
       const n = Math.round(Math.sqrt(m.length / 2));
       expect(sigmaMax(Float64Array.from(m), n)).toBeCloseTo(ref[q], 12);

@@ -1,6 +1,6 @@
 // Review bundles in the engine: writing, opening within limits, hostile zips, the CLI's `check bundle.zip`.
 import { beforeAll, describe, expect, it } from "vitest";
-import { execFileSync, spawnSync } from "node:child_process";
+import { spawnSync } from "node:child_process";
 import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -18,6 +18,7 @@ import {
   writeBundleZip,
   type BundleIdentity,
 } from "@/engine/bundle";
+import { runPythonJson } from "./reference/python";
 import { writeRawZip, type RawEntry } from "./bundle-zip-helpers";
 
 const FIXTURES = path.resolve("tests/fixtures/scenarios");
@@ -85,11 +86,11 @@ describe("writing and opening a bundle", () => {
       "out = {n: hashlib.sha256(z.read(n)).hexdigest() for n in z.namelist() if n != 'manifest.json'}",
       "print(json.dumps({'names': z.namelist(), 'hashes': out, 'manifest': m}))",
     ].join("\n");
-    const py = JSON.parse(execFileSync("/usr/bin/python3", ["-c", script, zipPath], { encoding: "utf8" })) as {
+    const py = runPythonJson<{
       names: string[];
       hashes: Record<string, string>;
       manifest: { format: string; files: Record<string, { sha256: string; bytes: number }> };
-    };
+    }>(script, undefined, { numpy: false, args: [zipPath] });
     expect(py.manifest.format).toBe(BUNDLE_FORMAT);
     expect(py.names.sort()).toEqual(["manifest.json", "parts/telemetry-patch.s1p", "results/checks.csv", "results/checks.json", "results/composite.s3p", "scenario.json"]);
     for (const [name, hash] of Object.entries(py.hashes)) expect(py.manifest.files[name].sha256).toBe(hash);

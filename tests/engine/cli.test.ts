@@ -1,7 +1,8 @@
 /**
  * The command line: `portolan solve <scenario.json> [--json] [--out file.sNp]`. Some cases run it as a
- * separate process as a person would (`node --import tsx engine/cli.ts ...`); the rest call its `main`
- * in this process with captured output, which is the same code without the process start-up cost.
+ * separate process as a person would, through the compiled entry (`node dist/portolan.mjs ...`, built by
+ * the vitest global setup from today's sources); the rest call its `main` in this process with captured
+ * output, which is the same code without the process start-up cost.
  */
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -10,15 +11,20 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { afterAll, describe, expect, it } from "vitest";
 import { main } from "../../engine/cli";
+import { internalWaves } from "../../engine/network";
+import { formatRepeat, repeatTiming } from "../../engine/system/cli-solve";
+import { solveScenario } from "../../engine/system";
 import { parseTouchstone } from "../../engine/touchstone";
+import { EngineInputError } from "../../engine/types";
 
 const ROOT = fileURLToPath(new URL("../../", import.meta.url));
+const CLI = join(ROOT, "dist", "portolan.mjs");
 const FIXTURES = "tests/fixtures/scenarios";
 const work = mkdtempSync(join(tmpdir(), "portolan-cli-"));
 afterAll(() => rmSync(work, { recursive: true, force: true }));
 
 function cli(...args: string[]): { code: number | null; stdout: string; stderr: string } {
-  const run = spawnSync(process.execPath, ["--import", "tsx", "engine/cli.ts", ...args], { cwd: ROOT, encoding: "utf8", maxBuffer: 1 << 28 });
+  const run = spawnSync(process.execPath, [CLI, ...args], { cwd: ROOT, encoding: "utf8", maxBuffer: 1 << 28 });
   return { code: run.status, stdout: run.stdout, stderr: run.stderr };
 }
 
@@ -169,5 +175,39 @@ describe("portolan solve", () => {
     const solveHelp = await run("solve", "--help");
     expect(solveHelp.code).toBe(0);
     expect(solveHelp.stdout).toMatch(/--json/);
+  });
+
+  it("reports with --repeat N the first (cold) and the median warm solve time on stderr, the output unchanged", () => {
+    const r = cli("solve", `${FIXTURES}/two-pads.json`, "--repeat", "5");
+    expect(r.code).toBe(0);
+    expect(r.stdout).toBe(cli("solve", `${FIXTURES}/two-pads.json`).stdout);
+    expect(r.stderr).toMatch(/^solve --repeat 5: first \(cold\) \d+\.\d\d ms, median of 4 warm \d+\.\d\d ms \(prepare \+ solve; files read once\)\n$/);
+    const j = cli("solve", `${FIXTURES}/two-pads.json`, "--json", "--repeat=3");
+    const out = JSON.parse(j.stdout);
+    expect(out.repeat.runs).toBe(3);
+    expect(out.repeat.first_ms).toBeGreaterThan(0);
+    expect(out.repeat.warm_median_ms).toBeGreaterThan(0);
+  });
+
+  it("takes the median of the warm runs only (the mean of the middle two for an even count)", () => {
+    expect(repeatTiming([90, 8, 7, 9])).toEqual({ runs: 4, first_ms: 90, warm_median_ms: 8 });
+    expect(repeatTiming([90, 8, 7, 9, 100])).toEqual({ runs: 5, first_ms: 90, warm_median_ms: 8.5 });
+    expect(repeatTiming([12])).toEqual({ runs: 1, first_ms: 12, warm_median_ms: null });
+    expect(formatRepeat(repeatTiming([12]))).toBe("solve --repeat 1: first (cold) 12.00 ms, no warm runs (prepare + solve; files read once)");
+  });
+
+  it("exits 2 for a --repeat that is not a whole number of runs", async () => {
+    for (const bad of ["0", "2.5", "x"]) {
+      const r = await run("solve", `${FIXTURES}/two-pads.json`, "--repeat", bad);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toMatch(/--repeat expects a whole number of runs from 1 to 10000/);
+    }
+  });
+
+  it("keeps no internal-wave maps for a plain solve (the CLI's solve asks for none)", () => {
+    const sol = solveScenario(twoPads(), { waves: false });
+    const inc = new Float64Array(2 * sol.frequencies.length * sol.ports.length);
+    expect(() => internalWaves(sol, inc)).toThrow(EngineInputError);
+    expect(() => internalWaves(solveScenario(twoPads()), inc)).not.toThrow();
   });
 });

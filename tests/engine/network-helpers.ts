@@ -1,7 +1,7 @@
 // Test helpers for the interconnection: PreparedSystem objects built directly from small S matrices,
 // seeded random S (general, passive, reciprocal, lossless) and comparisons.
 
-import { spawnSync } from "node:child_process";
+import { runPythonJson } from "./reference/python";
 import type { EvaluatedBlock, PreparedSystem, SData } from "../../engine/types";
 
 export type BlockDef = { id: string; s: SData };
@@ -170,26 +170,20 @@ export function maxDiff(x: Float64Array, y: Float64Array): number {
 }
 
 /**
- * Run a Python script with Debian's /usr/bin/python3 (numpy, scikit-rf 0.15.4). The script reads JSON
- * from stdin as `data` and must print JSON. Complex arrays travel as interleaved re/im lists; in Python
- * `cx(list)` turns one into a complex numpy vector.
+ * Run a Python script with Debian's /usr/bin/python3 (numpy, scikit-rf 0.15.4) through the shared
+ * reference harness (tests/engine/reference/python.ts). The script reads JSON from stdin as `data` and
+ * must print JSON. Complex arrays travel as interleaved re/im lists; in Python `cx(list)` turns one into
+ * a complex numpy vector.
  */
 export function runPython<T>(script: string, input: unknown): T {
-  const prelude = [
+  const helpers = [
     "import sys, json",
-    "import numpy as np",
-    "np.complex = complex; np.float = float; np.int = int",
     "data = json.load(sys.stdin)",
     "def cx(v): return np.array(v, dtype=float).view(complex)",
     "def flat(a): return np.ascontiguousarray(np.asarray(a, dtype=complex)).view(float).ravel().tolist()",
     "",
   ].join("\n");
-  const env = { ...process.env, MPLBACKEND: "Agg", MPLCONFIGDIR: "/tmp" };
-  const r = spawnSync("/usr/bin/python3", ["-c", prelude + script], { input: JSON.stringify(input), encoding: "utf8", maxBuffer: 1 << 28, env });
-  if (r.status !== 0) throw new Error(`python failed: ${r.stderr}`);
-  // the library may print notices before our JSON: the answer is the last line
-  const lines = r.stdout.trim().split("\n");
-  return JSON.parse(lines[lines.length - 1]) as T;
+  return runPythonJson<T>(helpers + script, input);
 }
 
 export type BlockFlavour = "general" | "passive" | "reciprocal" | "lossless" | "lossless-reciprocal";

@@ -85,7 +85,7 @@ beforeAll(() => {
       order.push(seed);
     }
   }
-  const out = runPythonJson<{ results: number[][][][][]; skrf: string }>(SCRIPT, { cases: inputs });
+  const out = runPythonJson<{ results: number[][][][][]; skrf: string }>({ file: SCRIPT }, { cases: inputs }, { skrf: true });
   expect(out.skrf).toBe("0.15.4");
   order.forEach((seed, i) => {
     solved.get(seed)!.ref = out.results[i];

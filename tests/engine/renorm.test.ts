@@ -3,7 +3,8 @@
 // renormalize_s (which goes through Z, so only networks that have a Z matrix are compared with it).
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { renormalize, solveComplexInPlace, z0Vector } from "@/engine/renorm";
+import { solveComplexInPlace } from "@/engine/linalg";
+import { renormalize, z0Vector } from "@/engine/renorm";
 import { EngineInputError, SingularSystemError, type SData } from "@/engine/types";
 import { interleave, requireSkrf, runSkrf, split, type Cplx } from "../fixtures/touchstone/skrf";
 

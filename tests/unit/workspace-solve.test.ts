@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import type { Scenario } from "@/engine/types";
 import { parseTouchstone } from "@/engine/touchstone";
 import { runSolve } from "@/lib/browser/solve";
-import { compositeTouchstone } from "@/lib/browser/downloads";
+import { writeCompositeTouchstone } from "@/engine/touchstone";
 import { elementAt, groupDelay, magnitudeDb, solutionToCsv } from "@/lib/domain/results/results-math";
 import { addBlock, addLink, setSystemPort } from "@/lib/browser/scenario-model";
 import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
@@ -90,7 +90,7 @@ describe("runSolve (what the engine worker runs)", () => {
 describe("downloads of a solved scenario", () => {
   it("writes a composite Touchstone file that reads back to the same S", () => {
     const r = must(runSolve({ seq: 1, scenario: scenarioForEngine(twoPads()), parts: {} }));
-    const text = compositeTouchstone(r.view, "Bench");
+    const text = writeCompositeTouchstone(r.view, { scenarioName: "Bench" });
     const back = parseTouchstone(text, { name: "bench.s2p" });
     expect(back.ports).toBe(2);
     expect(back.frequencies.length).toBe(31);
@@ -107,7 +107,7 @@ describe("downloads of a solved scenario", () => {
     s = must(setSystemPort(s, "PAD2:2", { name: "RX", z0: 75 })).scenario;
     const r = must(runSolve({ seq: 1, scenario: scenarioForEngine(s), parts: {} }));
     expect(r.view.portZ0).toEqual([50, 75]);
-    const text = compositeTouchstone(r.view, "Bench");
+    const text = writeCompositeTouchstone(r.view, { scenarioName: "Bench" });
     expect(text).toMatch(/\[Version\] 2\.0/);
     expect(text).toMatch(/\[Reference\]/);
     // 50 Ω pad into a 75 Ω reference: Γ = (50 − 75)/(50 + 75) = −0.2 seen at RX (Pozar, 4th ed., eq. 2.35)
