@@ -36,8 +36,8 @@ export function registerDemoSeedStep(step: (ctx: DemoSeedContext) => Promise<voi
 
 /**
  * Create the demo users and project once. Idempotent: does nothing if the demo project exists or if
- * any of the demo e-mails is already taken. The first demo user (Olive) is site admin if the database
- * has no site admin yet.
+ * any of the demo e-mails is already taken. Demo users are never site admins: their password is
+ * published, so the first real account to sign up becomes site admin instead.
  */
 export async function seedDemo(): Promise<{ seeded: boolean; projectId: string | null }> {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
@@ -48,11 +48,10 @@ export async function seedDemo(): Promise<{ seeded: boolean; projectId: string |
       const [taken] = await tx.select({ id: users.id }).from(users).where(eq(users.email, demo.email));
       if (taken) return { seeded: false, projectId: null };
     }
-    const [admin] = await tx.select({ id: users.id }).from(users).where(eq(users.isSiteAdmin, true)).limit(1);
     const ids = {} as DemoSeedContext["users"];
-    for (const [index, demo] of DEMO_USERS.entries()) {
+    for (const demo of DEMO_USERS) {
       const id = randomUUID();
-      await tx.insert(users).values({ id, email: demo.email, name: demo.name, passwordHash, isSiteAdmin: index === 0 && !admin });
+      await tx.insert(users).values({ id, email: demo.email, name: demo.name, passwordHash, isSiteAdmin: false });
       ids[demo.role] = id;
     }
     const projectId = randomUUID();

@@ -103,7 +103,7 @@ export async function acceptInvitation({
     }
     const fields: Record<string, string> = {};
     if (!name) fields.name = "Enter your name.";
-    if (!password) fields.password = "Choose a password of at least 8 characters.";
+    if (!password) fields.password = "Choose a password of at least 10 characters.";
     if (Object.keys(fields).length > 0) throw new AppError("validation_failed", 400, "Choose a name and a password to create your account.", fields);
     signedIn = await signUp({ email: invitation.email, name: name as string, password: password as string, viaInvitation: true });
     user = signedIn.user;

@@ -1,6 +1,6 @@
 import "server-only";
 import { runInTransaction } from "@/db/client";
-import { countUsers, getUserWithPasswordByEmail, insertUser, type PublicUser } from "@/db/queries/users";
+import { getUserWithPasswordByEmail, hasSiteAdmin, insertUser, type PublicUser } from "@/db/queries/users";
 import { getSignupMode } from "@/db/queries/settings";
 import { AppError } from "@/lib/base/errors";
 import { hashPassword, verifyAgainstDummy, verifyPassword } from "./password";
@@ -31,7 +31,8 @@ export async function signUp({
 }): Promise<SignedIn> {
   const passwordHash = await hashPassword(password);
   const user = await runInTransaction(async (tx) => {
-    if (!viaInvitation && (await countUsers({ executor: tx })) > 0 && (await getSignupMode({ executor: tx })) === "invite") {
+    // Until a real account exists (demo accounts are never site admins) anyone may sign up: that account becomes site admin.
+    if (!viaInvitation && (await hasSiteAdmin({ executor: tx })) && (await getSignupMode({ executor: tx })) === "invite") {
       throw new AppError("forbidden", 403, "Sign-up is by invitation only. Ask a project owner to invite you.");
     }
     return insertUser({ email, name, passwordHash, executor: tx });
