@@ -1,6 +1,6 @@
 import "server-only";
 import { z } from "zod";
-import { isLoopbackUrl } from "./origins";
+import { isLoopbackUrl, originPolicyFromEnv } from "./origins";
 
 // Read once; every other module imports `env` instead of touching process.env.
 const optionalFlag = z
@@ -76,12 +76,7 @@ export function parseEnv(raw: Record<string, string | undefined>) {
     /** Extra origin accepted for state-changing requests besides the request's own Host. */
     appOrigin: value.APP_ORIGIN ? new URL(value.APP_ORIGIN).origin : value.APP_URL ? new URL(value.APP_URL).origin : null,
     /** Who may send state-changing requests (see lib/base/origins.ts isAllowedOrigin). */
-    originPolicy: {
-      appOrigin: new URL(appUrl).origin,
-      extraOrigin: value.APP_ORIGIN ? new URL(value.APP_ORIGIN).origin : null,
-      explicit: Boolean(value.APP_URL ?? value.APP_ORIGIN),
-      trustProxyHops: value.TRUST_PROXY,
-    },
+    originPolicy: originPolicyFromEnv({ APP_URL: value.APP_URL, APP_ORIGIN: value.APP_ORIGIN, TRUST_PROXY: String(value.TRUST_PROXY) }),
     /** Proxies in front of the app whose X-Forwarded-* headers are believed (TRUST_PROXY). */
     trustProxyHops: value.TRUST_PROXY,
     cookieSecure: value.COOKIE_SECURE,

@@ -110,3 +110,25 @@ export function safeRedirectPath(value: string | null | undefined, appOrigin: st
   if (parsed.origin !== new URL(appOrigin).origin) return fallback;
   return `${parsed.pathname}${parsed.search}${parsed.hash}`;
 }
+
+/**
+ * The origin policy from raw environment variables (APP_URL, APP_ORIGIN, TRUST_PROXY), for code that
+ * cannot use lib/base/env.ts (proxy.ts). Invalid values fall back to the defaults here; env.ts reports them.
+ */
+export function originPolicyFromEnv(raw: Record<string, string | undefined>): OriginPolicy {
+  const toOrigin = (value: string | undefined) => {
+    try {
+      return value ? new URL(value).origin : null;
+    } catch {
+      return null;
+    }
+  };
+  const hops = Number(raw.TRUST_PROXY === "true" ? 1 : (raw.TRUST_PROXY ?? 0));
+  const extraOrigin = toOrigin(raw.APP_ORIGIN);
+  return {
+    appOrigin: toOrigin(raw.APP_URL) ?? extraOrigin ?? "http://localhost:3000",
+    extraOrigin,
+    explicit: Boolean(raw.APP_URL || raw.APP_ORIGIN),
+    trustProxyHops: Number.isInteger(hops) && hops > 0 && hops <= 10 ? hops : 0,
+  };
+}
