@@ -71,6 +71,13 @@ export function proxy(request: NextRequest): NextResponse {
     // Next reads the nonce from the request's CSP header and puts it on its own scripts; the root layout reads x-nonce.
     requestHeaders.set("x-nonce", nonce);
     requestHeaders.set("content-security-policy", csp);
+    // Without trusted proxies, X-Forwarded-Host is whatever the client wrote: Next's own server-action
+    // check must compare the Origin with the real Host instead.
+    if (policy.trustProxyHops === 0) {
+      const host = request.headers.get("host");
+      if (host) requestHeaders.set("x-forwarded-host", host);
+      else requestHeaders.delete("x-forwarded-host");
+    }
     response = NextResponse.next({ request: { headers: requestHeaders } });
   }
   setSecurityHeaders(response.headers, csp, https);
