@@ -29,6 +29,10 @@ const mono = localFont({
   fallback: ["ui-monospace", "monospace"],
 });
 
+// zod probes for eval (`Function("")`) the first time it parses an object, to compile faster parsers. The
+// CSP forbids eval, so the probe would be reported as a violation; say up front that it must not compile.
+const zodJitlessScript = `globalThis.__zod_globalConfig=Object.assign(globalThis.__zod_globalConfig||{},{jitless:true})`;
+
 export const metadata: Metadata = {
   title: { default: "Portolan", template: "%s · Portolan" },
   description: "Integration checks for RF front ends built from N-port parts: isolation, match, leak paths, power and drive levels.",
@@ -50,6 +54,7 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
     <html lang="en" className={`${sans.variable} ${mono.variable}`} suppressHydrationWarning>
       <head>
         <script nonce={nonce} dangerouslySetInnerHTML={{ __html: themeBootScript }} />
+        <script nonce={nonce} dangerouslySetInnerHTML={{ __html: zodJitlessScript }} />
       </head>
       <body className="bg-paper font-sans text-ink antialiased">
         {env.demoOnPublicAddress ? (

@@ -20,7 +20,7 @@ function watchCsp(page: Page): string[] {
   });
   void page.addInitScript(() => {
     document.addEventListener("securitypolicyviolation", (event) => {
-      console.error(`Refused to apply (securitypolicyviolation): ${event.violatedDirective} ${event.blockedURI}`);
+      console.error(`Refused to apply (securitypolicyviolation): ${event.violatedDirective} ${event.blockedURI} at ${event.sourceFile}:${event.lineNumber}:${event.columnNumber}`);
     });
   });
   return violations;
@@ -98,7 +98,7 @@ test("a personal API token made on the Account page is shown once and reads the 
   // After a reload the list shows the token by name and prefix only; revoking it ends it.
   await page.reload();
   await expect(page.getByTestId("new-api-token")).toHaveCount(0);
-  await expect(page.getByRole("cell", { name: /e2e pipeline/ })).toBeVisible();
+  await expect(page.getByRole("cell", { name: /^e2e pipeline ptl_/ })).toBeVisible();
   await expect(page.getByText(token)).toHaveCount(0);
   await page.getByRole("button", { name: "Revoke e2e pipeline" }).click();
   await expect(page.getByRole("cell", { name: "revoked" })).toBeVisible();
