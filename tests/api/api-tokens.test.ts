@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
-import { call, createAccount, makeRequest, setUpDatabase, type ErrorJson } from "./helpers";
+import { call, makeRequest, setUpDatabase, type ErrorJson } from "./helpers";
 import * as tokensRoute from "@/app/api/account/tokens/route";
 import * as tokenRoute from "@/app/api/account/tokens/[tokenId]/route";
 import * as notificationsRoute from "@/app/api/account/notifications/route";
