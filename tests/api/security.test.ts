@@ -10,9 +10,9 @@ import * as projectRoute from "@/app/api/projects/[projectId]/route";
 import * as invitationsRoute from "@/app/api/projects/[projectId]/invitations/route";
 import * as acceptRoute from "@/app/api/invitations/accept/route";
 import { db } from "@/db/client";
-import { invitations, memberships, outboxMessages, passwordResets, projects, users } from "@/db/schema";
+import { invitations, mailRateLimits, memberships, outboxMessages, passwordResets, projects, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
-import { MAIL_LIMITS } from "@/lib/server/mail/rate-limit";
+import { MAIL_LIMITS, MAIL_WINDOW_MS, mailKeys, takeMailAllowance } from "@/lib/server/mail/rate-limit";
 import { proxy } from "@/proxy";
 import nextConfig from "@/next.config";
 
@@ -202,6 +202,23 @@ describe("item 5: mail cannot be used as a cannon", () => {
       sent.push(((await response.json()) as { invitation: { emailSent: boolean } }).invitation.emailSent);
     }
     expect(sent).toEqual([true, true, true, true, true, false, false]);
+  });
+});
+
+describe("item 5: the mail allowance (lib/server/mail/rate-limit.ts)", () => {
+  it("counts per sender across recipients, takes nothing when any key is used up, and starts again after the hour", async () => {
+    const t0 = new Date("2026-05-01T10:00:00Z").getTime();
+    const results: boolean[] = [];
+    for (let i = 0; i < MAIL_LIMITS.signoffPerSender + 1; i++) results.push(await takeMailAllowance(mailKeys.signoff(`r${i % 40}@example.test`, "sender-1"), t0 + i));
+    expect(results.filter(Boolean).length).toBe(MAIL_LIMITS.signoffPerSender);
+    expect(results[MAIL_LIMITS.signoffPerSender]).toBe(false);
+    // The refused message did not count against its recipient either.
+    const [recipient] = await db.select().from(mailRateLimits).where(eq(mailRateLimits.key, `signoff:to:r${MAIL_LIMITS.signoffPerSender % 40}@example.test`));
+    expect(recipient.count).toBe(1);
+    // Another sender may still write to the same people; the first sender may again after the window.
+    expect(await takeMailAllowance(mailKeys.signoff("r0@example.test", "sender-2"), t0 + 100)).toBe(true);
+    expect(await takeMailAllowance(mailKeys.signoff("r0@example.test", "sender-1"), t0 + MAIL_WINDOW_MS - 1)).toBe(false);
+    expect(await takeMailAllowance(mailKeys.signoff("r0@example.test", "sender-1"), t0 + MAIL_WINDOW_MS)).toBe(true);
   });
 });
 
