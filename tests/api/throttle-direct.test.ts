@@ -1,7 +1,7 @@
 import { afterEach, beforeAll, describe, expect, it, vi } from "vitest";
 import { call, createAccount, makeRequest, setUpDatabase } from "./helpers";
 import { POST as signInRoute } from "@/app/api/auth/sign-in/route";
-import { PAIR_FAILURE_LIMIT } from "@/lib/server/auth/throttle";
+import { ACCOUNT_BASE_LOCK_MS, ACCOUNT_MAX_LOCK_MS, PAIR_FAILURE_LIMIT } from "@/lib/server/auth/throttle";
 
 // Without TRUST_PROXY (the default: the app faces clients directly) X-Forwarded-For is whatever the client
 // wrote, so it is ignored: rotating it gains nothing. Clients are told apart only by the device cookie a
@@ -50,13 +50,20 @@ describe("sign-in throttle without a trusted proxy", () => {
     expect(statuses.slice(0, PAIR_FAILURE_LIMIT - 1).every((s) => s === 401)).toBe(true);
     expect(statuses.slice(PAIR_FAILURE_LIMIT - 1).every((s) => s === 429)).toBe(true);
 
-    // A stranger without the cookie is refused even with the right password (they cannot be told apart)...
-    expect((await signIn("gil@example.test", "gil's right password", "10.99.0.1")).status).toBe(429);
+    // A stranger without the cookie is refused even with the right password (they cannot be told apart),
+    // but only for the account's short, capped lock: 30 s, doubling per lock in a row, at most 5 min.
+    const stranger = await signIn("gil@example.test", "gil's right password", "10.99.0.1");
+    expect(stranger.status).toBe(429);
+    expect(Number(stranger.headers.get("retry-after")) * 1000).toBeLessThanOrEqual(ACCOUNT_MAX_LOCK_MS);
+    expect(ACCOUNT_BASE_LOCK_MS).toBe(30_000);
     // ...and a forged device cookie is no better...
     expect((await signIn("gil@example.test", "gil's right password", "10.99.0.1", "portolan_device=AAAAAAAAAAAAAAAAAAAAAA.AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA")).status).toBe(429);
     // ...nor is the device cookie of another account...
     expect((await signIn("gil@example.test", "gil's right password", "10.99.0.1", halDevice)).status).toBe(429);
     // ...but the owner's browser signs in.
     expect((await signIn("gil@example.test", "gil's right password", "10.99.0.1", device!)).status).toBe(200);
+    // And half a minute later a new browser does too: the shared lock was short.
+    vi.setSystemTime(new Date(Date.now() + ACCOUNT_BASE_LOCK_MS + 1000));
+    expect((await signIn("gil@example.test", "gil's right password", "10.99.0.2")).status).toBe(200);
   });
 });

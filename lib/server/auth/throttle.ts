@@ -35,7 +35,16 @@ function clientId({ address, device }: ThrottleKeys): string {
 }
 
 function pairKey(keys: ThrottleKeys): Key {
-  return { key: `pair:${keys.email.trim().toLowerCase()}|${clientId(keys)}`, limit: PAIR_FAILURE_LIMIT, baseMs: BASE_LOCK_MS, maxMs: MAX_LOCK_MS };
+  const client = clientId(keys);
+  // Clients we cannot tell apart share one pair per account, which makes it a per-account lock: it gets
+  // the account's slower, capped back-off, so failing on purpose shuts a new browser out for minutes at most.
+  const anonymous = client === "anonymous";
+  return {
+    key: `pair:${keys.email.trim().toLowerCase()}|${client}`,
+    limit: PAIR_FAILURE_LIMIT,
+    baseMs: anonymous ? ACCOUNT_BASE_LOCK_MS : BASE_LOCK_MS,
+    maxMs: anonymous ? ACCOUNT_MAX_LOCK_MS : MAX_LOCK_MS,
+  };
 }
 
 function accountKey(keys: ThrottleKeys): Key {
