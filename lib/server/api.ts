@@ -97,11 +97,14 @@ export function assertSameOrigin(request: Request): void {
   throw new AppError("forbidden", 403, "Cross-site request refused: the Origin does not match this site.");
 }
 
-/** The token of an `Authorization: Bearer …` header, or null when there is none. */
+/**
+ * The token of an `Authorization: Bearer …` header, or null when there is none. Other schemes (a Basic
+ * login asked for by a proxy in front of the app, say) are not ours and are ignored.
+ */
 export function bearerToken(request: Request): string | null {
   const header = request.headers.get("authorization");
-  if (!header) return null;
-  const match = /^Bearer\s+(\S+)\s*$/i.exec(header);
+  if (!header || !/^Bearer(\s|$)/i.test(header.trim())) return null;
+  const match = /^Bearer\s+(\S+)\s*$/i.exec(header.trim());
   if (!match) throw new AppError("unauthenticated", 401, "Send the API token as: Authorization: Bearer <token>.");
   return match[1];
 }

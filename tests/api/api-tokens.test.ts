@@ -167,6 +167,13 @@ describe("personal API tokens", () => {
     expect(await db.select().from(apiTokens)).toEqual(before);
   });
 
+  it("another Authorization scheme (a proxy's Basic login) is ignored: the session cookie still counts", async () => {
+    const withBasic = makeRequest("GET", "/api/account/tokens", { cookie: cookies.owner, headers: { authorization: "Basic dXNlcjpwYXNz" } });
+    expect((await call(tokensRoute.GET, withBasic)).status).toBe(200);
+    const emptyBearer = makeRequest("GET", scenarioPath(), { origin: null, headers: { authorization: "Bearer " } });
+    expect((await call(scenarioRoute.GET, emptyBearer, { projectId: demoProjectId, scenarioId })).status).toBe(401);
+  });
+
   it("refuses bad input with the field named, and needs a session to create", async () => {
     const bad = await createToken(cookies.owner, { name: "bad\u202Ename", projectIds: [], roleCeiling: "admin", expiresInDays: 9999 });
     expect(bad.status).toBe(400);
