@@ -1,6 +1,6 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import { runInTransaction, type Transaction } from "./client";
 import { memberships, projects, users, type Role } from "./schema";
 import { recordAudit } from "@/lib/server/audit";
@@ -62,6 +62,26 @@ export async function seedDemo(): Promise<{ seeded: boolean; projectId: string |
     await recordAudit(tx, { actor: null, projectId, action: "demo.seed", target: DEMO_PROJECT.name });
     for (const step of extraSteps) await step({ tx, projectId, users: ids });
     return { seeded: true, projectId };
+  });
+}
+
+/**
+ * Databases seeded before demo users stopped being site admins may still have Olive as one: take it away
+ * at start (the demo password is published). With no site admin left, the next real account to sign up
+ * becomes one, as on a fresh database. Returns the e-mails demoted.
+ */
+export async function revokeDemoSiteAdmins(): Promise<string[]> {
+  const emails = DEMO_USERS.map((demo) => demo.email as string);
+  return runInTransaction(async (tx) => {
+    const admins = await tx
+      .select({ id: users.id, email: users.email })
+      .from(users)
+      .where(and(inArray(users.email, emails), eq(users.isSiteAdmin, true)));
+    for (const admin of admins) {
+      await tx.update(users).set({ isSiteAdmin: false }).where(eq(users.id, admin.id));
+      await recordAudit(tx, { actor: null, action: "user.revoke_admin", target: admin.email, detail: { reason: "demo account" } });
+    }
+    return admins.map((admin) => admin.email);
   });
 }
 

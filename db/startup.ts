@@ -1,7 +1,7 @@
 import "server-only";
 import { getEnv } from "@/lib/base/env";
 import { migrateDatabase } from "./migrate";
-import { seedDemo } from "./seed";
+import { revokeDemoSiteAdmins, seedDemo } from "./seed";
 
 const globalForStartup = globalThis as unknown as { portolanStartup?: Promise<void> };
 
@@ -18,6 +18,8 @@ export function startApp(): Promise<void> {
         `[seed] WARNING: SEED_DEMO=1 on ${env.appUrl}, an address others can reach: the demo accounts have a published password. Remove SEED_DEMO for a real installation.`,
       );
     }
+    const demoted = await revokeDemoSiteAdmins();
+    if (demoted.length > 0) console.warn(`[seed] demo accounts are no longer site admins: ${demoted.join(", ")}`);
     if (env.seedDemo) {
       const result = await seedDemo();
       if (result.seeded) console.log("[seed] demo project and users created (password: portolan-demo)");

@@ -11,7 +11,7 @@ import * as invitationsRoute from "@/app/api/projects/[projectId]/invitations/ro
 import * as acceptRoute from "@/app/api/invitations/accept/route";
 import { db } from "@/db/client";
 import { invitations, mailRateLimits, memberships, outboxMessages, passwordResets, projects, users } from "@/db/schema";
-import { DEMO_USERS, seedDemo } from "@/db/seed";
+import { DEMO_USERS, revokeDemoSiteAdmins, seedDemo } from "@/db/seed";
 import { MAIL_LIMITS, MAIL_WINDOW_MS, mailKeys, takeMailAllowance } from "@/lib/server/mail/rate-limit";
 import { proxy } from "@/proxy";
 import nextConfig from "@/next.config";
@@ -53,6 +53,14 @@ describe("item 1: demo accounts are never site admins; the first real account is
     await call(signUpRoute.POST, makeRequest("POST", "/api/auth/sign-up", { body: { name: "Second", email: "second@example.test", password: "another long password" } }));
     const [second] = await db.select().from(users).where(eq(users.email, "second@example.test"));
     expect(second.isSiteAdmin).toBe(false);
+  });
+
+  it("a demo account made site admin by an older seed loses it at start; real admins keep it", async () => {
+    await db.update(users).set({ isSiteAdmin: true }).where(eq(users.email, "olive@portolan.example"));
+    expect(await revokeDemoSiteAdmins()).toEqual(["olive@portolan.example"]);
+    const admins = (await db.select().from(users).where(eq(users.isSiteAdmin, true))).map((u) => u.email);
+    expect(admins).toEqual(["admin@example.test"]);
+    expect(await revokeDemoSiteAdmins()).toEqual([]);
   });
 });
 
