@@ -2,7 +2,9 @@ import { defineConfig, devices } from "@playwright/test";
 
 // Browser tests run Debian's chromium (never a downloaded browser) against `next start` on a fresh
 // database. tests/run-all.sh builds the app first; run `npx next build` before `npx playwright test`.
-const PORT = 3210;
+// E2E_PORT / E2E_SMTP_PORT let several checkouts run their browser tests at once on one machine.
+const PORT = Number(process.env.E2E_PORT ?? 3210);
+const SMTP_PORT = process.env.E2E_SMTP_PORT ?? "2626";
 const BASE_URL = `http://127.0.0.1:${PORT}`;
 const E2E_DB = "data/e2e-playwright.db";
 const isCI = Boolean(process.env.CI);
@@ -56,7 +58,7 @@ export default defineConfig({
     env: {
       DATABASE_URL: `file:${E2E_DB}`,
       FAKE_SMTP: "1",
-      FAKE_SMTP_PORT: "2626",
+      FAKE_SMTP_PORT: SMTP_PORT,
       OUTBOX_ENABLED: "1",
       SEED_DEMO: "1",
       COOKIE_SECURE: "false",

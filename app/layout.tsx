@@ -1,7 +1,9 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
+import { headers } from "next/headers";
 import type { ReactNode } from "react";
 import { themeBootScript } from "@/components/shell/theme-script";
+import { getEnv } from "@/lib/base/env";
 import "./globals.css";
 
 // Fonts ship with the app (copied from @fontsource, SIL Open Font License; see app/fonts/LICENSE-*.txt).
@@ -27,6 +29,10 @@ const mono = localFont({
   fallback: ["ui-monospace", "monospace"],
 });
 
+// zod probes for eval (`Function("")`) the first time it parses an object, to compile faster parsers. The
+// CSP forbids eval, so the probe would be reported as a violation; say up front that it must not compile.
+const zodJitlessScript = `globalThis.__zod_globalConfig=Object.assign(globalThis.__zod_globalConfig||{},{jitless:true})`;
+
 export const metadata: Metadata = {
   title: { default: "Portolan", template: "%s · Portolan" },
   description: "Integration checks for RF front ends built from N-port parts: isolation, match, leak paths, power and drive levels.",
@@ -40,13 +46,24 @@ export const viewport: Viewport = {
   ],
 };
 
-export default function RootLayout({ children }: { children: ReactNode }) {
+export default async function RootLayout({ children }: { children: ReactNode }) {
+  // proxy.ts makes a nonce per request; the Content-Security-Policy runs only scripts that carry it.
+  const nonce = (await headers()).get("x-nonce") ?? undefined;
+  const env = getEnv();
   return (
     <html lang="en" className={`${sans.variable} ${mono.variable}`} suppressHydrationWarning>
       <head>
-        <script dangerouslySetInnerHTML={{ __html: themeBootScript }} />
+        <script nonce={nonce} dangerouslySetInnerHTML={{ __html: themeBootScript }} />
+        <script nonce={nonce} dangerouslySetInnerHTML={{ __html: zodJitlessScript }} />
       </head>
-      <body className="bg-paper font-sans text-ink antialiased">{children}</body>
+      <body className="bg-paper font-sans text-ink antialiased">
+        {env.demoOnPublicAddress ? (
+          <div role="alert" className="bg-fail px-4 py-2 text-center text-sm font-semibold text-on-fail">
+            Demo accounts are on (SEED_DEMO=1) at {env.appUrl}: their password is published. Remove SEED_DEMO and delete the demo accounts before real use.
+          </div>
+        ) : null}
+        {children}
+      </body>
     </html>
   );
 }

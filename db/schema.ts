@@ -341,3 +341,45 @@ export const signoffs = sqliteTable(
 );
 export type Signoff = typeof signoffs.$inferSelect;
 export type NewSignoff = typeof signoffs.$inferInsert;
+
+// ---------------------------------------------------------------------------------------------------
+// Security hardening (issue 12): mail rate limits and personal API tokens.
+
+/**
+ * Messages sent per key within a fixed window, e.g. "reset:to:<email>" or "invite:from:<userId>".
+ * Kept in the database so every app instance sharing it counts the same.
+ */
+export const mailRateLimits = sqliteTable("mail_rate_limits", {
+  key: text("key").primaryKey(),
+  count: integer("count").notNull().default(0),
+  windowStart: integer("window_start", { mode: "timestamp_ms" }).notNull(),
+});
+export type MailRateLimit = typeof mailRateLimits.$inferSelect;
+
+/** The most a token may do: a project role, or "read" (only actions that change nothing). */
+export const TOKEN_CEILINGS = ["owner", "engineer", "reviewer", "read"] as const;
+export type TokenCeiling = (typeof TOKEN_CEILINGS)[number];
+
+/** Personal API tokens for scripts and CI. `token_hash` is the SHA-256 of the token; the token is shown once. */
+export const apiTokens = sqliteTable(
+  "api_tokens",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    tokenHash: text("token_hash").notNull(),
+    /** The first characters of the token, shown in the list so a person can tell tokens apart. */
+    prefix: text("prefix").notNull(),
+    /** The projects the token may reach (still only while its owner is a member there). */
+    projectIds: text("project_ids", { mode: "json" }).notNull().$type<string[]>(),
+    roleCeiling: text("role_ceiling", { enum: TOKEN_CEILINGS }).notNull(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    lastUsedAt: integer("last_used_at", { mode: "timestamp_ms" }),
+    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("api_tokens_token_hash_idx").on(table.tokenHash), index("api_tokens_user_id_idx").on(table.userId)],
+);
+export type ApiToken = typeof apiTokens.$inferSelect;

@@ -1,6 +1,6 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import { runInTransaction, type Transaction } from "./client";
 import { memberships, projects, users, type Role } from "./schema";
 import { recordAudit } from "@/lib/server/audit";
@@ -36,8 +36,8 @@ export function registerDemoSeedStep(step: (ctx: DemoSeedContext) => Promise<voi
 
 /**
  * Create the demo users and project once. Idempotent: does nothing if the demo project exists or if
- * any of the demo e-mails is already taken. The first demo user (Olive) is site admin if the database
- * has no site admin yet.
+ * any of the demo e-mails is already taken. Demo users are never site admins: their password is
+ * published, so the first real account to sign up becomes site admin instead.
  */
 export async function seedDemo(): Promise<{ seeded: boolean; projectId: string | null }> {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
@@ -48,11 +48,10 @@ export async function seedDemo(): Promise<{ seeded: boolean; projectId: string |
       const [taken] = await tx.select({ id: users.id }).from(users).where(eq(users.email, demo.email));
       if (taken) return { seeded: false, projectId: null };
     }
-    const [admin] = await tx.select({ id: users.id }).from(users).where(eq(users.isSiteAdmin, true)).limit(1);
     const ids = {} as DemoSeedContext["users"];
-    for (const [index, demo] of DEMO_USERS.entries()) {
+    for (const demo of DEMO_USERS) {
       const id = randomUUID();
-      await tx.insert(users).values({ id, email: demo.email, name: demo.name, passwordHash, isSiteAdmin: index === 0 && !admin });
+      await tx.insert(users).values({ id, email: demo.email, name: demo.name, passwordHash, isSiteAdmin: false });
       ids[demo.role] = id;
     }
     const projectId = randomUUID();
@@ -63,6 +62,26 @@ export async function seedDemo(): Promise<{ seeded: boolean; projectId: string |
     await recordAudit(tx, { actor: null, projectId, action: "demo.seed", target: DEMO_PROJECT.name });
     for (const step of extraSteps) await step({ tx, projectId, users: ids });
     return { seeded: true, projectId };
+  });
+}
+
+/**
+ * Databases seeded before demo users stopped being site admins may still have Olive as one: take it away
+ * at start (the demo password is published). With no site admin left, the next real account to sign up
+ * becomes one, as on a fresh database. Returns the e-mails demoted.
+ */
+export async function revokeDemoSiteAdmins(): Promise<string[]> {
+  const emails = DEMO_USERS.map((demo) => demo.email as string);
+  return runInTransaction(async (tx) => {
+    const admins = await tx
+      .select({ id: users.id, email: users.email })
+      .from(users)
+      .where(and(inArray(users.email, emails), eq(users.isSiteAdmin, true)));
+    for (const admin of admins) {
+      await tx.update(users).set({ isSiteAdmin: false }).where(eq(users.id, admin.id));
+      await recordAudit(tx, { actor: null, action: "user.revoke_admin", target: admin.email, detail: { reason: "demo account" } });
+    }
+    return admins.map((admin) => admin.email);
   });
 }
 

@@ -1,15 +1,25 @@
 import "server-only";
 import { getEnv } from "@/lib/base/env";
 import { migrateDatabase } from "./migrate";
-import { seedDemo } from "./seed";
+import { revokeDemoSiteAdmins, seedDemo } from "./seed";
 
 const globalForStartup = globalThis as unknown as { portolanStartup?: Promise<void> };
 
-/** Migrate, seed the demo (unless SEED_DEMO=0) and start the fake SMTP server (if enabled). Runs once per process. */
+/**
+ * Migrate, seed the demo (by default only when APP_URL is a loopback address; SEED_DEMO=1 forces it,
+ * SEED_DEMO=0 prevents it) and start the fake SMTP server (if enabled). Runs once per process.
+ */
 export function startApp(): Promise<void> {
   globalForStartup.portolanStartup ??= (async () => {
     const env = getEnv();
     await migrateDatabase();
+    if (env.demoOnPublicAddress) {
+      console.warn(
+        `[seed] WARNING: SEED_DEMO=1 on ${env.appUrl}, an address others can reach: the demo accounts have a published password. Remove SEED_DEMO for a real installation.`,
+      );
+    }
+    const demoted = await revokeDemoSiteAdmins();
+    if (demoted.length > 0) console.warn(`[seed] demo accounts are no longer site admins: ${demoted.join(", ")}`);
     if (env.seedDemo) {
       const result = await seedDemo();
       if (result.seeded) console.log("[seed] demo project and users created (password: portolan-demo)");

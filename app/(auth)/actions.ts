@@ -2,8 +2,8 @@
 
 import { redirect } from "next/navigation";
 import { z } from "zod";
-import { actionClientAddress, parseForm, runAction, safeNextPath } from "@/lib/server/actions";
-import { signIn, signUp } from "@/lib/server/auth/accounts";
+import { actionSignInClient, parseForm, runAction, safeNextPath } from "@/lib/server/actions";
+import { requestSignUp, signIn } from "@/lib/server/auth/accounts";
 import { confirmPasswordReset, RESET_REQUESTED_MESSAGE, requestPasswordReset } from "@/lib/server/auth/password-reset";
 import {
   blankSessionCookie,
@@ -22,8 +22,9 @@ export async function signInAction(_previous: FormState, formData: FormData): Pr
   let next = "/projects";
   const state = await runAction(formData, async (values) => {
     const input = parseForm(signInSchema, values);
-    const { cookie } = await signIn({ ...input, ip: await actionClientAddress() });
+    const { cookie, deviceCookie } = await signIn({ ...input, client: await actionSignInClient() });
     await setSessionCookie(cookie);
+    await setSessionCookie(deviceCookie);
     next = safeNextPath(values.next);
   });
   if (state.status === "success") redirect(next);
@@ -33,10 +34,10 @@ export async function signInAction(_previous: FormState, formData: FormData): Pr
 export async function signUpAction(_previous: FormState, formData: FormData): Promise<FormState> {
   const state = await runAction(formData, async (values) => {
     const input = parseForm(signUpSchema, values);
-    const { cookie } = await signUp(input);
-    await setSessionCookie(cookie);
+    await requestSignUp(input);
   });
-  if (state.status === "success") redirect("/projects");
+  // The same answer whether or not the address had an account: go and sign in.
+  if (state.status === "success") redirect("/sign-in?signed-up=1");
   return state;
 }
 

@@ -205,7 +205,6 @@ export function ScenarioChart(props: ScenarioChartProps) {
 
   return (
     <div className="absolute inset-0 overflow-hidden bg-paper" data-testid="scenario-chart">
-      <style>{`.portolan-chart .react-flow__attribution{background:transparent;color:var(--pt-muted);font-size:9px}.portolan-chart .react-flow__attribution a{color:inherit}`}</style>
       <BearingBackdrop origin={[0.35, 0.82]} lines={32} ring={false} />
       <ReactFlow<BlockNodeType, Edge>
         nodes={nodes}

@@ -5,7 +5,7 @@ import { db, runInTransaction } from "@/db/client";
 import { memberships, projects, type Project, type Role } from "@/db/schema";
 import { recordAudit } from "@/lib/server/audit";
 import { AppError } from "@/lib/base/errors";
-import { authorize } from "@/lib/server/permissions";
+import { authorize, getRole } from "@/lib/server/permissions";
 import type { SessionUser } from "@/lib/server/auth/session";
 
 export type ProjectWithRole = Pick<Project, "id" | "name" | "description" | "createdAt" | "updatedAt"> & { role: Role };
@@ -35,8 +35,10 @@ export async function getProjectForUser({ projectId, userId }: { projectId: stri
     .from(memberships)
     .innerJoin(projects, eq(projects.id, memberships.projectId))
     .where(and(eq(memberships.projectId, projectId), eq(memberships.userId, userId)));
-  if (!row) throw new AppError("not_found", 404, "Project not found.");
-  return row;
+  // getRole applies an API token's project scope and role ceiling (lib/server/auth/token-scope.ts).
+  const role = row ? await getRole({ userId, projectId }) : null;
+  if (!row || !role) throw new AppError("not_found", 404, "Project not found.");
+  return { ...row, role };
 }
 
 /** Any signed-in person may create a project and becomes its owner. */

@@ -47,8 +47,15 @@ export async function listUsers(): Promise<PublicUser[]> {
   return db.select(publicColumns).from(users).orderBy(asc(users.email));
 }
 
+/** Whether any account is site admin (demo accounts never are, so the first real account becomes one). */
+export async function hasSiteAdmin({ executor = db }: { executor?: Executor } = {}): Promise<boolean> {
+  const [row] = await executor.select({ id: users.id }).from(users).where(eq(users.isSiteAdmin, true)).limit(1);
+  return Boolean(row);
+}
+
 /**
- * Insert an account. The very first account becomes site admin. Throws 409 if the e-mail is taken.
+ * Insert an account. The first account made while no site admin exists becomes site admin (demo
+ * accounts are never site admins, so on a demo database that is the first real sign-up). Throws 409 if the e-mail is taken.
  * Call inside a transaction so the first-account check and the insert cannot interleave.
  */
 export async function insertUser({
@@ -67,7 +74,7 @@ export async function insertUser({
   const normalised = normaliseEmail(email);
   const existing = await getUserByEmail({ email: normalised, executor });
   if (existing) throw new AppError("conflict", 409, "An account with this e-mail already exists.", { email: "An account with this e-mail already exists." });
-  const isFirst = (await countUsers({ executor })) === 0;
+  const isFirst = !(await hasSiteAdmin({ executor }));
   const id = randomUUID();
   await executor.insert(users).values({ id, email: normalised, name, passwordHash, isSiteAdmin: forceSiteAdmin ?? isFirst });
   const created = await getUserById({ userId: id, executor });

@@ -1,7 +1,13 @@
 import "server-only";
 import { z } from "zod";
+import { isLoopbackUrl, originPolicyFromEnv } from "./origins";
 
 // Read once; every other module imports `env` instead of touching process.env.
+const optionalFlag = z
+  .enum(["1", "0", "true", "false", "yes", "no", "on", "off", ""])
+  .optional()
+  .transform((value) => (value === undefined || value === "" ? undefined : value === "1" || value === "true" || value === "yes" || value === "on"));
+
 const flag = (fallback: boolean) =>
   z
     .enum(["1", "0", "true", "false", "yes", "no", "on", "off", ""])
@@ -32,7 +38,21 @@ export function parseEnv(raw: Record<string, string | undefined>) {
     APP_ORIGIN: z.string().url().optional(),
     COOKIE_SECURE: flag(isProduction),
     SIGNUP_MODE: z.enum(["open", "invite"]).default("open"),
-    SEED_DEMO: flag(true),
+    // Unset: seed the demo only when APP_URL is a loopback address (a newcomer's machine).
+    SEED_DEMO: optionalFlag,
+    TRUST_PROXY: z
+      .string()
+      .optional()
+      .transform((value, ctx) => {
+        if (value === undefined || value.trim() === "" || value === "false" || value === "0") return 0;
+        if (value === "true") return 1;
+        const hops = Number(value);
+        if (!Number.isInteger(hops) || hops < 0 || hops > 10) {
+          ctx.addIssue({ code: "custom", message: "TRUST_PROXY must be the number of proxies in front of the app (0-10)" });
+          return z.NEVER;
+        }
+        return hops;
+      }),
   });
   const parsed = schema.safeParse(raw);
   if (!parsed.success) {
@@ -41,6 +61,7 @@ export function parseEnv(raw: Record<string, string | undefined>) {
   }
   const value = parsed.data;
   const appUrl = (value.APP_URL ?? value.APP_ORIGIN ?? "http://localhost:3000").replace(/\/+$/, "");
+  const localAppUrl = isLoopbackUrl(appUrl);
   return {
     nodeEnv: value.NODE_ENV,
     isProduction: value.NODE_ENV === "production",
@@ -54,9 +75,15 @@ export function parseEnv(raw: Record<string, string | undefined>) {
     appUrl,
     /** Extra origin accepted for state-changing requests besides the request's own Host. */
     appOrigin: value.APP_ORIGIN ? new URL(value.APP_ORIGIN).origin : value.APP_URL ? new URL(value.APP_URL).origin : null,
+    /** Who may send state-changing requests (see lib/base/origins.ts isAllowedOrigin). */
+    originPolicy: originPolicyFromEnv({ APP_URL: value.APP_URL, APP_ORIGIN: value.APP_ORIGIN, TRUST_PROXY: String(value.TRUST_PROXY) }),
+    /** Proxies in front of the app whose X-Forwarded-* headers are believed (TRUST_PROXY). */
+    trustProxyHops: value.TRUST_PROXY,
     cookieSecure: value.COOKIE_SECURE,
     signupMode: value.SIGNUP_MODE,
-    seedDemo: value.SEED_DEMO,
+    seedDemo: value.SEED_DEMO ?? localAppUrl,
+    /** SEED_DEMO=1 on an address others can reach: the log warns and every page shows a banner. */
+    demoOnPublicAddress: value.SEED_DEMO === true && !localAppUrl,
   };
 }
 

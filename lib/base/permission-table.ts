@@ -45,3 +45,22 @@ export function can(role: Role | null | undefined, action: Action): boolean {
   if (!role) return false;
   return (PERMISSIONS[action] as readonly Role[]).includes(role);
 }
+
+/** Actions that change nothing: all a read-only API token may do. */
+export const READ_ONLY_ACTIONS: ReadonlySet<Action> = new Set<Action>([
+  "project.read",
+  "members.read",
+  "audit.read",
+  "scenario.read",
+  "part.read",
+  "rule.read",
+  "bundle.export",
+  "signoff.read",
+]);
+
+const ROLE_RANK: Record<Role, number> = { reviewer: 1, engineer: 2, owner: 3 };
+
+/** The lower of two roles (a token's ceiling against its owner's role in a project). */
+export function lowerRole(a: Role, b: Role): Role {
+  return ROLE_RANK[a] <= ROLE_RANK[b] ? a : b;
+}

@@ -1,5 +1,7 @@
 import "server-only";
-import { headers } from "next/headers";
+import { cookies, headers } from "next/headers";
+import { getEnv } from "@/lib/base/env";
+import { safeRedirectPath } from "@/lib/base/origins";
 import { unstable_rethrow } from "next/navigation";
 import type { ZodType } from "zod";
 import { validationError } from "@/lib/server/api";
@@ -47,16 +49,20 @@ export async function runAction(formData: FormData, work: (values: Record<string
   }
 }
 
-/** The client address of the current request (server actions), for throttling. */
-export async function actionClientAddress(): Promise<string> {
+/** What sign-in may know about the client of the current request (server actions), for throttling. */
+export async function actionSignInClient(): Promise<{ address: string | null; deviceCookie: string | null }> {
   const { clientAddress } = await import("@/lib/server/auth/accounts");
-  return clientAddress(await headers());
+  const { DEVICE_COOKIE_NAME } = await import("@/lib/server/auth/device");
+  const store = await cookies();
+  return { address: clientAddress(await headers()), deviceCookie: store.get(DEVICE_COOKIE_NAME)?.value ?? null };
 }
 
-/** A same-site relative path to go to after signing in, or the fallback. */
+/**
+ * A path on this site to go to after signing in or accepting an invitation, or the fallback: the one
+ * helper for every `next` or return target (see lib/base/origins.ts safeRedirectPath).
+ */
 export function safeNextPath(value: string | null | undefined, fallback = "/projects"): string {
-  if (!value || !value.startsWith("/") || value.startsWith("//") || value.startsWith("/\\")) return fallback;
-  return value;
+  return safeRedirectPath(value, getEnv().originPolicy.appOrigin, fallback);
 }
 
 export { AppError };

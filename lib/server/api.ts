@@ -3,7 +3,10 @@ import type { Cookie } from "lucia";
 import { z, type ZodType } from "zod";
 import { authenticateRequest, type SessionInfo, type SessionUser } from "@/lib/server/auth/session";
 import { clientAddress } from "@/lib/server/auth/accounts";
+import { authenticateApiToken } from "@/lib/server/auth/api-tokens";
+import { runWithTokenScope, type TokenScope } from "@/lib/server/auth/token-scope";
 import { getEnv } from "@/lib/base/env";
+import { claimedOrigin, isAllowedOrigin } from "@/lib/base/origins";
 import { AppError, isAppError } from "@/lib/base/errors";
 
 /** Default limit for JSON request bodies. */
@@ -83,26 +86,32 @@ export async function readJson<T>(request: Request, schema: ZodType<T>, limit?: 
 }
 
 /**
- * Reject cross-site state-changing requests: Origin (or Referer) must name this host, or APP_ORIGIN.
- * Requests without either header are refused too.
+ * Reject cross-site state-changing requests: the whole Origin (else Referer) origin, scheme, host and
+ * port, must be APP_URL's (or APP_ORIGIN); X-Forwarded-Host counts only behind TRUST_PROXY. Requests
+ * without either header are refused too.
  */
 export function assertSameOrigin(request: Request): void {
   if (SAFE_METHODS.has(request.method.toUpperCase())) return;
-  const origin = request.headers.get("origin");
-  const referer = request.headers.get("referer");
-  let claimed: URL | null = null;
-  try {
-    if (origin && origin !== "null") claimed = new URL(origin);
-    else if (referer) claimed = new URL(referer);
-  } catch {
-    claimed = null;
-  }
-  if (!claimed) throw new AppError("forbidden", 403, "Cross-site request refused: the Origin header is missing.");
-  // A cross-site page cannot set X-Forwarded-Host (not a simple header), so accepting it does not weaken the check.
-  const hosts = [request.headers.get("host"), request.headers.get("x-forwarded-host"), new URL(request.url).host].filter(Boolean);
-  const allowedOrigin = getEnv().appOrigin;
-  if (hosts.includes(claimed.host) || (allowedOrigin !== null && claimed.origin === allowedOrigin)) return;
+  if (!claimedOrigin(request.headers)) throw new AppError("forbidden", 403, "Cross-site request refused: the Origin header is missing.");
+  if (isAllowedOrigin(request, getEnv().originPolicy)) return;
   throw new AppError("forbidden", 403, "Cross-site request refused: the Origin does not match this site.");
+}
+
+/**
+ * The token of an `Authorization: Bearer …` header, or null when there is none. Other schemes (a Basic
+ * login asked for by a proxy in front of the app, say) are not ours and are ignored.
+ */
+export function bearerToken(request: Request): string | null {
+  const header = request.headers.get("authorization");
+  if (!header || !/^Bearer(\s|$)/i.test(header.trim())) return null;
+  const match = /^Bearer\s+(\S+)\s*$/i.exec(header.trim());
+  if (!match) throw new AppError("unauthenticated", 401, "Send the API token as: Authorization: Bearer <token>.");
+  return match[1];
+}
+
+/** Personal API tokens work on the project API only: never on account, token, admin or auth routes. */
+function acceptsApiTokens(request: Request): boolean {
+  return /^\/api\/projects\/[^/]+(\/|$)/.test(new URL(request.url).pathname);
 }
 
 export function errorResponse(error: AppError): Response {
@@ -128,9 +137,9 @@ export type ApiContext<P extends Record<string, string>> = {
   request: Request;
   /** Route parameters, already checked to be short non-empty strings. */
   params: P;
-  /** Client address for throttling. */
-  ip: string;
-  /** The signed-in user or AppError 401; memoised per request. */
+  /** Client address for throttling (null unless TRUST_PROXY names the proxies in front of the app). */
+  ip: string | null;
+  /** The signed-in user (session cookie, or personal API token on the project API) or AppError 401; memoised per request. */
   requireUser: () => Promise<SessionUser>;
   /** The session of the signed-in user (after requireUser). */
   session: () => SessionInfo | null;
@@ -144,19 +153,54 @@ type RouteContextIn = { params: Promise<Record<string, string | string[] | undef
 
 const paramSchema = z.string().min(1).max(100);
 
+export type ApiRouteOptions = {
+  /**
+   * Public routes (sign-in, sign-up, resets, invitations) run without a signed-in user. Every other route
+   * checks the session before its handler runs, so nothing about the body is read or validated for a
+   * stranger.
+   */
+  public?: boolean;
+};
+
 /**
- * Wrap a route handler: Origin check on state-changing methods, then the handler (which reads
- * parse → authenticate → load → authorise → mutate → respond), with errors rendered as
+ * Wrap a route handler: a readable URL (400), then the Origin check on state-changing methods and the
+ * session (or `Authorization: Bearer` token on the project API), then the handler (which reads
+ * parse → load → authorise → mutate → respond), with errors rendered as
  * `{ "error": { code, message, fields? } }` and cookies attached.
  */
 export function apiRoute<P extends Record<string, string> = Record<string, never>>(
   handler: (ctx: ApiContext<P>) => Promise<Response>,
+  options: ApiRouteOptions = {},
 ): (request: Request, context?: RouteContextIn) => Promise<Response> {
   return async (request, context) => {
     const cookies: Cookie[] = [];
     let response: Response;
     try {
-      assertSameOrigin(request);
+      assertDecodablePath(request);
+      const token = bearerToken(request);
+      let userPromise: Promise<SessionUser> | null = null;
+      let sessionInfo: SessionInfo | null = null;
+      let scope: TokenScope | null = null;
+      if (token !== null) {
+        if (options.public || !acceptsApiTokens(request)) {
+          throw new AppError("forbidden", 403, "API tokens work only on the project API (/api/projects/…), never for accounts, tokens or sign-in.");
+        }
+        // No cookie is involved, so a cross-site page cannot make this request on someone's behalf: no Origin check.
+        const authenticated = await authenticateApiToken(token);
+        scope = authenticated.scope;
+        userPromise = Promise.resolve(authenticated.user);
+      } else {
+        assertSameOrigin(request);
+      }
+      const requireUser = () => {
+        userPromise ??= authenticateRequest(request).then((result) => {
+          if (result.refreshCookie) cookies.push(result.refreshCookie);
+          sessionInfo = result.session;
+          return result.user;
+        });
+        return userPromise;
+      };
+      if (!options.public) await requireUser();
       const rawParams = context ? await context.params : {};
       const params: Record<string, string> = {};
       for (const [key, value] of Object.entries(rawParams ?? {})) {
@@ -164,28 +208,22 @@ export function apiRoute<P extends Record<string, string> = Record<string, never
         if (!parsed.success) throw new AppError("not_found", 404, "Not found.");
         params[key] = parsed.data;
       }
-      let userPromise: Promise<SessionUser> | null = null;
-      let sessionInfo: SessionInfo | null = null;
       const ctx: ApiContext<P> = {
         request,
         params: params as P,
         ip: clientAddress(request.headers),
-        requireUser: () => {
-          userPromise ??= authenticateRequest(request).then((result) => {
-            if (result.refreshCookie) cookies.push(result.refreshCookie);
-            sessionInfo = result.session;
-            return result.user;
-          });
-          return userPromise;
-        },
+        requireUser,
         session: () => sessionInfo,
         setCookie: (cookie) => cookies.push(cookie),
         body: (schema, limit) => readJson(request, schema, limit),
       };
-      response = await handler(ctx);
+      const tokenScope = scope;
+      response = tokenScope ? await runWithTokenScope(tokenScope, () => handler(ctx)) : await handler(ctx);
     } catch (error) {
       if (isAppError(error)) {
         response = errorResponse(error);
+      } else if (error instanceof URIError) {
+        response = errorResponse(malformedUrl());
       } else {
         // Log the error type and message only: request bodies may carry passwords.
         console.error("[api] unexpected error:", error instanceof Error ? `${error.name}: ${error.message}` : String(error));
@@ -195,4 +233,17 @@ export function apiRoute<P extends Record<string, string> = Record<string, never
     for (const cookie of cookies) response.headers.append("set-cookie", cookie.serialize());
     return response;
   };
+}
+
+function malformedUrl(): AppError {
+  return new AppError("bad_request", 400, "The URL has a malformed percent-encoding (a % not followed by two hex digits of valid UTF-8).");
+}
+
+/** 400 when the path cannot be percent-decoded, before anything tries to (and fails with a 500). */
+function assertDecodablePath(request: Request): void {
+  try {
+    decodeURIComponent(new URL(request.url).pathname);
+  } catch {
+    throw malformedUrl();
+  }
 }

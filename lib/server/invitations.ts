@@ -11,6 +11,7 @@ import { generateToken, hashToken } from "@/lib/server/auth/tokens";
 import { AppError } from "@/lib/base/errors";
 import { sendMail } from "@/lib/server/mail/send";
 import { invitationMail } from "@/lib/server/mail/templates";
+import { mailKeys, takeMailAllowance } from "@/lib/server/mail/rate-limit";
 import { authorize } from "@/lib/server/permissions";
 
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
@@ -55,7 +56,12 @@ export async function inviteMember({
   });
   let emailSent = true;
   try {
-    await sendMail(invitationMail({ to: email, token, projectName, role, inviterName: actor.name }));
+    // Over the hourly limit (per invited address, per inviting account) the invitation stands but no mail goes out.
+    if (await takeMailAllowance(mailKeys.invitation(email, actor.id), now.getTime())) {
+      await sendMail(invitationMail({ to: email, token, projectName, role, inviterName: actor.name }));
+    } else {
+      emailSent = false;
+    }
   } catch (error) {
     emailSent = false;
     console.error("[mail] invitation e-mail failed:", error instanceof Error ? error.message : String(error));
@@ -75,7 +81,8 @@ export async function findUsableInvitation({ token, now = new Date() }: { token:
 export type AcceptResult = { projectId: string; role: Role; user: SessionUser; signedIn: SignedIn | null };
 
 /**
- * Accept an invitation. A signed-in person links their own account. Otherwise a person whose e-mail
+ * Accept an invitation. A signed-in person links their own account, only if its e-mail is the invited one
+ * (case-insensitive; otherwise 403). Otherwise a person whose e-mail
  * has no account signs up with a name and password (allowed even when sign-up is invitation-only);
  * an e-mail that already has an account must sign in first (401).
  */
@@ -95,6 +102,15 @@ export async function acceptInvitation({
   const invitation = await findUsableInvitation({ token, now });
   if (!invitation) throw new AppError("unprocessable", 422, LINK_INVALID, { token: LINK_INVALID });
 
+  // The link is bound to the invited address: a forwarded or leaked link does not let another account in.
+  if (currentUser && currentUser.email.trim().toLowerCase() !== invitation.email.trim().toLowerCase()) {
+    throw new AppError(
+      "forbidden",
+      403,
+      `This invitation is for ${invitation.email}. You are signed in as ${currentUser.email}: sign out, then sign in as ${invitation.email} (or create that account) to accept it.`,
+    );
+  }
+
   let user = currentUser;
   let signedIn: SignedIn | null = null;
   if (!user) {
@@ -103,7 +119,7 @@ export async function acceptInvitation({
     }
     const fields: Record<string, string> = {};
     if (!name) fields.name = "Enter your name.";
-    if (!password) fields.password = "Choose a password of at least 8 characters.";
+    if (!password) fields.password = "Choose a password of at least 10 characters.";
     if (Object.keys(fields).length > 0) throw new AppError("validation_failed", 400, "Choose a name and a password to create your account.", fields);
     signedIn = await signUp({ email: invitation.email, name: name as string, password: password as string, viaInvitation: true });
     user = signedIn.user;

@@ -3,13 +3,26 @@ import { and, eq } from "drizzle-orm";
 import { db, type Executor } from "@/db/client";
 import { memberships, projects } from "@/db/schema";
 import { AppError } from "@/lib/base/errors";
-import { can, type Action, type Role } from "@/lib/base/permission-table";
+import { can, lowerRole, READ_ONLY_ACTIONS, type Action, type Role } from "@/lib/base/permission-table";
+import { currentTokenScope } from "@/lib/server/auth/token-scope";
 
 export { ACTIONS, PERMISSIONS, can } from "@/lib/base/permission-table";
 export type { Action, Role } from "@/lib/base/permission-table";
 
-/** The user's role in the project, or null when they are not a member (or the project does not exist). */
+/**
+ * The user's role in the project, or null when they are not a member (or the project does not exist).
+ * Under a personal API token: null outside the token's projects, and at most the token's ceiling (a
+ * read-only token counts as reviewer here; authorize() also limits it to READ_ONLY_ACTIONS).
+ */
 export async function getRole({ userId, projectId, executor = db }: { userId: string; projectId: string; executor?: Executor }): Promise<Role | null> {
+  const scope = currentTokenScope();
+  if (scope && !scope.projectIds.includes(projectId)) return null;
+  const role = await getMemberRole({ userId, projectId, executor });
+  if (!role || !scope) return role;
+  return lowerRole(role, scope.ceiling === "read" ? "reviewer" : scope.ceiling);
+}
+
+async function getMemberRole({ userId, projectId, executor }: { userId: string; projectId: string; executor: Executor }): Promise<Role | null> {
   const rows = await executor
     .select({ role: memberships.role })
     .from(memberships)
@@ -39,6 +52,9 @@ export async function authorize({
   if (!role) throw new AppError("not_found", 404, "Project not found.");
   if (!can(role, action)) {
     throw new AppError("forbidden", 403, `Your role (${role}) does not allow this (${action}).`);
+  }
+  if (currentTokenScope()?.ceiling === "read" && !READ_ONLY_ACTIONS.has(action)) {
+    throw new AppError("forbidden", 403, `This API token is read-only and does not allow this (${action}).`);
   }
   return role;
 }

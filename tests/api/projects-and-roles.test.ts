@@ -2,6 +2,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { call, countRows, createAccount, makeRequest, sessionCookieFrom, setUpDatabase, type ErrorJson } from "./helpers";
 import * as signUp from "@/app/api/auth/sign-up/route";
+import * as signIn from "@/app/api/auth/sign-in/route";
 import * as signOut from "@/app/api/auth/sign-out/route";
 import * as sessionRoute from "@/app/api/auth/session/route";
 import * as projectsRoute from "@/app/api/projects/route";
@@ -22,12 +23,14 @@ let projectId: string;
 
 beforeAll(async () => {
   await setUpDatabase();
-  // The first account is created through the API and becomes site admin.
+  // The first account is created through the API and becomes site admin; sign-up does not sign in (issue 12).
   const response = await call(signUp.POST, makeRequest("POST", "/api/auth/sign-up", { body: { name: "First", email: "first@example.test", password: "first password" } }));
-  expect(response.status).toBe(201);
-  const body = (await response.json()) as { user: { id: string; isSiteAdmin: boolean } };
+  expect(response.status).toBe(202);
+  expect(sessionCookieFrom(response)).toBeNull();
+  const signedIn = await call(signIn.POST, makeRequest("POST", "/api/auth/sign-in", { body: { email: "first@example.test", password: "first password" } }));
+  const body = (await signedIn.json()) as { user: { id: string; isSiteAdmin: boolean } };
   expect(body.user.isSiteAdmin).toBe(true);
-  first = { cookie: sessionCookieFrom(response)!, id: body.user.id };
+  first = { cookie: sessionCookieFrom(signedIn)!, id: body.user.id };
   engineer = await createAccount({ email: "eng@example.test" });
   reviewer = await createAccount({ email: "rev@example.test" });
   stranger = await createAccount({ email: "stranger@example.test" });
@@ -44,17 +47,21 @@ const patch = (cookie: string, body: unknown) => call(projectRoute.PATCH, makeRe
 describe("accounts", () => {
   it("later accounts are not site admins, and no response carries a password hash", async () => {
     const response = await call(signUp.POST, makeRequest("POST", "/api/auth/sign-up", { body: { name: "Second", email: "second@example.test", password: "second password" } }));
-    expect(response.status).toBe(201);
-    const text = await response.text();
+    expect(response.status).toBe(202);
+    expect(await response.text()).not.toMatch(/argon2/i);
+    const signedIn = await call(signIn.POST, makeRequest("POST", "/api/auth/sign-in", { body: { email: "second@example.test", password: "second password" } }));
+    const text = await signedIn.text();
     expect(JSON.parse(text).user.isSiteAdmin).toBe(false);
     expect(text).not.toMatch(/argon2|password/i);
     const [row] = await db.select().from(users).where(eq(users.email, "second@example.test"));
     expect(row.passwordHash).toMatch(/^\$argon2id\$/);
   });
 
-  it("a taken e-mail → 409", async () => {
+  it("a taken e-mail gets the same answer as a new one (202) and creates nothing", async () => {
+    const before = await countRows(users);
     const response = await call(signUp.POST, makeRequest("POST", "/api/auth/sign-up", { body: { name: "Again", email: "FIRST@example.test", password: "whatever long" } }));
-    expect(response.status).toBe(409);
+    expect(response.status).toBe(202);
+    expect(await countRows(users)).toBe(before);
   });
 
   it("invitation-only sign-up refuses new accounts (403) until switched back by a site admin", async () => {
@@ -66,7 +73,8 @@ describe("accounts", () => {
     expect(refused.status).toBe(403);
     expect(await countRows(users)).toBe(before);
     expect((await call(adminSettings.PATCH, makeRequest("PATCH", "/api/admin/settings", { cookie: first.cookie, body: { signupMode: "open" } }))).status).toBe(200);
-    expect((await call(signUp.POST, makeRequest("POST", "/api/auth/sign-up", { body: { name: "Late", email: "late@example.test", password: "late password" } }))).status).toBe(201);
+    expect((await call(signUp.POST, makeRequest("POST", "/api/auth/sign-up", { body: { name: "Late", email: "late@example.test", password: "late password" } }))).status).toBe(202);
+    expect(await countRows(users)).toBe(before + 1);
   });
 
   it("the last site admin cannot be demoted (409)", async () => {

@@ -5,6 +5,7 @@ import { Alert } from "@/components/ui/alert";
 import { getSignupMode } from "@/db/queries/settings";
 import { safeNextPath } from "@/lib/server/actions";
 import { getCurrentSession } from "@/lib/server/auth/session";
+import { SIGN_UP_REQUESTED_MESSAGE } from "@/lib/server/auth/accounts";
 import { SignInForm } from "./sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };
@@ -22,6 +23,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
         <p className="text-sm text-muted">Use the e-mail address and password of your Portolan account.</p>
       </div>
       {params.reset === "1" ? <Alert tone="success">Your password has been changed. Sign in with the new one.</Alert> : null}
+      {params["signed-up"] === "1" ? <Alert tone="success">{SIGN_UP_REQUESTED_MESSAGE}</Alert> : null}
       <SignInForm next={next} />
       <div className="flex flex-col gap-1.5 text-sm">
         <Link className="text-link" href="/forgot-password">

@@ -19,8 +19,8 @@ export function SignUpForm() {
       <Field label="Email" error={state.fields?.email}>
         <Input name="email" type="email" autoComplete="email" required defaultValue={state.values?.email} />
       </Field>
-      <Field label="Password" hint="At least 8 characters." error={state.fields?.password}>
-        <Input name="password" type="password" autoComplete="new-password" required minLength={8} />
+      <Field label="Password" hint="At least 10 characters, not a common password." error={state.fields?.password}>
+        <Input name="password" type="password" autoComplete="new-password" required minLength={10} />
       </Field>
       <Button type="submit" loading={pending} loadingText="Creating account…">
         Create account

@@ -1,15 +1,22 @@
 import type { Metadata } from "next";
 import { PageHeader } from "@/components/shell/page-header";
 import { Card, CardBody, CardDescription, CardHeader, CardTitle } from "@/components/ui";
+import { listProjectsForUser } from "@/db/queries/projects";
 import { getSignoffNotifications } from "@/db/queries/signoffs";
+import { listApiTokens } from "@/lib/server/auth/api-tokens";
 import { requireUser } from "@/lib/server/auth/session";
+import { ApiTokensSection } from "./api-tokens-section";
 import { NotificationsForm } from "./notifications-form";
 
 export const metadata: Metadata = { title: "Account" };
 
 export default async function AccountPage() {
   const user = await requireUser();
-  const notifySignoff = await getSignoffNotifications({ userId: user.id });
+  const [notifySignoff, tokens, projects] = await Promise.all([
+    getSignoffNotifications({ userId: user.id }),
+    listApiTokens({ userId: user.id }),
+    listProjectsForUser({ userId: user.id }),
+  ]);
   return (
     <div className="flex max-w-2xl flex-col gap-5">
       <PageHeader title="Account" />
@@ -25,6 +32,28 @@ export default async function AccountPage() {
         </CardHeader>
         <CardBody>
           <NotificationsForm initial={notifySignoff} />
+        </CardBody>
+      </Card>
+      <Card aria-labelledby="api-tokens-heading">
+        <CardHeader>
+          <div>
+            <CardTitle id="api-tokens-heading">API tokens</CardTitle>
+            <CardDescription>
+              For scripts and CI pipelines: send <code className="font-mono">Authorization: Bearer &lt;token&gt;</code> to the project API. A token reaches only the
+              projects you choose, never more than your role there, and never your account or other tokens.
+            </CardDescription>
+          </div>
+        </CardHeader>
+        <CardBody>
+          <ApiTokensSection
+            initialTokens={tokens.map((t) => ({
+              ...t,
+              expiresAt: t.expiresAt.toISOString(),
+              lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
+              revokedAt: t.revokedAt?.toISOString() ?? null,
+            }))}
+            projects={projects.map((p) => ({ id: p.id, name: p.name, role: p.role }))}
+          />
         </CardBody>
       </Card>
     </div>

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { CONTROL_CHARACTER_MESSAGE, refuseControlCharacters } from "./common";
 
 /** Largest Touchstone file accepted for upload. */
 export const PART_MAX_BYTES = 5 * 1024 * 1024;
@@ -13,4 +14,8 @@ export const partFileNameSchema = z
     error: "Use a Touchstone file name ending .s1p … .sNp or .ts (letters, digits, spaces, dots, dashes and underscores).",
   });
 
-export const partNameSchema = z.string().trim().max(120, { error: "Use at most 120 characters." });
+export const partNameSchema = z
+  .string()
+  .trim()
+  .max(120, { error: "Use at most 120 characters." })
+  .refine(refuseControlCharacters, { error: CONTROL_CHARACTER_MESSAGE });

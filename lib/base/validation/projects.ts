@@ -1,11 +1,7 @@
 import { z } from "zod";
-import { emailSchema, roleSchema } from "./common";
+import { emailSchema, nameSchema, roleSchema } from "./common";
 
-const projectNameSchema = z
-  .string({ error: "Enter a project name." })
-  .trim()
-  .min(1, { error: "Enter a project name." })
-  .max(120, { error: "Use at most 120 characters." });
+const projectNameSchema = nameSchema({ required: "Enter a project name.", max: 120 });
 
 const descriptionSchema = z.string({ error: "The description must be text." }).trim().max(2000, { error: "Use at most 2000 characters." });
 

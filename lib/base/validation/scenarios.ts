@@ -1,15 +1,11 @@
 import { z } from "zod";
 import { BlockSchema, FrequencyListSchema, FrequencyRangeSchema, ScenarioSchema, SystemPortSchema } from "@/engine/scenario/schema";
-import { idSchema } from "./common";
+import { idSchema, nameSchema } from "./common";
 
 /** Largest scenario JSON accepted in one save (inline part data can make it large). */
 export const SCENARIO_BODY_LIMIT_BYTES = 2 * 1024 * 1024;
 
-export const scenarioNameSchema = z
-  .string({ error: "Enter a scenario name." })
-  .trim()
-  .min(1, { error: "Enter a scenario name." })
-  .max(200, { error: "Use at most 200 characters." });
+export const scenarioNameSchema = nameSchema({ required: "Enter a scenario name.", max: 200 });
 
 /**
  * A scenario as the workspace saves it: the scenario file's structure (engine/scenario/schema.ts), except

@@ -6,6 +6,7 @@ import { recordAudit } from "@/lib/server/audit";
 import { AppError } from "@/lib/base/errors";
 import { sendMail } from "@/lib/server/mail/send";
 import { passwordResetMail } from "@/lib/server/mail/templates";
+import { mailKeys, takeMailAllowance } from "@/lib/server/mail/rate-limit";
 import { hashPassword } from "./password";
 import { invalidateUserSessions } from "./session";
 import { generateToken, hashToken } from "./tokens";
@@ -22,6 +23,8 @@ export const RESET_REQUESTED_MESSAGE = "If an account uses that address, we sent
 export async function requestPasswordReset({ email, now = new Date() }: { email: string; now?: Date }): Promise<{ delivery: Promise<void> }> {
   const user = await getUserByEmail({ email });
   if (!user) return { delivery: Promise.resolve() };
+  // Over the hourly limit for this address nothing is written or sent, and the caller answers as usual.
+  if (!(await takeMailAllowance(mailKeys.reset(user.email), now.getTime()))) return { delivery: Promise.resolve() };
   const token = generateToken();
   await runInTransaction(async (tx) => {
     await insertPasswordReset({ userId: user.id, tokenHash: hashToken(token), expiresAt: new Date(now.getTime() + RESET_TOKEN_LIFETIME_MS), executor: tx });

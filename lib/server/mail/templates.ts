@@ -50,3 +50,29 @@ export function passwordResetMail({ to, token }: { to: string; token: string }):
   const html = `<p>Someone asked to reset the password of your Portolan account.</p><p><a href="${escapeHtml(link)}">Choose a new password</a></p><p>The link works once and expires in 1 hour. If it was not you, ignore this message; your password stays as it is.</p>`;
   return { to, subject, text, html };
 }
+
+/** Sent instead of creating an account when someone signs up with an address that already has one. */
+export function signUpExistingAccountMail({ to }: { to: string }): MailInput {
+  const signIn = appLink("/sign-in");
+  const reset = appLink("/forgot-password");
+  const subject = "Someone tried to create a Portolan account with your address";
+  const text = [
+    "Someone tried to create a new Portolan account with this e-mail address, which already has an account. Nothing was changed.",
+    "",
+    `If it was you, sign in: ${signIn}`,
+    `Forgot your password? Choose a new one: ${reset}`,
+    "",
+    "If it was not you, ignore this message.",
+  ].join("\n");
+  const html = `<p>Someone tried to create a new Portolan account with this e-mail address, which already has an account. Nothing was changed.</p><p>If it was you, <a href="${escapeHtml(signIn)}">sign in</a>, or <a href="${escapeHtml(reset)}">choose a new password</a> if you forgot it.</p><p>If it was not you, ignore this message.</p>`;
+  return { to, subject, text, html };
+}
+
+/** Sent when a new account was created by sign-up. */
+export function welcomeMail({ to, name }: { to: string; name: string }): MailInput {
+  const signIn = appLink("/sign-in");
+  const subject = "Your Portolan account is ready";
+  const text = [`Hello ${name},`, "", `Your Portolan account for this address is ready. Sign in: ${signIn}`, "", "If you did not create it, tell your Portolan administrator."].join("\n");
+  const html = `<p>Hello ${escapeHtml(name)},</p><p>Your Portolan account for this address is ready. <a href="${escapeHtml(signIn)}">Sign in</a>.</p><p>If you did not create it, tell your Portolan administrator.</p>`;
+  return { to, subject, text, html };
+}

@@ -2,6 +2,7 @@ import "server-only";
 import type { DecidedSignoff, RequestedSignoffs, SignoffRecipient, SignoffView } from "@/db/queries/signoffs";
 import { sendMail, type MailInput } from "@/lib/server/mail/send";
 import { appLink } from "@/lib/server/mail/templates";
+import { mailKeys, takeMailAllowance } from "@/lib/server/mail/rate-limit";
 
 function escapeHtml(value: string): string {
   return value.replace(/[&<>"']/g, (ch) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[ch] ?? ch);
@@ -48,13 +49,14 @@ export function signoffDecidedMail({ to, signoff, projectName }: { to: string; s
   return { to, subject, text, html };
 }
 
-/** Who was e-mailed, who was skipped (setting off) and whose mail failed. */
+/** Who was e-mailed, who was skipped (setting off, or the hourly mail limit reached) and whose mail failed. */
 export type MailOutcome = { sent: string[]; skipped: string[]; failed: string[] };
 
-async function deliver(pairs: { recipient: SignoffRecipient; mail: MailInput }[]): Promise<MailOutcome> {
+async function deliver(senderId: string, pairs: { recipient: SignoffRecipient; mail: MailInput }[]): Promise<MailOutcome> {
   const outcome: MailOutcome = { sent: [], skipped: [], failed: [] };
   for (const { recipient, mail } of pairs) {
-    if (!recipient.notifySignoff) {
+    // The limit per recipient and per sender keeps sign-off requests from being used to flood inboxes.
+    if (!recipient.notifySignoff || !(await takeMailAllowance(mailKeys.signoff(recipient.email, senderId)))) {
       outcome.skipped.push(recipient.email);
       continue;
     }
@@ -73,6 +75,7 @@ async function deliver(pairs: { recipient: SignoffRecipient; mail: MailInput }[]
 /** E-mail each reviewer of a new request (if they keep sign-off e-mails on). */
 export async function notifySignoffRequested(req: RequestedSignoffs): Promise<MailOutcome> {
   return deliver(
+    req.requester.id,
     req.signoffs.map((s) => {
       const recipient = req.reviewers.find((r) => r.id === s.reviewer.id)!;
       return { recipient, mail: signoffRequestedMail({ to: recipient.email, signoff: s, requesterName: req.requester.name, projectName: req.projectName }) };
@@ -83,5 +86,5 @@ export async function notifySignoffRequested(req: RequestedSignoffs): Promise<Ma
 /** E-mail the requester of a decided sign-off (if they keep sign-off e-mails on). */
 export async function notifySignoffDecided(d: DecidedSignoff): Promise<MailOutcome> {
   if (!d.requester) return { sent: [], skipped: [], failed: [] };
-  return deliver([{ recipient: d.requester, mail: signoffDecidedMail({ to: d.requester.email, signoff: d.signoff, projectName: d.projectName }) }]);
+  return deliver(d.signoff.reviewer.id, [{ recipient: d.requester, mail: signoffDecidedMail({ to: d.requester.email, signoff: d.signoff, projectName: d.projectName }) }]);
 }

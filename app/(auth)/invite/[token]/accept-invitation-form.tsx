@@ -24,8 +24,8 @@ export function AcceptInvitationForm({ token, signedInAs }: { token: string; sig
           <Field label="Name" error={state.fields?.name}>
             <Input name="name" autoComplete="name" required defaultValue={state.values?.name} />
           </Field>
-          <Field label="Password" hint="At least 8 characters." error={state.fields?.password}>
-            <Input name="password" type="password" autoComplete="new-password" required minLength={8} />
+          <Field label="Password" hint="At least 10 characters, not a common password." error={state.fields?.password}>
+            <Input name="password" type="password" autoComplete="new-password" required minLength={10} />
           </Field>
         </>
       )}

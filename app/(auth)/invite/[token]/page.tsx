@@ -32,7 +32,15 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
           You are invited as <span className="font-medium text-ink">{invitation.role}</span> ({invitation.email}).
         </p>
       </div>
-      {hasAccount ? (
+      {user && user.email.toLowerCase() !== invitation.email.toLowerCase() ? (
+        <Alert tone="error" title="This invitation is for someone else">
+          You are signed in as {user.email}, but the invitation is for {invitation.email}.{" "}
+          <Link className="text-link" href="/sign-out">
+            Sign out
+          </Link>
+          , then sign in as {invitation.email} (or create that account) to accept it.
+        </Alert>
+      ) : hasAccount ? (
         <Alert tone="info" title="You already have an account">
           <Link className="text-link" href={`/sign-in?next=${encodeURIComponent(`/invite/${token}`)}`}>
             Sign in as {invitation.email}

@@ -14,8 +14,8 @@ export function ResetPasswordForm({ token }: { token: string }) {
     <form action={action} className="flex flex-col gap-4" noValidate>
       <FormMessage state={state} />
       <input type="hidden" name="token" value={token} />
-      <Field label="New password" hint="At least 8 characters. Signing in elsewhere ends when you change it." error={state.fields?.password}>
-        <Input name="password" type="password" autoComplete="new-password" required minLength={8} />
+      <Field label="New password" hint="At least 10 characters, not a common password. Signing in elsewhere ends when you change it." error={state.fields?.password}>
+        <Input name="password" type="password" autoComplete="new-password" required minLength={10} />
       </Field>
       <Field label="Repeat new password" error={state.fields?.confirmPassword}>
         <Input name="confirmPassword" type="password" autoComplete="new-password" required />

@@ -8,4 +8,4 @@ export const POST = apiRoute(async (ctx) => {
   // Not awaiting delivery keeps the response time independent of whether a message is sent.
   await requestPasswordReset({ email });
   return json({ message: RESET_REQUESTED_MESSAGE }, { status: 202 });
-});
+}, { public: true });

@@ -6,4 +6,4 @@ export const POST = apiRoute(async (ctx) => {
   await invalidateSessionToken(readSessionToken(ctx.request.headers.get("cookie")));
   ctx.setCookie(blankSessionCookie());
   return noContent();
-});
+}, { public: true });

@@ -13,4 +13,4 @@ export const POST = apiRoute(async (ctx) => {
   const result = await acceptInvitation({ ...input, currentUser: current.user });
   if (result.signedIn) ctx.setCookie(result.signedIn.cookie);
   return json({ projectId: result.projectId, role: result.role, user: result.user });
-});
+}, { public: true });

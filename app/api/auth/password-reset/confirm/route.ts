@@ -7,4 +7,4 @@ export const POST = apiRoute(async (ctx) => {
   const input = await ctx.body(passwordResetConfirmSchema);
   await confirmPasswordReset(input);
   return json({ message: "Your password has been changed. Sign in with the new password." });
-});
+}, { public: true });

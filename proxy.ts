@@ -1,0 +1,90 @@
+import { NextResponse, type NextRequest } from "next/server";
+import { isAllowedOrigin, originPolicyFromEnv } from "@/lib/base/origins";
+
+// Runs before every page, route handler and server action (Next 16 Proxy, Node.js runtime): a fresh CSP
+// nonce per request, the security headers, a 400 for URLs that cannot be decoded, and a 403 (not a 500)
+// for a server action posted from another origin.
+
+const isDev = process.env.NODE_ENV === "development";
+
+/**
+ * Scripts only with this request's nonce ('strict-dynamic' lets Next's own chunks load theirs); styles
+ * from our files or with the nonce, plus style attributes, which React Flow and uPlot set for positions
+ * and sizes; fonts, images and the engine's Web Worker from this origin only; never framed.
+ */
+export function contentSecurityPolicy(nonce: string, https: boolean): string {
+  const directives = [
+    "default-src 'self'",
+    `script-src 'self' 'nonce-${nonce}' 'strict-dynamic'${isDev ? " 'unsafe-eval'" : ""}`,
+    // The dev server injects styles without a nonce; production serves them as files.
+    isDev ? "style-src 'self' 'unsafe-inline'" : `style-src 'self' 'nonce-${nonce}'`,
+    "style-src-attr 'unsafe-inline'",
+    "img-src 'self' data: blob:",
+    "font-src 'self'",
+    `connect-src 'self'${isDev ? " ws:" : ""}`,
+    "worker-src 'self' blob:",
+    "manifest-src 'self'",
+    "object-src 'none'",
+    "base-uri 'self'",
+    "form-action 'self'",
+    "frame-ancestors 'none'",
+    ...(https ? ["upgrade-insecure-requests"] : []),
+  ];
+  return directives.join("; ");
+}
+
+function jsonError(status: number, code: string, message: string): NextResponse {
+  return NextResponse.json({ error: { code, message } }, { status, headers: { "cache-control": "no-store" } });
+}
+
+function setSecurityHeaders(headers: Headers, csp: string, https: boolean): void {
+  headers.set("content-security-policy", csp);
+  headers.set("x-content-type-options", "nosniff");
+  headers.set("referrer-policy", "strict-origin-when-cross-origin");
+  headers.set("x-frame-options", "DENY");
+  headers.set("cross-origin-opener-policy", "same-origin");
+  headers.set("permissions-policy", "camera=(), microphone=(), geolocation=(), payment=()");
+  // Only when the app is served over https: a browser remembers this for a year.
+  if (https) headers.set("strict-transport-security", "max-age=31536000; includeSubDomains");
+}
+
+export function proxy(request: NextRequest): NextResponse {
+  const policy = originPolicyFromEnv(process.env);
+  const https = policy.appOrigin.startsWith("https:");
+  const nonce = Buffer.from(crypto.randomUUID()).toString("base64");
+  const csp = contentSecurityPolicy(nonce, https);
+
+  let response: NextResponse;
+  let decodable = true;
+  try {
+    decodeURIComponent(request.nextUrl.pathname);
+  } catch {
+    decodable = false;
+  }
+  if (!decodable) {
+    response = jsonError(400, "bad_request", "The URL has a malformed percent-encoding (a % not followed by two hex digits of valid UTF-8).");
+  } else if (request.method === "POST" && request.headers.has("next-action") && !isAllowedOrigin(request, policy)) {
+    // Next would throw on the mismatch and answer 500; this is a refusal, so 403.
+    response = jsonError(403, "forbidden", "Cross-site request refused: the Origin does not match this site.");
+  } else {
+    const requestHeaders = new Headers(request.headers);
+    // Next reads the nonce from the request's CSP header and puts it on its own scripts; the root layout reads x-nonce.
+    requestHeaders.set("x-nonce", nonce);
+    requestHeaders.set("content-security-policy", csp);
+    // Without trusted proxies, X-Forwarded-Host is whatever the client wrote: Next's own server-action
+    // check must compare the Origin with the real Host instead.
+    if (policy.trustProxyHops === 0) {
+      const host = request.headers.get("host");
+      if (host) requestHeaders.set("x-forwarded-host", host);
+      else requestHeaders.delete("x-forwarded-host");
+    }
+    response = NextResponse.next({ request: { headers: requestHeaders } });
+  }
+  setSecurityHeaders(response.headers, csp, https);
+  return response;
+}
+
+export const config = {
+  // Everything except the hashed static files (they carry no state and are served with their own headers).
+  matcher: ["/((?!_next/static|_next/image|favicon.ico).*)"],
+};
