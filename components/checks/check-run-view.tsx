@@ -11,6 +11,7 @@ import { RuleResultsTable } from "./rule-results-table";
 import { SortableTable } from "./sortable-table";
 import { StabilityView } from "./stability-view";
 import { SweepTable } from "./sweep-table";
+import { formatDate } from "@/lib/base/dates";
 
 export type CheckRunViewProps = {
   run: Run;
@@ -28,7 +29,7 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: C
         <VerdictBadge verdict={run.verdict} />
         <h3 className="text-base font-semibold">{CHECK_TITLES[run.check]}</h3>
         <span className="text-xs text-muted">
-          r{run.revisionNumber ?? "?"} · {run.userName ?? "someone"} · {new Date(run.createdAt).toLocaleString("en-GB")}
+          r{run.revisionNumber ?? "?"} · {run.userName ?? "someone"} · {formatDate(run.createdAt, "second")}
         </span>
       </header>
       <p className="figures text-sm" data-testid="check-headline">

@@ -11,7 +11,7 @@ import { Alert, Button } from "@/components/ui";
 import { ScenarioChecks } from "@/components/checks/scenario-checks";
 import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
-import { ApiError, fetchJson, requestJson, scenarioUrls } from "./api-client";
+import { ApiError, fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import { RevisionHistory } from "./revision-history";
 import type { PartView } from "@/lib/domain/parts/types";
 import type { RevisionView, ScenarioView } from "@/lib/domain/scenarios/types";

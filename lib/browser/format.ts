@@ -1,6 +1,7 @@
 /**
  * Number formatting for the workspace: figures with SI prefixes, dB and degrees, with a real minus sign
- * so that columns of tabular figures line up.
+ * so that columns of tabular figures line up. Frequencies are written by `formatHz` (engine/format.ts),
+ * the same formatter as the engine's messages.
  */
 
 const PREFIXES: [number, string][] = [
@@ -35,11 +36,6 @@ export function formatSi(value: number, unit: string, digits = 4): string {
   const abs = Math.abs(value);
   const [scale, prefix] = PREFIXES.find(([s]) => abs >= s * 0.9999999) ?? PREFIXES[PREFIXES.length - 1];
   return `${formatNumber(value / scale, digits)} ${prefix}${unit}`.trim();
-}
-
-/** A frequency in Hz with a prefix: 2.45e9 → "2.45 GHz". */
-export function formatFrequency(hz: number, digits = 5): string {
-  return formatSi(hz, "Hz", digits);
 }
 
 /** A fixed-decimals figure with a real minus sign: formatFixed(-3.0103, 2) → "−3.01". */

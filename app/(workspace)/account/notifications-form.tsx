@@ -1,7 +1,7 @@
 "use client";
 
 import { useState } from "react";
-import { ApiError, requestJson } from "@/components/scenarios/api-client";
+import { ApiError, requestJson } from "@/lib/browser/api-client";
 import { Alert } from "@/components/ui";
 
 /** The sign-off e-mail toggle; saved as soon as it changes. */

@@ -8,10 +8,9 @@ import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listProjectsForUser } from "@/db/queries/projects";
 import { requireUser } from "@/lib/server/auth/session";
 import { CreateProjectForm } from "./create-project-form";
+import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Projects" };
-
-const dateFormat = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium" });
 
 export default async function ProjectsPage() {
   const user = await requireUser();
@@ -50,7 +49,7 @@ export default async function ProjectsPage() {
                     <Td>
                       <Badge tone={project.role === "owner" ? "info" : "neutral"}>{project.role}</Badge>
                     </Td>
-                    <Td className="figures whitespace-nowrap text-muted">{dateFormat.format(project.updatedAt)}</Td>
+                    <Td className="figures whitespace-nowrap text-muted">{formatDate(project.updatedAt, "day")}</Td>
                   </Tr>
                 ))}
               </TBody>

@@ -10,22 +10,10 @@ import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
 import { authorize } from "@/lib/server/permissions";
+import { fileStem } from "@/lib/domain/scenarios/file-stem";
 import { renderReportHtml } from "./report-html";
 
 export type ExportedBundle = { fileName: string; bytes: Uint8Array; identity: BundleIdentity; revisionNumber: number; contentHash: string };
-
-/** A file name made of the scenario's name: letters, digits and dashes. */
-function fileStem(name: string): string {
-  return (
-    name
-      .normalize("NFKD")
-      .replace(/[^\w\s-]/g, "")
-      .trim()
-      .replace(/[\s_]+/g, "-")
-      .toLowerCase()
-      .slice(0, 60) || "scenario"
-  );
-}
 
 /**
  * The bundle of one scenario revision (latest unless `revisionId`): scenario, parts, composite, checks,

@@ -4,10 +4,9 @@ import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listUsers } from "@/db/queries/users";
 import { requireSiteAdmin } from "@/lib/server/auth/session";
 import { SiteAdminToggle } from "./site-admin-toggle";
+import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Users" };
-
-const dateFormat = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeZone: "UTC" });
 
 export default async function AdminUsersPage() {
   const admin = await requireSiteAdmin();
@@ -30,7 +29,7 @@ export default async function AdminUsersPage() {
               {user.id === admin.id ? <span className="ml-1.5 text-xs text-muted">(you)</span> : null}
             </Td>
             <Td className="text-muted">{user.email}</Td>
-            <Td className="figures whitespace-nowrap text-muted">{dateFormat.format(user.createdAt)}</Td>
+            <Td className="figures whitespace-nowrap text-muted">{formatDate(user.createdAt, "day")}</Td>
             <Td>
               <div className="flex items-center gap-2">
                 {user.isSiteAdmin ? <Badge tone="info">admin</Badge> : null}

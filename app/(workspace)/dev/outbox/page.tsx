@@ -8,10 +8,9 @@ import { listOutboxMessages } from "@/db/queries/outbox";
 import { requireSiteAdmin } from "@/lib/server/auth/session";
 import { getEnv } from "@/lib/base/env";
 import { isOutboxAvailable } from "@/lib/server/outbox";
+import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Outbox" };
-
-const timeFormat = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone: "UTC" });
 
 /** Development outbox: what the local fake SMTP server received. Site admins; off in production unless OUTBOX_ENABLED. */
 export default async function OutboxPage() {
@@ -43,7 +42,7 @@ export default async function OutboxPage() {
           <TBody>
             {messages.map((message) => (
               <Tr key={message.id}>
-                <Td className="figures whitespace-nowrap">{timeFormat.format(message.receivedAt)}</Td>
+                <Td className="figures whitespace-nowrap">{formatDate(message.receivedAt, "second")}</Td>
                 <Td>{message.toAddress}</Td>
                 <Td>
                   <Link className="text-link" href={`/dev/outbox/${message.id}`}>

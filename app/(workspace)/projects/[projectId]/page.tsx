@@ -4,13 +4,12 @@ import { can } from "@/lib/base/permission-table";
 import { loadProject } from "./load-project";
 import { DeleteProjectButton } from "./delete-project-button";
 import { ProjectSettingsForm } from "./project-settings-form";
+import { formatDate } from "@/lib/base/dates";
 
 export async function generateMetadata({ params }: { params: Promise<{ projectId: string }> }): Promise<Metadata> {
   const { project } = await loadProject((await params).projectId);
   return { title: project.name };
 }
-
-const dateFormat = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
 
 export default async function ProjectOverviewPage({ params }: { params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
@@ -26,9 +25,9 @@ export default async function ProjectOverviewPage({ params }: { params: Promise<
         {project.description ? <p className="max-w-prose whitespace-pre-line text-sm leading-relaxed">{project.description}</p> : <p className="text-sm text-muted">No description.</p>}
         <dl className="grid max-w-md grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
           <dt className="text-muted">Created</dt>
-          <dd className="figures">{dateFormat.format(project.createdAt)} UTC</dd>
+          <dd className="figures">{formatDate(project.createdAt)}</dd>
           <dt className="text-muted">Last changed</dt>
-          <dd className="figures">{dateFormat.format(project.updatedAt)} UTC</dd>
+          <dd className="figures">{formatDate(project.updatedAt)}</dd>
         </dl>
       </section>
       {canRename || canDelete ? (

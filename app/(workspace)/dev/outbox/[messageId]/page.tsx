@@ -4,10 +4,9 @@ import { PageHeader } from "@/components/shell/page-header";
 import { getOutboxMessage } from "@/db/queries/outbox";
 import { requireSiteAdmin } from "@/lib/server/auth/session";
 import { isOutboxAvailable } from "@/lib/server/outbox";
+import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Message" };
-
-const timeFormat = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone: "UTC" });
 
 /** Links in the text are made clickable; everything else is shown as text. */
 function linkify(text: string) {
@@ -38,7 +37,7 @@ export default async function OutboxMessagePage({ params }: { params: Promise<{ 
         <dt className="text-muted">To</dt>
         <dd>{message.toAddress}</dd>
         <dt className="text-muted">Received</dt>
-        <dd className="figures">{timeFormat.format(message.receivedAt)} UTC</dd>
+        <dd className="figures">{formatDate(message.receivedAt, "second")}</dd>
       </dl>
       <section aria-labelledby="text-heading" className="flex flex-col gap-2">
         <h2 id="text-heading" className="text-base font-semibold">

@@ -5,10 +5,9 @@ import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listAuditEvents } from "@/db/queries/audit";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
+import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Audit log" };
-
-const timeFormat = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone: "UTC" });
 
 function describeDetail(detail: Record<string, unknown> | null): string {
   if (!detail) return "";
@@ -43,7 +42,7 @@ export default async function AuditPage({ params }: { params: Promise<{ projectI
         <TBody>
           {events.map((event) => (
             <Tr key={event.id}>
-              <Td className="figures whitespace-nowrap">{timeFormat.format(event.createdAt)}</Td>
+              <Td className="figures whitespace-nowrap">{formatDate(event.createdAt, "second")}</Td>
               <Td>{event.actorName ?? event.actorEmail ?? "Portolan"}</Td>
               <Td className="font-mono text-xs">{event.action}</Td>
               <Td>{event.target ?? ""}</Td>

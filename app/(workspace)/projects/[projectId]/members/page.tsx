@@ -7,10 +7,9 @@ import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 import { InviteForm } from "./invite-form";
 import { MemberActions, RevokeInvitationButton } from "./member-actions";
+import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Members" };
-
-const dateFormat = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeZone: "UTC" });
 
 export default async function MembersPage({ params }: { params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
@@ -48,7 +47,7 @@ export default async function MembersPage({ params }: { params: Promise<{ projec
                   <Td>
                     <Badge tone={member.role === "owner" ? "info" : "neutral"}>{member.role}</Badge>
                   </Td>
-                  <Td className="figures whitespace-nowrap text-muted">{dateFormat.format(member.joinedAt)}</Td>
+                  <Td className="figures whitespace-nowrap text-muted">{formatDate(member.joinedAt, "day")}</Td>
                   {manage ? (
                     <Td>
                       <MemberActions projectId={projectId} userId={member.userId} name={member.name} role={member.role} isSelf={member.userId === user.id} />
@@ -83,7 +82,7 @@ export default async function MembersPage({ params }: { params: Promise<{ projec
                     <Tr key={invitation.id}>
                       <Td>{invitation.email}</Td>
                       <Td>{invitation.role}</Td>
-                      <Td className="figures whitespace-nowrap text-muted">{dateFormat.format(invitation.expiresAt)}</Td>
+                      <Td className="figures whitespace-nowrap text-muted">{formatDate(invitation.expiresAt, "day")}</Td>
                       <Td>
                         <RevokeInvitationButton projectId={projectId} invitationId={invitation.id} email={invitation.email} />
                       </Td>

@@ -8,10 +8,9 @@ import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listSignoffs, type SignoffView } from "@/db/queries/signoffs";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
+import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Sign-offs" };
-
-const timeFormat = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
 
 const ORDER: SignoffView["displayState"][] = ["requested", "approved", "changes_requested", "stale"];
 
@@ -52,7 +51,7 @@ function SignoffTable({ items, projectId }: { items: SignoffView[]; projectId: s
               <SignoffStateBadge signoff={s} />
             </Td>
             <Td className="figures whitespace-nowrap text-xs">
-              {timeFormat.format(s.createdAt)} by {s.requestedBy?.name ?? "a former member"}
+              {formatDate(s.createdAt)} by {s.requestedBy?.name ?? "a former member"}
             </Td>
             <Td className="text-sm">{s.comment}</Td>
           </Tr>

@@ -1,6 +1,8 @@
 /**
- * Browser side of the scenario and part route handlers: JSON fetches that turn `{ error }` bodies into
- * an ApiError with the status, code and message a person can act on.
+ * The browser's one API client: every fetch of a route handler goes through `requestJson`, which turns
+ * the `{ error: { code, message, fields? } }` bodies of lib/server/api.ts into an ApiError with the
+ * status, code and message a person can act on. The URL builders of the routes the pages call are here
+ * too.
  */
 
 export class ApiError extends Error {
@@ -55,4 +57,9 @@ export const scenarioUrls = {
     `/api/projects/${projectId}/scenarios/${scenarioId}/solve?format=${format}${revisionId ? `&revision=${encodeURIComponent(revisionId)}` : ""}`,
   parts: (projectId: string, withText = false) => `/api/projects/${projectId}/parts${withText ? "?text=1" : ""}`,
   part: (projectId: string, partId: string) => `/api/projects/${projectId}/parts/${partId}`,
+};
+
+export const checkRunUrls = {
+  list: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs`,
+  one: (projectId: string, scenarioId: string, runId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs/${runId}`,
 };
