@@ -159,7 +159,7 @@ export async function seedDemoScenarios({ tx, projectId, users }: DemoSeedContex
   await createPart({ actor, projectId, name: "TX band-pass filter", fileName: DEMO_PART_FILES.filter, text: resonatorFilterTouchstone(), executor: tx });
   await createPart({ actor, projectId, name: "ANT-B patch antenna", fileName: DEMO_PART_FILES.antenna, text: patchAntennaTouchstone(), executor: tx });
   for (const rule of DEMO_RULES) {
-    await tx.insert(rules).values({ id: randomUUID(), projectId, kind: rule.kind, spec: rule as unknown as Record<string, unknown>, createdBy: users.engineer });
+    await tx.insert(rules).values({ id: randomUUID(), projectId, kind: rule.kind, spec: rule, createdBy: users.engineer });
   }
   for (const demo of DEMO_SCENARIOS) {
     const id = randomUUID();

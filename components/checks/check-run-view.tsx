@@ -1,6 +1,6 @@
 "use client";
 
-import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult } from "@/engine/checks";
+import type { AllChecksResult } from "@/engine/checks";
 import { VerdictBadge } from "@/components/ui";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import type { CheckRunView as Run } from "@/lib/domain/checks/types";
@@ -22,7 +22,6 @@ export type CheckRunViewProps = {
 
 /** One stored check run: verdict, headline and the check's own figures. */
 export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: CheckRunViewProps) {
-  const result = run.figures.result;
   return (
     <article aria-label={`${CHECK_TITLES[run.check]} result`} className="flex flex-col gap-3" data-check={run.check}>
       <header className="flex flex-wrap items-center gap-2">
@@ -35,13 +34,13 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: C
       <p className="figures text-sm" data-testid="check-headline">
         {run.headline}
       </p>
-      {run.check === "isolation" || run.check === "match" || run.check === "insertion_loss" ? <RuleResultsTable results={[result as RuleResult]} caption={CHECK_TITLES[run.check]} /> : null}
-      {run.check === "leak_trace" ? <LeakTraceView result={result as LeakTraceResult} highlighted={highlightedPath} onHighlight={onHighlightPath} /> : null}
-      {run.check === "power_ledger" ? <LedgerChart result={result as LedgerResult} /> : null}
-      {run.check === "drive" ? <DriveView result={result as DriveResult} /> : null}
-      {run.check === "state_sweep" ? <SweepTable result={result as StateSweepResult} /> : null}
-      {run.check === "stability" ? <StabilityView results={result as StabilityResult[]} /> : null}
-      {run.check === "all_rules" ? <AllRulesView result={result as AllChecksResult} /> : null}
+      {run.check === "isolation" || run.check === "match" || run.check === "insertion_loss" ? <RuleResultsTable results={[run.figures.result]} caption={CHECK_TITLES[run.check]} /> : null}
+      {run.check === "leak_trace" ? <LeakTraceView result={run.figures.result} highlighted={highlightedPath} onHighlight={onHighlightPath} /> : null}
+      {run.check === "power_ledger" ? <LedgerChart result={run.figures.result} /> : null}
+      {run.check === "drive" ? <DriveView result={run.figures.result} /> : null}
+      {run.check === "state_sweep" ? <SweepTable result={run.figures.result} /> : null}
+      {run.check === "stability" ? <StabilityView results={run.figures.result} /> : null}
+      {run.check === "all_rules" ? <AllRulesView result={run.figures.result} /> : null}
       {run.figures.skipped && run.figures.skipped.length > 0 ? (
         <div className="text-sm">
           <h4 className="font-semibold">Rules not run on this scenario</h4>

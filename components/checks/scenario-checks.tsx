@@ -74,7 +74,7 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
       setLeak(null);
       try {
         const { run } = await fetchJson<{ run: CheckRunView }>(checkRunUrls.one(projectId, scenarioId, runId));
-        if (run?.check === "leak_trace") setLeak(run.figures.result as LeakTraceResult);
+        if (run?.check === "leak_trace") setLeak(run.figures.result);
       } catch {
         // the panel shows its own loading error
       }
@@ -92,7 +92,7 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
         await mutate(checkRunUrls.list(projectId, scenarioId));
         setSelected(run.id);
         if (run.check === "leak_trace") {
-          const result = run.figures.result as LeakTraceResult;
+          const result = run.figures.result;
           setLeak(result);
           setPathRank(result.paths[0]?.rank ?? null);
         } else {

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { listParts } from "@/db/queries/parts";
 import { PartsLibrary } from "@/components/parts/parts-library";
 import type { PartView } from "@/lib/domain/parts/types";
-import { serialiseDates } from "@/lib/domain/scenarios/types";
+import { serialiseDates } from "@/lib/domain/serialised";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 
@@ -11,7 +11,7 @@ export const metadata: Metadata = { title: "Parts" };
 export default async function PartsPage({ params }: { params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
   const { user, project } = await loadProject(projectId);
-  const parts = serialiseDates(await listParts({ userId: user.id, projectId })) as unknown as PartView[];
+  const parts: PartView[] = serialiseDates(await listParts({ userId: user.id, projectId }));
   return (
     <section aria-labelledby="parts-heading" className="flex flex-col gap-4">
       <div>

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { listRules } from "@/db/queries/rules";
 import { RulesEditor, type RuleItem } from "@/components/rules/rules-editor";
-import { serialiseDates } from "@/lib/domain/scenarios/types";
+import { serialiseDates } from "@/lib/domain/serialised";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 
@@ -10,7 +10,7 @@ export const metadata: Metadata = { title: "Rules" };
 export default async function RulesPage({ params }: { params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
   const { user, project } = await loadProject(projectId);
-  const rules = serialiseDates(await listRules({ userId: user.id, projectId })) as unknown as RuleItem[];
+  const rules: RuleItem[] = serialiseDates(await listRules({ userId: user.id, projectId }));
   return (
     <section aria-labelledby="rules-heading" className="flex flex-col gap-4">
       <div>

@@ -1,7 +1,8 @@
 import type { Metadata } from "next";
 import { listScenarios } from "@/db/queries/scenarios";
 import { ScenarioList } from "@/components/scenarios/scenario-list";
-import { serialiseDates, type ScenarioListItem } from "@/lib/domain/scenarios/types";
+import type { ScenarioListItem } from "@/lib/domain/scenarios/types";
+import { serialiseDates } from "@/lib/domain/serialised";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 
@@ -10,7 +11,7 @@ export const metadata: Metadata = { title: "Scenarios" };
 export default async function ScenariosPage({ params }: { params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
   const { user, project } = await loadProject(projectId);
-  const scenarios = serialiseDates(await listScenarios({ userId: user.id, projectId })) as unknown as ScenarioListItem[];
+  const scenarios: ScenarioListItem[] = serialiseDates(await listScenarios({ userId: user.id, projectId }));
   return (
     <section aria-labelledby="scenarios-heading" className="flex flex-col gap-4">
       <div>

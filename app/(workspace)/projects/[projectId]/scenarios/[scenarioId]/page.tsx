@@ -5,7 +5,8 @@ import { getScenario } from "@/db/queries/scenarios";
 import { ScenarioWorkspace } from "@/components/scenarios/scenario-workspace";
 import { SignoffPanel } from "@/components/signoff/signoff-panel";
 import type { PartView } from "@/lib/domain/parts/types";
-import { serialiseDates, type RevisionView } from "@/lib/domain/scenarios/types";
+import type { RevisionView } from "@/lib/domain/scenarios/types";
+import { serialiseDates } from "@/lib/domain/serialised";
 import { isAppError } from "@/lib/base/errors";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../../load-project";
@@ -22,14 +23,14 @@ export default async function ScenarioPage({ params }: { params: Promise<{ proje
     if (isAppError(error) && error.status === 404) notFound();
     throw error;
   }
-  const parts = serialiseDates(await listParts({ userId: user.id, projectId, withText: true })) as unknown as PartView[];
+  const parts: PartView[] = serialiseDates(await listParts({ userId: user.id, projectId, withText: true }));
   const { scenario, revision } = loaded;
   return (
     <>
       <ScenarioWorkspace
         projectId={project.id}
         scenario={{ id: scenario.id, projectId, name: scenario.name, latestRevisionId: scenario.latestRevisionId, latestRevisionNumber: scenario.latestRevisionNumber }}
-        revision={serialiseDates(revision) as unknown as RevisionView}
+        revision={serialiseDates(revision) satisfies RevisionView}
         parts={parts}
         readOnly={!can(project.role, "scenario.edit")}
         role={project.role}
