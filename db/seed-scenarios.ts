@@ -6,8 +6,15 @@ import type { RuleSpec, Scenario } from "@/engine/types";
 import { recordAudit } from "@/lib/server/audit";
 import { createPart } from "./queries/parts";
 import { insertRevision } from "./queries/revisions";
-import { rules, scenarios } from "./schema";
-import type { DemoSeedContext } from "./seed";
+import type { Transaction } from "./client";
+import { rules, scenarios, type Role } from "./schema";
+
+/** What a demo seed step works in: the seed's transaction, the demo project and the demo users by role. */
+export type DemoSeedContext = {
+  tx: Transaction;
+  projectId: string;
+  users: Record<Role, string>;
+};
 
 /**
  * The demo project's scenarios: the Kestrel telemetry front end, our own invented system. A transmit

@@ -8,7 +8,7 @@ import { DriveView } from "./drive-view";
 import { LeakTraceView } from "./leak-trace-view";
 import { LedgerChart } from "./ledger-chart";
 import { RuleResultsTable } from "./rule-results-table";
-import { SortableTable } from "./sortable-table";
+import { SortableTable } from "@/components/ui/sortable-table";
 import { StabilityView } from "./stability-view";
 import { SweepTable } from "./sweep-table";
 import { formatDate } from "@/lib/base/dates";

@@ -7,7 +7,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import type { RuleSpec } from "@/engine/types";
 import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components/ui";
 import { ApiError, fetchJson, requestJson } from "@/lib/browser/api-client";
-import { SortableTable, type SortColumn } from "@/components/checks/sortable-table";
+import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
 import { formatBand } from "@/components/helm/parse-input";
 import { RULE_KIND_LABELS, RULE_KINDS } from "@/lib/domain/rules/schema";
 import { EMPTY_RULE_FORM, formFromSpec, ruleFormSchema, specFromForm, type RuleFormValues } from "./rule-form";

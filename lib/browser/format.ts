@@ -50,10 +50,6 @@ export function formatDb(value: number, decimals = 2): string {
   return `${formatFixed(value, decimals)} dB`;
 }
 
-export function formatDeg(value: number, decimals = 1): string {
-  return `${formatFixed(value, decimals)}°`;
-}
-
 /** Complex impedance in Ω: "50 + j12.3 Ω". */
 export function formatImpedance(re: number, im: number, digits = 4): string {
   const sign = im < 0 ? "\u2212" : "+";

@@ -2,7 +2,7 @@
 
 import { useMemo, type ReactNode } from "react";
 import { createSortedRowModel, rowSortingFeature, sortFn_alphanumeric, sortFn_basic, tableFeatures, useTable, type ColumnDef, type RowData } from "@tanstack/react-table";
-import { Table, TableCaption, TBody, Td, Th, THead, Tr } from "@/components/ui";
+import { Table, TableCaption, TBody, Td, Th, THead, Tr } from "./table";
 
 const features = tableFeatures({
   rowSortingFeature,

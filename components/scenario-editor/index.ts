@@ -13,10 +13,3 @@
  * Ctrl+Y redo, F fit view, Escape clear the selection.
  */
 export { Workspace, type WorkspaceProps, type SaveState } from "./workspace";
-export { PortMenu, type PortMenuProps, type PortMenuAction } from "./port-menu";
-export * from "@/components/chart";
-export * from "@/components/inspector";
-export * from "@/components/results";
-export type { PartSummary, WorkspaceBlock, Clipboard, EditResult } from "@/lib/browser/scenario-model";
-export * as scenarioModel from "@/lib/browser/scenario-model";
-export { useSolver, type SolverState } from "@/lib/browser/use-solver";
