@@ -1,7 +1,8 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
+import { cache } from "react";
 import { listParts } from "@/db/queries/parts";
-import { getScenario } from "@/db/queries/scenarios";
+import { loadScenario } from "@/db/queries/scenarios";
 import { ScenarioWorkspace } from "@/components/scenarios/scenario-workspace";
 import { SignoffPanel } from "@/components/signoff/signoff-panel";
 import type { PartView } from "@/lib/domain/parts/types";
@@ -11,20 +12,30 @@ import { isAppError } from "@/lib/base/errors";
 import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../../load-project";
 
-export const metadata: Metadata = { title: "Scenario" };
-
-export default async function ScenarioPage({ params }: { params: Promise<{ projectId: string; scenarioId: string }> }) {
-  const { projectId, scenarioId } = await params;
+/**
+ * The scenario with its latest revision, loaded once per request for the title and the page. The
+ * project layout has resolved the viewer's membership (loadProject); its role is the access.
+ */
+const loadScenarioPage = cache(async (projectId: string, scenarioId: string) => {
   const { user, project } = await loadProject(projectId);
-  let loaded: Awaited<ReturnType<typeof getScenario>>;
   try {
-    loaded = await getScenario({ userId: user.id, projectId, scenarioId });
+    return { user, project, ...(await loadScenario({ userId: user.id, projectId, role: project.role }, { scenarioId })) };
   } catch (error) {
     if (isAppError(error) && error.status === 404) notFound();
     throw error;
   }
+});
+
+export async function generateMetadata({ params }: { params: Promise<{ projectId: string; scenarioId: string }> }): Promise<Metadata> {
+  const { projectId, scenarioId } = await params;
+  const { project, scenario } = await loadScenarioPage(projectId, scenarioId);
+  return { title: `${scenario.name} · ${project.name}` };
+}
+
+export default async function ScenarioPage({ params }: { params: Promise<{ projectId: string; scenarioId: string }> }) {
+  const { projectId, scenarioId } = await params;
+  const { user, project, scenario, revision } = await loadScenarioPage(projectId, scenarioId);
   const parts: PartView[] = serialiseDates(await listParts({ userId: user.id, projectId, withText: true }));
-  const { scenario, revision } = loaded;
   return (
     <>
       <ScenarioWorkspace
