@@ -204,7 +204,7 @@ export const scenarioRevisions = sqliteTable(
       .notNull()
       .references(() => scenarios.id, { onDelete: "cascade" }),
     number: integer("number").notNull(),
-    /** The scenario file JSON (DESIGN "Scenario file"), plus the workspace's `expr` and `position` per block. */
+    /** The scenario file JSON (docs/scenario-format.md), plus the workspace's `expr` and `position` per block. */
     content: text("content", { mode: "json" }).notNull().$type<Scenario>(),
     /** SHA-256 (hex) of the canonical JSON of `content` (keys sorted); sign-offs bind to it. */
     contentHash: text("content_hash").notNull(),
