@@ -10,7 +10,7 @@ import { checkRunUrls, fetchJson, requestJson } from "@/lib/browser/api-client";
 import type { CheckRunOf, CheckRunSummary } from "@/lib/domain/checks/types";
 import { fmt, fmtMargin } from "@/components/checks/format";
 import { defaultPair } from "@/components/helm/commands";
-import { diffScenarios, type ScenarioDiff } from "./diff-scenarios";
+import { diffScenarios, type ScenarioDiff } from "@/lib/domain/scenarios/diff";
 import { TraceOverlay } from "./trace-overlay";
 
 type Side = { scenarioId: string; revisionId: string };
