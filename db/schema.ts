@@ -1,5 +1,9 @@
 import { sql } from "drizzle-orm";
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+// types only (erased at build time): the JSON columns hold these shapes
+import type { RuleSpec, Scenario } from "../engine/types";
+import type { CheckName } from "../lib/domain/checks/inputs";
+import type { CheckFigures } from "../lib/domain/checks/types";
 
 export const ROLES = ["owner", "engineer", "reviewer"] as const;
 export type Role = (typeof ROLES)[number];
@@ -200,8 +204,8 @@ export const scenarioRevisions = sqliteTable(
       .notNull()
       .references(() => scenarios.id, { onDelete: "cascade" }),
     number: integer("number").notNull(),
-    /** The scenario file JSON (DESIGN "Scenario file"), plus the workspace's `expr` and `position` per block. */
-    content: text("content", { mode: "json" }).notNull().$type<Record<string, unknown>>(),
+    /** The scenario file JSON (docs/scenario-format.md), plus the workspace's `expr` and `position` per block. */
+    content: text("content", { mode: "json" }).notNull().$type<Scenario>(),
     /** SHA-256 (hex) of the canonical JSON of `content` (keys sorted); sign-offs bind to it. */
     contentHash: text("content_hash").notNull(),
     /** Engine reference problems found when saving (a draft may be incomplete); empty when it solves. */
@@ -260,8 +264,8 @@ export const rules = sqliteTable(
     projectId: text("project_id")
       .notNull()
       .references(() => projects.id, { onDelete: "cascade" }),
-    kind: text("kind").notNull(),
-    spec: text("spec", { mode: "json" }).notNull().$type<Record<string, unknown>>(),
+    kind: text("kind").notNull().$type<RuleSpec["kind"]>(),
+    spec: text("spec", { mode: "json" }).notNull().$type<RuleSpec>(),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" })
@@ -283,10 +287,10 @@ export const checkRuns = sqliteTable(
       .references(() => scenarios.id, { onDelete: "cascade" }),
     revisionId: text("revision_id").references(() => scenarioRevisions.id, { onDelete: "set null" }),
     userId: text("user_id").references(() => users.id, { onDelete: "set null" }),
-    check: text("check").notNull(),
+    check: text("check").notNull().$type<CheckName>(),
     inputs: text("inputs", { mode: "json" }).$type<Record<string, unknown>>(),
     verdict: text("verdict", { enum: ["pass", "fail", "warn"] }).notNull(),
-    figures: text("figures", { mode: "json" }).$type<Record<string, unknown>>(),
+    figures: text("figures", { mode: "json" }).$type<CheckFigures>(),
     createdAt: createdAt(),
   },
   (table) => [index("check_runs_scenario_id_idx").on(table.scenarioId, table.createdAt)],

@@ -6,8 +6,15 @@ import type { RuleSpec, Scenario } from "@/engine/types";
 import { recordAudit } from "@/lib/server/audit";
 import { createPart } from "./queries/parts";
 import { insertRevision } from "./queries/revisions";
-import { rules, scenarios } from "./schema";
-import type { DemoSeedContext } from "./seed";
+import type { Transaction } from "./client";
+import { rules, scenarios, type Role } from "./schema";
+
+/** What a demo seed step works in: the seed's transaction, the demo project and the demo users by role. */
+export type DemoSeedContext = {
+  tx: Transaction;
+  projectId: string;
+  users: Record<Role, string>;
+};
 
 /**
  * The demo project's scenarios: the Kestrel telemetry front end, our own invented system. A transmit
@@ -159,7 +166,7 @@ export async function seedDemoScenarios({ tx, projectId, users }: DemoSeedContex
   await createPart({ actor, projectId, name: "TX band-pass filter", fileName: DEMO_PART_FILES.filter, text: resonatorFilterTouchstone(), executor: tx });
   await createPart({ actor, projectId, name: "ANT-B patch antenna", fileName: DEMO_PART_FILES.antenna, text: patchAntennaTouchstone(), executor: tx });
   for (const rule of DEMO_RULES) {
-    await tx.insert(rules).values({ id: randomUUID(), projectId, kind: rule.kind, spec: rule as unknown as Record<string, unknown>, createdBy: users.engineer });
+    await tx.insert(rules).values({ id: randomUUID(), projectId, kind: rule.kind, spec: rule, createdBy: users.engineer });
   }
   for (const demo of DEMO_SCENARIOS) {
     const id = randomUUID();

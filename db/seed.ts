@@ -1,11 +1,11 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
 import { and, eq, inArray } from "drizzle-orm";
-import { runInTransaction, type Transaction } from "./client";
+import { runInTransaction } from "./client";
 import { memberships, projects, users, type Role } from "./schema";
 import { recordAudit } from "@/lib/server/audit";
 import { hashPassword } from "@/lib/server/auth/password";
-import { seedDemoScenarios } from "./seed-scenarios";
+import { seedDemoScenarios, type DemoSeedContext } from "./seed-scenarios";
 
 export const DEMO_PASSWORD = "portolan-demo";
 
@@ -21,23 +21,11 @@ export const DEMO_PROJECT = {
     "Front end of the Kestrel telemetry radio (an invented system): one transmitter and one receiver sharing two antennas through a T/R switch and an antenna switch, with band-pass filters, a monitor coupler and a low-noise amplifier. The question is whether enough of the transmit power stays out of the receiver in every switch setting.",
 };
 
-export type DemoSeedContext = {
-  tx: Transaction;
-  projectId: string;
-  users: Record<(typeof DEMO_USERS)[number]["role"], string>;
-};
-
-/** Later issues register steps here (demo scenarios, parts, rules); each runs once, in the seed's transaction. */
-const extraSteps: ((ctx: DemoSeedContext) => Promise<void>)[] = [];
-
-export function registerDemoSeedStep(step: (ctx: DemoSeedContext) => Promise<void>): void {
-  extraSteps.push(step);
-}
-
 /**
  * Create the demo users and project once. Idempotent: does nothing if the demo project exists or if
  * any of the demo e-mails is already taken. Demo users are never site admins: their password is
- * published, so the first real account to sign up becomes site admin instead.
+ * published, so the first real account to sign up becomes site admin instead. The demo scenarios, parts
+ * and rules follow in the same transaction (db/seed-scenarios.ts).
  */
 export async function seedDemo(): Promise<{ seeded: boolean; projectId: string | null }> {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
@@ -60,7 +48,7 @@ export async function seedDemo(): Promise<{ seeded: boolean; projectId: string |
       await tx.insert(memberships).values({ projectId, userId: ids[demo.role], role: demo.role });
     }
     await recordAudit(tx, { actor: null, projectId, action: "demo.seed", target: DEMO_PROJECT.name });
-    for (const step of extraSteps) await step({ tx, projectId, users: ids });
+    await seedDemoScenarios({ tx, projectId, users: ids });
     return { seeded: true, projectId };
   });
 }
@@ -85,4 +73,3 @@ export async function revokeDemoSiteAdmins(): Promise<string[]> {
   });
 }
 
-registerDemoSeedStep(seedDemoScenarios);

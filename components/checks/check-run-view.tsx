@@ -1,6 +1,6 @@
 "use client";
 
-import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult } from "@/engine/checks";
+import type { AllChecksResult } from "@/engine/checks";
 import { VerdictBadge } from "@/components/ui";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import type { CheckRunView as Run } from "@/lib/domain/checks/types";
@@ -8,9 +8,10 @@ import { DriveView } from "./drive-view";
 import { LeakTraceView } from "./leak-trace-view";
 import { LedgerChart } from "./ledger-chart";
 import { RuleResultsTable } from "./rule-results-table";
-import { SortableTable } from "./sortable-table";
+import { SortableTable } from "@/components/ui/sortable-table";
 import { StabilityView } from "./stability-view";
 import { SweepTable } from "./sweep-table";
+import { formatDate } from "@/lib/base/dates";
 
 export type CheckRunViewProps = {
   run: Run;
@@ -21,26 +22,25 @@ export type CheckRunViewProps = {
 
 /** One stored check run: verdict, headline and the check's own figures. */
 export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: CheckRunViewProps) {
-  const result = run.figures.result;
   return (
     <article aria-label={`${CHECK_TITLES[run.check]} result`} className="flex flex-col gap-3" data-check={run.check}>
       <header className="flex flex-wrap items-center gap-2">
         <VerdictBadge verdict={run.verdict} />
         <h3 className="text-base font-semibold">{CHECK_TITLES[run.check]}</h3>
         <span className="text-xs text-muted">
-          r{run.revisionNumber ?? "?"} · {run.userName ?? "someone"} · {new Date(run.createdAt).toLocaleString("en-GB")}
+          r{run.revisionNumber ?? "?"} · {run.userName ?? "someone"} · {formatDate(run.createdAt, "second")}
         </span>
       </header>
       <p className="figures text-sm" data-testid="check-headline">
         {run.headline}
       </p>
-      {run.check === "isolation" || run.check === "match" || run.check === "insertion_loss" ? <RuleResultsTable results={[result as RuleResult]} caption={CHECK_TITLES[run.check]} /> : null}
-      {run.check === "leak_trace" ? <LeakTraceView result={result as LeakTraceResult} highlighted={highlightedPath} onHighlight={onHighlightPath} /> : null}
-      {run.check === "power_ledger" ? <LedgerChart result={result as LedgerResult} /> : null}
-      {run.check === "drive" ? <DriveView result={result as DriveResult} /> : null}
-      {run.check === "state_sweep" ? <SweepTable result={result as StateSweepResult} /> : null}
-      {run.check === "stability" ? <StabilityView results={result as StabilityResult[]} /> : null}
-      {run.check === "all_rules" ? <AllRulesView result={result as AllChecksResult} /> : null}
+      {run.check === "isolation" || run.check === "match" || run.check === "insertion_loss" ? <RuleResultsTable results={[run.figures.result]} caption={CHECK_TITLES[run.check]} /> : null}
+      {run.check === "leak_trace" ? <LeakTraceView result={run.figures.result} highlighted={highlightedPath} onHighlight={onHighlightPath} /> : null}
+      {run.check === "power_ledger" ? <LedgerChart result={run.figures.result} /> : null}
+      {run.check === "drive" ? <DriveView result={run.figures.result} /> : null}
+      {run.check === "state_sweep" ? <SweepTable result={run.figures.result} /> : null}
+      {run.check === "stability" ? <StabilityView results={run.figures.result} /> : null}
+      {run.check === "all_rules" ? <AllRulesView result={run.figures.result} /> : null}
       {run.figures.skipped && run.figures.skipped.length > 0 ? (
         <div className="text-sm">
           <h4 className="font-semibold">Rules not run on this scenario</h4>

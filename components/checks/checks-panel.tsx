@@ -3,21 +3,10 @@
 import useSWR from "swr";
 import { Alert, Button, Spinner, VerdictBadge } from "@/components/ui";
 import { cn } from "@/components/ui/cn";
+import { checkRunUrls, fetchJson } from "@/lib/browser/api-client";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import { CheckRunView } from "./check-run-view";
 import type { CheckRunSummary, CheckRunView as Run } from "@/lib/domain/checks/types";
-
-export const checkRunUrls = {
-  list: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs`,
-  one: (projectId: string, scenarioId: string, runId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs/${runId}`,
-};
-
-const fetcher = async <T,>(url: string): Promise<T> => {
-  const res = await fetch(url, { headers: { accept: "application/json" }, credentials: "same-origin" });
-  const body = await res.json().catch(() => null);
-  if (!res.ok) throw new Error((body as { error?: { message?: string } } | null)?.error?.message ?? `The server answered ${res.status}.`);
-  return body as T;
-};
 
 export type ChecksPanelProps = {
   projectId: string;
@@ -35,8 +24,8 @@ export type ChecksPanelProps = {
 /** The scenario page's checks: the selected run's results and the scenario's run history. */
 export function ChecksPanel(props: ChecksPanelProps) {
   const { projectId, scenarioId, selectedRunId, onSelect, running, error, canRun, onRunAll } = props;
-  const { data: list } = useSWR<{ runs: CheckRunSummary[] }>(checkRunUrls.list(projectId, scenarioId), fetcher);
-  const { data: one, error: oneError } = useSWR<{ run: Run }>(selectedRunId ? checkRunUrls.one(projectId, scenarioId, selectedRunId) : null, fetcher);
+  const { data: list } = useSWR<{ runs: CheckRunSummary[] }>(checkRunUrls.list(projectId, scenarioId), fetchJson);
+  const { data: one, error: oneError } = useSWR<{ run: Run }>(selectedRunId ? checkRunUrls.one(projectId, scenarioId, selectedRunId) : null, fetchJson);
   const runs = list?.runs ?? [];
   return (
     <section aria-labelledby="checks-heading" id="checks" className="flex flex-col gap-3 rounded-card border border-rule bg-surface/60 p-3">

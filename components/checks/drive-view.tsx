@@ -2,7 +2,7 @@
 
 import type { DriveResult } from "@/engine/checks";
 import { Alert, VerdictBadge } from "@/components/ui";
-import { SortableTable } from "./sortable-table";
+import { SortableTable } from "@/components/ui/sortable-table";
 import { fmt, fmtHz, fmtMargin } from "./format";
 
 /** Incident power at every block against its rating, with the cautions every drive result carries. */

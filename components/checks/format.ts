@@ -1,4 +1,4 @@
-import { formatFrequency } from "@/lib/browser/format";
+import { formatHz } from "@/engine/format";
 
 /** dB figures with a sign on margins, a true minus, and a dash for missing values. */
 export function fmt(value: number | null | undefined, decimals = 2): string {
@@ -17,5 +17,5 @@ export function fmtMargin(value: number | null | undefined, decimals = 2): strin
 
 export function fmtHz(value: number | null | undefined): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  return formatFrequency(value);
+  return formatHz(value);
 }

@@ -3,7 +3,7 @@
 import type { LeakTraceResult } from "@/engine/checks";
 import { Button } from "@/components/ui";
 import { cn } from "@/components/ui/cn";
-import { SortableTable } from "./sortable-table";
+import { SortableTable } from "@/components/ui/sortable-table";
 import { fmt, fmtHz } from "./format";
 
 export type ChartHighlight = { blocks: string[]; hops: { block: string; inPort: number; outPort: number }[] };

@@ -2,7 +2,7 @@
 
 import type { RuleResult } from "@/engine/checks/types";
 import { VerdictBadge } from "@/components/ui";
-import { SortableTable, type SortColumn } from "./sortable-table";
+import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
 import { fmt, fmtHz, fmtMargin } from "./format";
 
 const KIND: Record<RuleResult["kind"], string> = { isolation: "Isolation", match: "Match", insertion_loss: "Insertion loss", drive: "Drive" };

@@ -11,7 +11,8 @@ import { addBlock, setSwitchState, setSystemPort, type PartSummary } from "@/lib
 import { CARD_WIDTH } from "@/components/chart";
 import type { LeakTraceResult } from "@/engine/checks";
 import type { CheckName } from "@/lib/domain/checks/inputs";
-import { ChecksPanel, checkRunUrls } from "./checks-panel";
+import { checkRunUrls, fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
+import { ChecksPanel } from "./checks-panel";
 import { highlightOfPath, type ChartHighlight } from "./leak-trace-view";
 import type { CheckRunView } from "@/lib/domain/checks/types";
 
@@ -44,13 +45,6 @@ function download(href: string): void {
   a.remove();
 }
 
-async function postJson<T>(url: string, body: unknown): Promise<T> {
-  const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json", accept: "application/json" }, body: JSON.stringify(body), credentials: "same-origin" });
-  const json = await res.json().catch(() => null);
-  if (!res.ok) throw new Error((json as { error?: { message?: string } } | null)?.error?.message ?? `The server answered ${res.status}.`);
-  return json as T;
-}
-
 /**
  * The "Checks" area of the scenario page and the page's side of the helm: lends the workspace's actions
  * and the checks to the helm, runs checks on the server, shows the chosen run and the run history, and
@@ -79,8 +73,8 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
       setPathRank(null);
       setLeak(null);
       try {
-        const { run } = await (await fetch(checkRunUrls.one(projectId, scenarioId, runId), { credentials: "same-origin" })).json() as { run: CheckRunView };
-        if (run?.check === "leak_trace") setLeak(run.figures.result as LeakTraceResult);
+        const { run } = await fetchJson<{ run: CheckRunView }>(checkRunUrls.one(projectId, scenarioId, runId));
+        if (run?.check === "leak_trace") setLeak(run.figures.result);
       } catch {
         // the panel shows its own loading error
       }
@@ -93,12 +87,12 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
       setRunning(check);
       setError(null);
       try {
-        const { run } = await postJson<{ run: CheckRunView }>(checkRunUrls.list(projectId, scenarioId), { check, inputs, revisionId });
+        const { run } = await requestJson<{ run: CheckRunView }>(checkRunUrls.list(projectId, scenarioId), { method: "POST", json: { check, inputs, revisionId } });
         await mutate(checkRunUrls.one(projectId, scenarioId, run.id), { run }, { revalidate: false });
         await mutate(checkRunUrls.list(projectId, scenarioId));
         setSelected(run.id);
         if (run.check === "leak_trace") {
-          const result = run.figures.result as LeakTraceResult;
+          const result = run.figures.result;
           setLeak(result);
           setPathRank(result.paths[0]?.rank ?? null);
         } else {
@@ -146,7 +140,7 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
     },
     duplicateScenario: async () => {
       try {
-        const created = await postJson<{ scenario: { id: string } }>(`/api/projects/${projectId}/scenarios/${scenarioId}/duplicate`, {});
+        const created = await requestJson<{ scenario: { id: string } }>(scenarioUrls.duplicate(projectId, scenarioId), { method: "POST", json: {} });
         router.push(`/projects/${projectId}/scenarios/${created.scenario.id}`);
       } catch (e) {
         setNotice(e instanceof Error ? e.message : String(e));

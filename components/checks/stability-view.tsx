@@ -2,7 +2,7 @@
 
 import type { StabilityResult } from "@/engine/checks";
 import { VerdictBadge } from "@/components/ui";
-import { SortableTable } from "./sortable-table";
+import { SortableTable } from "@/components/ui/sortable-table";
 import { fmt, fmtHz } from "./format";
 
 /** Rollett K and Edwards–Sinsky μ per amplifier (and a two-port composite): the smallest over the plan. */

@@ -2,7 +2,7 @@
 
 import type { StateSweepResult } from "@/engine/checks";
 import { Badge, VerdictBadge } from "@/components/ui";
-import { SortableTable, type SortColumn } from "./sortable-table";
+import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
 import { fmtMargin } from "./format";
 
 type Row = StateSweepResult["rows"][number] & { index: number };

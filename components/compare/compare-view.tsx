@@ -3,42 +3,36 @@
 import { useMemo, useState } from "react";
 import { usePathname, useRouter } from "next/navigation";
 import useSWR from "swr";
-import type { AllChecksResult, RuleResult } from "@/engine/checks";
+import type { RuleResult } from "@/engine/checks";
 import type { Scenario } from "@/engine/types";
 import { Alert, Badge, Field, Select, Spinner, VerdictBadge } from "@/components/ui";
-import { checkRunUrls } from "@/components/checks/checks-panel";
-import type { CheckRunSummary, CheckRunView } from "@/lib/domain/checks/types";
+import { checkRunUrls, fetchJson, requestJson } from "@/lib/browser/api-client";
+import type { CheckRunOf, CheckRunSummary } from "@/lib/domain/checks/types";
 import { fmt, fmtMargin } from "@/components/checks/format";
 import { defaultPair } from "@/components/helm/commands";
-import { diffScenarios, type ScenarioDiff } from "./diff-scenarios";
+import { diffScenarios, type ScenarioDiff } from "@/lib/domain/scenarios/diff";
 import { TraceOverlay } from "./trace-overlay";
 
 type Side = { scenarioId: string; revisionId: string };
 type Loaded = { revision: { id: string; number: number; content: Scenario } };
+type AllRulesRun = CheckRunOf<"all_rules">;
 type Solved = { frequencies: number[]; ports: string[]; s: [number, number][][][] };
 
-async function getJson<T>(url: string, init?: RequestInit): Promise<T> {
-  const res = await fetch(url, { credentials: "same-origin", headers: { accept: "application/json", ...(init?.body ? { "content-type": "application/json" } : {}) }, ...init });
-  const body = await res.json().catch(() => null);
-  if (!res.ok) throw new Error((body as { error?: { message?: string } } | null)?.error?.message ?? `The server answered ${res.status}.`);
-  return body as T;
-}
-
 /** The latest stored "all rules" run of this revision, or a new one. */
-async function allRulesFor(projectId: string, scenarioId: string, revisionId: string): Promise<CheckRunView> {
-  const { runs } = await getJson<{ runs: CheckRunSummary[] }>(`${checkRunUrls.list(projectId, scenarioId)}?limit=200`);
+async function allRulesFor(projectId: string, scenarioId: string, revisionId: string): Promise<AllRulesRun> {
+  const { runs } = await requestJson<{ runs: CheckRunSummary[] }>(`${checkRunUrls.list(projectId, scenarioId)}?limit=200`);
   const found = runs.find((r) => r.check === "all_rules" && r.revisionId === revisionId);
-  if (found) return (await getJson<{ run: CheckRunView }>(checkRunUrls.one(projectId, scenarioId, found.id))).run;
-  return (await getJson<{ run: CheckRunView }>(checkRunUrls.list(projectId, scenarioId), { method: "POST", body: JSON.stringify({ check: "all_rules", inputs: {}, revisionId }) })).run;
+  if (found) return (await requestJson<{ run: AllRulesRun }>(checkRunUrls.one(projectId, scenarioId, found.id))).run;
+  return (await requestJson<{ run: AllRulesRun }>(checkRunUrls.list(projectId, scenarioId), { method: "POST", json: { check: "all_rules", inputs: {}, revisionId } })).run;
 }
 
 function useSide(projectId: string, side: Side) {
   const base = `/api/projects/${projectId}/scenarios/${side.scenarioId}`;
-  const revisions = useSWR<{ revisions: { id: string; number: number }[] }>(side.scenarioId ? `${base}/revisions` : null, getJson);
-  const loaded = useSWR<Loaded>(side.scenarioId ? `${base}${side.revisionId ? `?revision=${encodeURIComponent(side.revisionId)}` : ""}` : null, getJson);
+  const revisions = useSWR<{ revisions: { id: string; number: number }[] }>(side.scenarioId ? `${base}/revisions` : null, fetchJson);
+  const loaded = useSWR<Loaded>(side.scenarioId ? `${base}${side.revisionId ? `?revision=${encodeURIComponent(side.revisionId)}` : ""}` : null, fetchJson);
   const revisionId = loaded.data?.revision.id;
-  const rules = useSWR<CheckRunView>(revisionId ? ["all-rules", side.scenarioId, revisionId] : null, () => allRulesFor(projectId, side.scenarioId, revisionId!));
-  const solved = useSWR<Solved>(revisionId ? `${base}/solve?format=json&revision=${encodeURIComponent(revisionId)}` : null, getJson);
+  const rules = useSWR<AllRulesRun>(revisionId ? ["all-rules", side.scenarioId, revisionId] : null, () => allRulesFor(projectId, side.scenarioId, revisionId!));
+  const solved = useSWR<Solved>(revisionId ? `${base}/solve?format=json&revision=${encodeURIComponent(revisionId)}` : null, fetchJson);
   return { revisions: revisions.data?.revisions ?? [], loaded: loaded.data, rules: rules.data, solved: solved.data, error: loaded.error ?? rules.error ?? solved.error };
 }
 
@@ -83,8 +77,8 @@ export function CompareView({ projectId, scenarios, initial }: CompareViewProps)
   const to = pair?.to && ports.includes(pair.to) ? pair.to : defTo;
 
   const diff: ScenarioDiff | null = A.loaded && Bs.loaded ? diffScenarios(A.loaded.revision.content, Bs.loaded.revision.content) : null;
-  const rulesA = (A.rules?.figures.result as AllChecksResult | undefined)?.rules ?? [];
-  const rulesB = (Bs.rules?.figures.result as AllChecksResult | undefined)?.rules ?? [];
+  const rulesA = A.rules?.figures.result.rules ?? [];
+  const rulesB = Bs.rules?.figures.result.rules ?? [];
   const ruleIds = [...new Set([...rulesA.map((r) => r.id), ...rulesB.map((r) => r.id)])];
   const byId = (list: RuleResult[], id: string) => list.find((r) => r.id === id);
 

@@ -7,16 +7,11 @@ import useSWR from "swr";
 import { Compass } from "lucide-react";
 import type { RuleSpec } from "@/engine/types";
 import { Kbd } from "@/components/ui";
+import { fetchJson } from "@/lib/browser/api-client";
 import { cn } from "@/components/ui/cn";
 import { buildCommands, type HelmCommand, type HelmProject, type HelmStep } from "./commands";
 import { useHelmRegistry } from "./helm-context";
 import { readRecent, rememberRecent } from "./recent";
-
-const fetcher = async <T,>(url: string): Promise<T> => {
-  const res = await fetch(url, { headers: { accept: "application/json" }, credentials: "same-origin" });
-  if (!res.ok) throw new Error(`${url}: ${res.status}`);
-  return (await res.json()) as T;
-};
 
 const itemClass =
   "flex cursor-pointer items-center justify-between gap-3 rounded px-3 py-2 text-sm text-ink data-[selected=true]:bg-ink data-[selected=true]:text-on-ink";
@@ -45,10 +40,10 @@ export function Helm() {
 
   const page = current();
   const projectId = page?.projectId ?? projectIdFrom(pathname);
-  const { data: projectsData } = useSWR<{ projects: HelmProject[] }>(open ? "/api/projects" : null, fetcher);
-  const { data: scenariosData } = useSWR<{ scenarios: { id: string; name: string }[] }>(open && projectId ? `/api/projects/${projectId}/scenarios` : null, fetcher);
-  const { data: partsData } = useSWR<{ parts: { id: string; name: string; fileName: string }[] }>(open && projectId ? `/api/projects/${projectId}/parts` : null, fetcher);
-  const { data: rulesData } = useSWR<{ rules: { spec: RuleSpec }[] }>(open && projectId ? `/api/projects/${projectId}/rules` : null, fetcher);
+  const { data: projectsData } = useSWR<{ projects: HelmProject[] }>(open ? "/api/projects" : null, fetchJson);
+  const { data: scenariosData } = useSWR<{ scenarios: { id: string; name: string }[] }>(open && projectId ? `/api/projects/${projectId}/scenarios` : null, fetchJson);
+  const { data: partsData } = useSWR<{ parts: { id: string; name: string; fileName: string }[] }>(open && projectId ? `/api/projects/${projectId}/parts` : null, fetchJson);
+  const { data: rulesData } = useSWR<{ rules: { spec: RuleSpec }[] }>(open && projectId ? `/api/projects/${projectId}/rules` : null, fetchJson);
 
   /** Open or close, starting afresh each time (no half-answered command survives a close). */
   const changeOpen = useCallback(

@@ -1,5 +1,5 @@
 import { evaluateQuantity } from "@/lib/browser/expressions";
-import { formatFrequency } from "@/lib/browser/format";
+import { formatHz } from "@/engine/format";
 
 export type Parsed<T> = { ok: true; value: T } | { ok: false; error: string };
 
@@ -60,5 +60,5 @@ export function parseSources(text: string, ports: readonly string[] | null): Par
 
 /** A band as people write it: "2.4 GHz to 2.48 GHz". */
 export function formatBand([lo, hi]: readonly [number, number]): string {
-  return `${formatFrequency(lo)} to ${formatFrequency(hi)}`;
+  return `${formatHz(lo)} to ${formatHz(hi)}`;
 }

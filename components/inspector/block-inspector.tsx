@@ -177,14 +177,13 @@ function ParamsSection({
     return out;
   }, [infos, scope]);
 
-  const initial = useMemo(() => {
+  // the form keeps its own text after mount; it is re-created (keyed) on block change or undo
+  const [initial] = useState(() => {
     const out: Record<string, string> = {};
     for (const info of infos) out[info.name] = block.expr?.[info.name] ?? valueToText(block.params?.[info.name]);
     out[RATING] = block.expr?.[RATING] ?? valueToText(block.rating_dbm);
     return out;
-    // the form keeps its own text after mount; it is re-created (keyed) on block change or undo
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, []);
+  });
 
   // Latest scenario for commits made from form callbacks.
   const onCommit = useCallback(

@@ -60,17 +60,22 @@ export function ExpressionForm({ label, fields, initial, disabled, onCommit }: E
   });
   const values = useWatch({ control: form.control }) as Record<string, string | undefined>;
 
-  useEffect(() => {
-    const sub = form.watch((all, { name, type }) => {
-      if (!name || type !== "change") return;
-      const spec = fields.find((f) => f.name === name);
-      if (!spec) return;
-      const text = all[name] ?? "";
-      const r = spec.read(text);
-      if (r.ok) onCommit(name, r.value, text);
-    });
-    return () => sub.unsubscribe();
-  }, [form, fields, onCommit]);
+  // commit each typed change that reads (subscribe, not watch: no re-render of the form per keystroke)
+  useEffect(
+    () =>
+      form.subscribe({
+        formState: { values: true },
+        callback: ({ values: all, name, type }) => {
+          if (!name || type !== "change") return;
+          const spec = fields.find((f) => f.name === name);
+          if (!spec) return;
+          const text = all[name] ?? "";
+          const r = spec.read(text);
+          if (r.ok) onCommit(name, r.value, text);
+        },
+      }),
+    [form, fields, onCommit],
+  );
 
   const errors = form.formState.errors;
   return (

@@ -40,40 +40,35 @@ function positive(text: string, q: "Hz" | "ohm"): ParamInput {
   return r;
 }
 
+/** The plan form: the system Z0 and a linear plan (start, stop, points). */
+const PLAN_FIELDS: ExpressionFieldSpec[] = [
+  { name: "z0", label: "System Z0", unit: "Ω", required: true, read: (t) => positive(t, "ohm"), help: "Reference of every block port inside the system." },
+  { name: "start", label: "Start", unit: "Hz", required: true, read: (t) => positive(t, "Hz") },
+  { name: "stop", label: "Stop", unit: "Hz", required: true, read: (t) => positive(t, "Hz") },
+  {
+    name: "points",
+    label: "Points",
+    unit: "",
+    required: true,
+    read: (t) => {
+      const r = evaluateQuantity(t, "integer");
+      if (!r.ok) return r;
+      const n = r.value as number;
+      return n >= 1 && n <= 100_001 ? r : { ok: false, error: "Between 1 and 100001 points." };
+    },
+  },
+];
+
 function PlanForm({ scenario, readOnly, commit }: Omit<ScenarioPanelProps, "resetToken">) {
   const plan = scenario.frequency;
   const range = "list" in plan ? null : plan;
-  const fields = useMemo<ExpressionFieldSpec[]>(
-    () => [
-      { name: "z0", label: "System Z0", unit: "Ω", required: true, read: (t) => positive(t, "ohm"), help: "Reference of every block port inside the system." },
-      { name: "start", label: "Start", unit: "Hz", required: true, read: (t) => positive(t, "Hz") },
-      { name: "stop", label: "Stop", unit: "Hz", required: true, read: (t) => positive(t, "Hz") },
-      {
-        name: "points",
-        label: "Points",
-        unit: "",
-        required: true,
-        read: (t) => {
-          const r = evaluateQuantity(t, "integer");
-          if (!r.ok) return r;
-          const n = r.value as number;
-          return n >= 1 && n <= 100_001 ? r : { ok: false, error: "Between 1 and 100001 points." };
-        },
-      },
-    ],
-    [],
-  );
-  const initial = useMemo(
-    () => ({
-      z0: String(scenario.z0),
-      start: range ? formatSi(range.start, "Hz", 12) : "",
-      stop: range ? formatSi(range.stop, "Hz", 12) : "",
-      points: range ? String(range.points) : "",
-    }),
-    // keyed by resetToken in the parent
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-    [],
-  );
+  // the form's text at mount; the parent re-creates the panel (key = resetToken) to start afresh
+  const [initial] = useState(() => ({
+    z0: String(scenario.z0),
+    start: range ? formatSi(range.start, "Hz", 12) : "",
+    stop: range ? formatSi(range.stop, "Hz", 12) : "",
+    points: range ? String(range.points) : "",
+  }));
   const onCommit = useCallback(
     (name: string, value: unknown) => {
       if (typeof value !== "number") return;
@@ -96,7 +91,7 @@ function PlanForm({ scenario, readOnly, commit }: Omit<ScenarioPanelProps, "rese
         </p>
       ) : null}
       {range && range.start >= range.stop && range.points > 1 ? <p className="text-xs text-fail-strong">Start should be below stop.</p> : null}
-      <ExpressionForm label="Frequency plan" fields={fields} initial={initial} disabled={readOnly} onCommit={onCommit} />
+      <ExpressionForm label="Frequency plan" fields={PLAN_FIELDS} initial={initial} disabled={readOnly} onCommit={onCommit} />
     </div>
   );
 }

@@ -3,9 +3,9 @@
 import { useRef, useState, type FormEvent } from "react";
 import useSWR from "swr";
 import { Alert, Button, ConfirmDialog, EmptyState, Field, Input, Spinner, Table, TBody, Td, Th, THead, Tr, VerdictBadge } from "@/components/ui";
-import { ApiError, fetchJson, scenarioUrls, requestJson } from "@/components/scenarios/api-client";
+import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import type { PartView } from "@/lib/domain/parts/types";
-import { formatFrequency } from "@/lib/browser/format";
+import { formatHz } from "@/engine/format";
 import { PART_MAX_BYTES } from "@/lib/base/validation/parts";
 import { PreviewTrace } from "./preview-trace";
 
@@ -57,14 +57,14 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
                 </Td>
                 <Td numeric>{p.ports}</Td>
                 <Td className="figures text-xs">
-                  {formatFrequency(p.startHz)} – {formatFrequency(p.stopHz)}
+                  {formatHz(p.startHz)} – {formatHz(p.stopHz)}
                 </Td>
                 <Td numeric>{p.points}</Td>
                 <Td className="figures text-xs">{formatReference(p.referenceOhms)}</Td>
                 <Td>
                   <div className="flex flex-col items-start gap-0.5">
                     <VerdictBadge verdict={p.passivity} label={p.passivity === "pass" ? "Passive" : "Active"} />
-                    <span className="figures text-[11px] text-muted" title={`at ${formatFrequency(p.maxSingularHz)}`}>
+                    <span className="figures text-[11px] text-muted" title={`at ${formatHz(p.maxSingularHz)}`}>
                       σmax {p.maxSingular.toFixed(4)}
                     </span>
                   </div>
@@ -72,7 +72,7 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
                 <Td>
                   <div className="flex flex-col items-start gap-0.5">
                     <VerdictBadge verdict={p.reciprocity} label={p.reciprocity === "pass" ? "Reciprocal" : "Not reciprocal"} />
-                    <span className="figures text-[11px] text-muted" title={`at ${formatFrequency(p.reciprocityHz)}`}>
+                    <span className="figures text-[11px] text-muted" title={`at ${formatHz(p.reciprocityHz)}`}>
                       max|Sij−Sji| {p.reciprocityError.toExponential(1)}
                     </span>
                   </div>
@@ -143,10 +143,8 @@ function UploadForm({ projectId, onUploaded }: { projectId: string; onUploaded: 
     setPending(true);
     setErrors({});
     try {
-      const response = await fetch(scenarioUrls.parts(projectId), { method: "POST", body: form, credentials: "same-origin" });
-      const body = (await response.json().catch(() => null)) as { part?: PartView; error?: { message: string; fields?: Record<string, string> } } | null;
-      if (!response.ok) throw new ApiError(response.status, "error", body?.error?.message ?? `The server answered ${response.status}.`, body, body?.error?.fields);
-      setDone(`Uploaded ${body?.part?.fileName ?? file.name}: ${body?.part?.ports ?? "?"} ports, ${body?.part?.points ?? "?"} points.`);
+      const { part } = await requestJson<{ part: PartView }>(scenarioUrls.parts(projectId), { method: "POST", body: form });
+      setDone(`Uploaded ${part.fileName}: ${part.ports} ports, ${part.points} points.`);
       setName("");
       if (fileInput.current) fileInput.current.value = "";
       onUploaded();

@@ -1,4 +1,4 @@
-import { formatFrequency } from "@/lib/browser/format";
+import { formatHz } from "@/engine/format";
 
 /** A small inline trace of a part's |S21| (or |S11|) in dB over its frequency range. */
 export function PreviewTrace({ label, hz, db, width = 160, height = 44 }: { label: string; hz: number[]; db: number[]; width?: number; height?: number }) {
@@ -16,7 +16,7 @@ export function PreviewTrace({ label, hz, db, width = 160, height = 44 }: { labe
   const x = (f: number) => pad + ((f - f0) / (f1 - f0)) * (width - 2 * pad);
   const y = (v: number) => pad + ((hi - v) / (hi - lo)) * (height - 2 * pad);
   const points = hz.map((f, k) => `${x(f).toFixed(1)},${y(finite[k]).toFixed(1)}`).join(" ");
-  const description = `${label} in dB from ${formatFrequency(hz[0])} to ${formatFrequency(hz[hz.length - 1])}: between ${lo.toFixed(1)} and ${hi.toFixed(1)} dB`;
+  const description = `${label} in dB from ${formatHz(hz[0])} to ${formatHz(hz[hz.length - 1])}: between ${lo.toFixed(1)} and ${hi.toFixed(1)} dB`;
   return (
     <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-label={description} className="rounded-sm border border-rule bg-paper">
       <title>{description}</title>

@@ -1,7 +1,8 @@
 "use client";
 
 import { elementAt, sName, traceLabel, type SolvedView } from "@/lib/domain/results/results-math";
-import { formatFixed, formatFrequency } from "@/lib/browser/format";
+import { formatHz } from "@/engine/format";
+import { formatFixed } from "@/lib/browser/format";
 import { cn } from "@/components/ui/cn";
 
 export type PortMatrixProps = {
@@ -38,16 +39,16 @@ export function PortMatrix({ view, index, onIndexChange, active, onPick }: PortM
             value={k}
             onChange={(e) => onIndexChange(Number(e.target.value))}
             aria-label="Matrix frequency"
-            aria-valuetext={formatFrequency(view.frequencies[k])}
+            aria-valuetext={formatHz(view.frequencies[k])}
             className="flex-1 accent-[var(--pt-ink)]"
           />
         </label>
         <span className="figures text-sm text-ink" aria-live="off" data-testid="matrix-frequency">
-          {formatFrequency(view.frequencies[k])}
+          {formatHz(view.frequencies[k])}
         </span>
       </div>
       <div className="overflow-x-auto">
-        <table className="border-collapse text-xs" aria-label={`Port matrix |S| in dB at ${formatFrequency(view.frequencies[k])}`}>
+        <table className="border-collapse text-xs" aria-label={`Port matrix |S| in dB at ${formatHz(view.frequencies[k])}`}>
           <thead>
             <tr>
               <th scope="col" className="px-1.5 py-1 text-left font-normal text-muted">

@@ -8,7 +8,8 @@ import { writeCompositeTouchstone } from "@/engine/touchstone";
 import { downloadText as download } from "@/lib/browser/downloads";
 import { fileStem } from "@/lib/domain/scenarios/file-stem";
 import { evaluateQuantity } from "@/lib/browser/expressions";
-import { formatFixed, formatFrequency, formatNumber } from "@/lib/browser/format";
+import { formatHz } from "@/engine/format";
+import { formatFixed, formatNumber } from "@/lib/browser/format";
 import {
   nearestFrequencyIndex,
   solutionToCsv,
@@ -124,7 +125,7 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
   const readout =
     hover === null
       ? "Point at the trace to read a value; click to place a marker."
-      : `${formatFrequency(view.frequencies[hover])} · ${series.map((s) => `${s.label} ${fmt(s.values[hover])} ${unit}`).join(" · ")}`;
+      : `${formatHz(view.frequencies[hover])} · ${series.map((s) => `${s.label} ${fmt(s.values[hover])} ${unit}`).join(" · ")}`;
 
   const addMarkerAt = (hz: number) => setMarkers((m) => (m.includes(hz) ? m : [...m, hz]));
 
@@ -269,7 +270,7 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
                 return (
                   <tr key={hz} className="border-t border-rule">
                     <td className="py-1 font-mono">M{m + 1}</td>
-                    <td className="figures py-1 text-right">{formatFrequency(view.frequencies[k])}</td>
+                    <td className="figures py-1 text-right">{formatHz(view.frequencies[k])}</td>
                     <td className="figures py-1 text-right">{fmt(values[k])}</td>
                     {series.slice(1).map((s) => (
                       <td key={s.label} className="figures py-1 text-right">

@@ -2,7 +2,8 @@
 
 import { useMemo, useRef, useState } from "react";
 import { elementAt, reflectionToImpedance, type SolvedView } from "@/lib/domain/results/results-math";
-import { formatFixed, formatFrequency, formatImpedance } from "@/lib/browser/format";
+import { formatHz } from "@/engine/format";
+import { formatFixed, formatImpedance } from "@/lib/browser/format";
 
 export type SmithChartProps = {
   view: SolvedView;
@@ -137,5 +138,5 @@ function describe(view: SolvedView, points: [number, number][], k: number, z0: n
   const ang = (Math.atan2(im, re) * 180) / Math.PI;
   const [r, x] = reflectionToImpedance(re, im, z0);
   const z = Number.isFinite(r) ? formatImpedance(r, x) : "open (∞)";
-  return `${formatFrequency(view.frequencies[k])} · Γ = ${formatFixed(mag, 4)} ∠ ${formatFixed(ang, 1)}° · Z = ${z}`;
+  return `${formatHz(view.frequencies[k])} · Γ = ${formatFixed(mag, 4)} ∠ ${formatFixed(ang, 1)}° · Z = ${z}`;
 }

@@ -22,9 +22,18 @@ export type TracePlotProps = {
   height?: number;
 };
 
+/**
+ * A palette colour as the canvas needs it (rgb…): the variable holds light-dark(…), which only a colour
+ * property resolves, so it is read through a probe element's computed colour.
+ */
 function cssColour(name: string, fallback: string): string {
   if (typeof window === "undefined") return fallback;
-  const v = getComputedStyle(document.documentElement).getPropertyValue(name).trim();
+  const probe = document.createElement("span");
+  probe.style.color = `var(${name}, ${fallback})`;
+  probe.hidden = true;
+  document.body.appendChild(probe);
+  const v = getComputedStyle(probe).color;
+  probe.remove();
   return v || fallback;
 }
 

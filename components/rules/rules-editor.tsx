@@ -6,24 +6,22 @@ import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { RuleSpec } from "@/engine/types";
 import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components/ui";
-import { SortableTable, type SortColumn } from "@/components/checks/sortable-table";
+import { ApiError, fetchJson, requestJson } from "@/lib/browser/api-client";
+import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
 import { formatBand } from "@/components/helm/parse-input";
 import { RULE_KIND_LABELS, RULE_KINDS } from "@/lib/domain/rules/schema";
 import { EMPTY_RULE_FORM, formFromSpec, ruleFormSchema, specFromForm, type RuleFormValues } from "./rule-form";
 
 export type RuleItem = { id: string; kind: RuleSpec["kind"]; spec: RuleSpec; createdByName: string | null; updatedAt: string };
 
-const fetcher = async <T,>(url: string): Promise<T> => {
-  const res = await fetch(url, { headers: { accept: "application/json" }, credentials: "same-origin" });
-  if (!res.ok) throw new Error(`The server answered ${res.status}.`);
-  return (await res.json()) as T;
-};
-
 async function send(url: string, method: string, body?: unknown): Promise<{ ok: true } | { ok: false; message: string; fields?: Record<string, string> }> {
-  const res = await fetch(url, { method, headers: { "content-type": "application/json", accept: "application/json" }, body: body === undefined ? undefined : JSON.stringify(body), credentials: "same-origin" });
-  if (res.ok) return { ok: true };
-  const json = (await res.json().catch(() => null)) as { error?: { message?: string; fields?: Record<string, string> } } | null;
-  return { ok: false, message: json?.error?.message ?? `The server answered ${res.status}.`, fields: json?.error?.fields };
+  try {
+    await requestJson(url, { method, json: body });
+    return { ok: true };
+  } catch (e) {
+    if (e instanceof ApiError) return { ok: false, message: e.message, fields: e.fields };
+    throw e;
+  }
 }
 
 function describe(spec: RuleSpec): { ports: string; band: string; limit: string } {
@@ -43,7 +41,7 @@ function describe(spec: RuleSpec): { ports: string; band: string; limit: string 
 /** A project's rules: a table for everyone; create, edit and delete for engineers and owners. */
 export function RulesEditor({ projectId, initial, canEdit }: { projectId: string; initial: RuleItem[]; canEdit: boolean }) {
   const url = `/api/projects/${projectId}/rules`;
-  const { data, mutate } = useSWR<{ rules: RuleItem[] }>(url, fetcher, { fallbackData: { rules: initial } });
+  const { data, mutate } = useSWR<{ rules: RuleItem[] }>(url, fetchJson, { fallbackData: { rules: initial } });
   const rules = data?.rules ?? [];
   const [editing, setEditing] = useState<RuleItem | "new" | null>(null);
   const [error, setError] = useState<string | null>(null);

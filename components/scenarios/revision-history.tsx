@@ -3,10 +3,9 @@
 import useSWR from "swr";
 import { useState } from "react";
 import { Alert, Badge, Button, Spinner, Table, TBody, Td, Th, THead, Tr } from "@/components/ui";
-import { fetchJson, requestJson, scenarioUrls } from "./api-client";
+import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import type { RevisionListItem } from "@/lib/domain/scenarios/types";
-
-const when = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone: "UTC" });
+import { formatDate } from "@/lib/base/dates";
 
 const ORIGIN_TEXT: Record<string, string> = { create: "created", save: "saved", restore: "restored", duplicate: "duplicated", seed: "demo", import: "imported from a bundle" };
 
@@ -77,7 +76,7 @@ export function RevisionHistory({
                   ) : null}
                 </Td>
                 <Td className="figures text-xs">
-                  {when.format(new Date(r.createdAt))} UTC · {ORIGIN_TEXT[r.origin] ?? r.origin}
+                  {formatDate(r.createdAt, "second")} · {ORIGIN_TEXT[r.origin] ?? r.origin}
                   {r.restoredFrom ? ` r${r.restoredFrom}` : ""}
                   {r.warnings.length > 0 ? (
                     <Badge tone="warn" className="ml-2" title={r.warnings.join(" ")}>

@@ -6,11 +6,10 @@ import { useState, type FormEvent } from "react";
 import useSWR from "swr";
 import { Alert, Button, ConfirmDialog, EmptyState, Field, Input, Select, Spinner, Table, TBody, Td, Th, THead, Tr, Badge } from "@/components/ui";
 import { SCENARIO_TEMPLATES, type ScenarioTemplate } from "@/lib/base/validation/scenarios";
-import { ApiError, fetchJson, requestJson, scenarioUrls } from "./api-client";
+import { ApiError, fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import { TEMPLATE_LABELS } from "@/lib/domain/scenarios/templates";
 import type { ScenarioListItem } from "@/lib/domain/scenarios/types";
-
-const when = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
+import { formatDate } from "@/lib/base/dates";
 
 type ListResponse = { scenarios: ScenarioListItem[] };
 
@@ -84,7 +83,7 @@ export function ScenarioList({ projectId, initial, canEdit }: { projectId: strin
                 <Td numeric>{item.blockCount}</Td>
                 <Td className="font-mono text-xs">{item.portNames.join(", ") || "—"}</Td>
                 <Td className="figures text-xs text-muted">
-                  {when.format(new Date(item.updatedAt))} UTC{item.updatedByName ? ` · ${item.updatedByName}` : ""}
+                  {formatDate(item.updatedAt)}{item.updatedByName ? ` · ${item.updatedByName}` : ""}
                 </Td>
                 <Td>
                   {canEdit ? (

@@ -2,24 +2,20 @@
 
 import Link from "next/link";
 import { useRouter } from "next/navigation";
-import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { useCallback, useMemo, useState } from "react";
 import useSWR from "swr";
 import { History, Save } from "lucide-react";
-import type { Scenario } from "@/engine/types";
-import { Workspace, type PartSummary, type SaveState } from "@/components/workspace";
+import { Workspace } from "@/components/scenario-editor";
+import type { PartSummary } from "@/lib/browser/scenario-model";
 import { Alert, Button } from "@/components/ui";
 import { ScenarioChecks } from "@/components/checks/scenario-checks";
 import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
-import { ApiError, fetchJson, requestJson, scenarioUrls } from "./api-client";
+import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import { RevisionHistory } from "./revision-history";
+import { useAutosave } from "./use-autosave";
 import type { PartView } from "@/lib/domain/parts/types";
 import type { RevisionView, ScenarioView } from "@/lib/domain/scenarios/types";
-
-/** Wait after the last edit before saving, ms. */
-export const AUTOSAVE_DELAY_MS = 1500;
-
-type Conflict = { revisionId: string; number: number; authorName: string | null; message: string };
 
 export type ScenarioWorkspaceProps = {
   projectId: string;
@@ -38,14 +34,13 @@ export type ScenarioWorkspaceProps = {
  */
 export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: initialParts, readOnly, role }: ScenarioWorkspaceProps) {
   const router = useRouter();
-  const [draft, setDraft] = useState<Scenario>(revision.content);
-  const [base, setBase] = useState<{ id: string; number: number }>({ id: revision.id, number: revision.number });
-  const [saveState, setSaveState] = useState<SaveState>("saved");
-  const [conflict, setConflict] = useState<Conflict | null>(null);
-  const [saveError, setSaveError] = useState<string | null>(null);
-  const [warnings, setWarnings] = useState<string[]>(revision.warnings);
+  const { draft, base, saveState, conflict, saveError, reportError, warnings, generation, edit: onChange, saveNow, loadLatest, forget } = useAutosave({
+    projectId,
+    scenarioId: info.id,
+    revision,
+    readOnly,
+  });
   const [historyOpen, setHistoryOpen] = useState(false);
-  const [workspaceKey, setWorkspaceKey] = useState(0);
   const [busy, setBusy] = useState<"reload" | "fork" | null>(null);
   const [highlight, setHighlight] = useState<{ blocks: string[]; ports: string[] } | null>(null);
   const onHighlight = useCallback((h: ChartHighlight | null) => {
@@ -61,113 +56,12 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
     [partsData],
   );
 
-  // refs so that timers and in-flight saves see the latest values
-  const draftRef = useRef(draft);
-  const baseRef = useRef(base);
-  const dirtyRef = useRef(false);
-  const savingRef = useRef(false);
-  const conflictRef = useRef<Conflict | null>(null);
-  const timer = useRef<number | null>(null);
-  const saveRef = useRef<() => Promise<void>>(async () => undefined);
-
-  const schedule = useCallback(() => {
-    if (timer.current !== null) window.clearTimeout(timer.current);
-    timer.current = window.setTimeout(() => {
-      timer.current = null;
-      void saveRef.current();
-    }, AUTOSAVE_DELAY_MS);
-  }, []);
-
-  const save = useCallback(async () => {
-    if (readOnly || conflictRef.current || savingRef.current || !dirtyRef.current) return;
-    savingRef.current = true;
-    const sent = draftRef.current;
-    setSaveState("saving");
-    try {
-      const { revision: saved } = await requestJson<{ revision: RevisionView }>(scenarioUrls.revisions(projectId, info.id), {
-        method: "POST",
-        json: { baseRevisionId: baseRef.current.id, scenario: sent },
-      });
-      baseRef.current = { id: saved.id, number: saved.number };
-      setBase(baseRef.current);
-      setWarnings(saved.warnings);
-      setSaveError(null);
-      dirtyRef.current = draftRef.current !== sent;
-      setSaveState(dirtyRef.current ? "unsaved" : "saved");
-    } catch (e) {
-      if (e instanceof ApiError && e.status === 409) {
-        const current = (e.body as { current?: { revisionId: string; number: number; authorName: string | null } } | null)?.current;
-        const c: Conflict = { revisionId: current?.revisionId ?? "", number: current?.number ?? 0, authorName: current?.authorName ?? null, message: e.message };
-        conflictRef.current = c;
-        setConflict(c);
-        setSaveState("conflict");
-      } else {
-        setSaveError(e instanceof Error ? e.message : String(e));
-        setSaveState("error");
-      }
-    } finally {
-      savingRef.current = false;
-    }
-    // edits made while the save was under way go out next
-    if (dirtyRef.current && !conflictRef.current) schedule();
-  }, [info.id, projectId, readOnly, schedule]);
-
-  useEffect(() => {
-    saveRef.current = save;
-  }, [save]);
-
-  useEffect(
-    () => () => {
-      if (timer.current !== null) window.clearTimeout(timer.current);
-    },
-    [],
-  );
-
-  const onChange = useCallback(
-    (next: Scenario) => {
-      if (readOnly) return;
-      draftRef.current = next;
-      dirtyRef.current = true;
-      setDraft(next);
-      if (conflictRef.current) return; // keep the edits; the banner decides what happens to them
-      setSaveState("unsaved");
-      schedule();
-    },
-    [readOnly, schedule],
-  );
-
-  // leaving with unsaved edits asks first
-  useEffect(() => {
-    const onBeforeUnload = (event: BeforeUnloadEvent) => {
-      if (!dirtyRef.current) return;
-      event.preventDefault();
-    };
-    window.addEventListener("beforeunload", onBeforeUnload);
-    return () => window.removeEventListener("beforeunload", onBeforeUnload);
-  }, []);
-
-  /** Replace the edits with the latest saved revision (after a conflict or a restore). */
-  const loadLatest = useCallback(async () => {
-    const latest = await requestJson<{ scenario: ScenarioView; revision: RevisionView }>(scenarioUrls.one(projectId, info.id));
-    draftRef.current = latest.revision.content;
-    dirtyRef.current = false;
-    baseRef.current = { id: latest.revision.id, number: latest.revision.number };
-    conflictRef.current = null;
-    setDraft(latest.revision.content);
-    setBase(baseRef.current);
-    setWarnings(latest.revision.warnings);
-    setConflict(null);
-    setSaveError(null);
-    setSaveState("saved");
-    setWorkspaceKey((k) => k + 1); // a fresh undo history: the old one describes discarded edits
-  }, [info.id, projectId]);
-
   const reload = async () => {
     setBusy("reload");
     try {
       await loadLatest();
     } catch (e) {
-      setSaveError(e instanceof Error ? e.message : String(e));
+      reportError(e instanceof Error ? e.message : String(e));
     } finally {
       setBusy(null);
     }
@@ -179,20 +73,14 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
       const name = `${info.name} (my edits)`;
       const created = await requestJson<{ scenario: { id: string } }>(scenarioUrls.list(projectId), {
         method: "POST",
-        json: { name, scenario: { ...draftRef.current, name } },
+        json: { name, scenario: { ...draft, name } },
       });
-      dirtyRef.current = false;
+      forget();
       router.push(`/projects/${projectId}/scenarios/${created.scenario.id}`);
     } catch (e) {
-      setSaveError(e instanceof Error ? e.message : String(e));
+      reportError(e instanceof Error ? e.message : String(e));
       setBusy(null);
     }
-  };
-
-  const saveNow = () => {
-    if (timer.current !== null) window.clearTimeout(timer.current);
-    timer.current = null;
-    void save();
   };
 
   const toolbarExtras = (
@@ -262,7 +150,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
         />
       ) : null}
       <div className="min-h-[680px] 2xl:h-[calc(100vh-13rem)]">
-        <Workspace key={workspaceKey} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} />
+        <Workspace key={generation} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} />
       </div>
       <ScenarioChecks
         projectId={projectId}

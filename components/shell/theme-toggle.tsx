@@ -1,6 +1,6 @@
 "use client";
 
-import { useEffect, useState } from "react";
+import { useSyncExternalStore } from "react";
 import { Monitor, Moon, Sun } from "lucide-react";
 import { cn } from "@/components/ui/cn";
 import { THEME_STORAGE_KEY } from "./theme-script";
@@ -23,16 +23,22 @@ function applyTheme(choice: ThemeChoice) {
   }
 }
 
+function subscribeToTheme(onChange: () => void): () => void {
+  const observer = new MutationObserver(onChange);
+  observer.observe(document.documentElement, { attributes: true, attributeFilter: ["data-theme"] });
+  return () => observer.disconnect();
+}
+
+function readTheme(): ThemeChoice {
+  const t = document.documentElement.dataset.theme;
+  return t === "light" || t === "dark" ? t : "system";
+}
+
 /** Cycles system → light → dark. */
 export function ThemeToggle({ className }: { className?: string }) {
-  const [choice, setChoice] = useState<ThemeChoice>("system");
-
-  useEffect(() => {
-    const t = document.documentElement.dataset.theme;
-    // Reading the DOM once after mount: the server cannot know the stored choice.
-    // eslint-disable-next-line react-hooks/set-state-in-effect
-    if (t === "light" || t === "dark") setChoice(t);
-  }, []);
+  // the choice lives on <html data-theme> (set before first paint by the boot script); the server
+  // cannot know it and renders "system"
+  const choice = useSyncExternalStore(subscribeToTheme, readTheme, () => "system" as const);
 
   const Icon = choice === "light" ? Sun : choice === "dark" ? Moon : Monitor;
   const next = order[(order.indexOf(choice) + 1) % order.length];
@@ -42,7 +48,6 @@ export function ThemeToggle({ className }: { className?: string }) {
       type="button"
       onClick={() => {
         applyTheme(next);
-        setChoice(next);
       }}
       title={`${labels[choice]} (switch to ${next})`}
       aria-label={`${labels[choice]}. Switch to ${next}.`}

@@ -2,7 +2,7 @@
 
 import { useState } from "react";
 import { useRouter } from "next/navigation";
-import { ApiError, requestJson } from "@/components/scenarios/api-client";
+import { ApiError, requestJson } from "@/lib/browser/api-client";
 import { Alert, Button, Field, Input } from "@/components/ui";
 import { signoffUrls } from "./types";
 

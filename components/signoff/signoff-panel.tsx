@@ -3,11 +3,12 @@
 import { useState } from "react";
 import useSWR from "swr";
 import { Download } from "lucide-react";
-import { ApiError, fetchJson, requestJson } from "@/components/scenarios/api-client";
+import { ApiError, fetchJson, requestJson } from "@/lib/browser/api-client";
 import { Alert, Button, Card, CardBody, CardDescription, CardHeader, CardTitle, Field, Textarea, buttonClassName } from "@/components/ui";
 import { can, type Role } from "@/lib/base/permission-table";
 import { SignoffStateBadge } from "./signoff-state-badge";
 import { signoffUrls, type SignoffItem } from "./types";
+import { formatDate } from "@/lib/base/dates";
 
 type Member = { userId: string; email: string; name: string; role: Role };
 
@@ -19,8 +20,6 @@ export type SignoffPanelProps = {
   /** the user's role in the project (the server decides; this only hides controls) */
   role: Role;
 };
-
-const when = new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
 
 function DecisionForm({ projectId, signoff, onDone }: { projectId: string; signoff: SignoffItem; onDone: () => void }) {
   const [comment, setComment] = useState("");
@@ -169,8 +168,8 @@ export function SignoffPanel({ projectId, scenarioId, userId, role }: SignoffPan
                 <SignoffStateBadge signoff={s} />
               </div>
               <p className="mt-1 text-xs text-muted">
-                Requested by {s.requestedBy?.name ?? "a former member"} on {when.format(new Date(s.createdAt))} UTC
-                {s.decidedAt ? `; decided ${when.format(new Date(s.decidedAt))} UTC` : ""}
+                Requested by {s.requestedBy?.name ?? "a former member"} on {formatDate(s.createdAt)}
+                {s.decidedAt ? `; decided ${formatDate(s.decidedAt)}` : ""}
               </p>
               {s.requestNote ? <p className="mt-1 text-sm">Note: {s.requestNote}</p> : null}
               {s.comment ? <p className="mt-1 text-sm">Comment: {s.comment}</p> : null}

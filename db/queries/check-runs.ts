@@ -6,15 +6,15 @@ import type { Verdict } from "@/engine/checks";
 import type { CheckName } from "@/lib/domain/checks/inputs";
 import type { CheckFigures, CheckRunSummary, CheckRunView } from "@/lib/domain/checks/types";
 import { AppError } from "@/lib/base/errors";
-import { authorize } from "@/lib/server/permissions";
-import { getScenario } from "./scenarios";
+import { allow, type ProjectAccess } from "@/lib/server/permissions";
+import { requireScenarioRow } from "./revisions";
 
 /** Store one run (the caller has authorised check.run and computed the outcome). */
 export async function insertCheckRun(
   run: { id: string; scenarioId: string; revisionId: string; userId: string; check: CheckName; inputs: Record<string, unknown>; verdict: Verdict; figures: CheckFigures },
   executor: Executor = db,
 ): Promise<void> {
-  await executor.insert(checkRuns).values({ ...run, figures: run.figures as unknown as Record<string, unknown> });
+  await executor.insert(checkRuns).values(run);
 }
 
 const runColumns = {
@@ -50,8 +50,9 @@ function toView(row: RunRow): CheckRunView {
 }
 
 /** A scenario's check runs, newest first, without their figures (anyone in the project). */
-export async function listCheckRuns({ userId, projectId, scenarioId, limit = 50 }: { userId: string; projectId: string; scenarioId: string; limit?: number }): Promise<CheckRunSummary[]> {
-  await getScenario({ userId, projectId, scenarioId }); // authorises scenario.read and 404s a foreign scenario
+export async function listCheckRuns({ access, scenarioId, limit = 50 }: { access: ProjectAccess; scenarioId: string; limit?: number }): Promise<CheckRunSummary[]> {
+  allow(access, "scenario.read");
+  await requireScenarioRow(db, { projectId: access.projectId, scenarioId }); // 404s a foreign scenario
   const rows = await db
     .select(runColumns)
     .from(checkRuns)
@@ -69,9 +70,9 @@ export async function listCheckRuns({ userId, projectId, scenarioId, limit = 50 
 }
 
 /** One run with its figures (anyone in the project). */
-export async function getCheckRun({ userId, projectId, scenarioId, runId }: { userId: string; projectId: string; scenarioId: string; runId: string }): Promise<CheckRunView> {
-  await authorize({ userId, projectId, action: "scenario.read" });
-  await getScenario({ userId, projectId, scenarioId });
+export async function getCheckRun({ access, scenarioId, runId }: { access: ProjectAccess; scenarioId: string; runId: string }): Promise<CheckRunView> {
+  allow(access, "scenario.read");
+  await requireScenarioRow(db, { projectId: access.projectId, scenarioId }); // 404s a foreign scenario
   const [row] = await db
     .select(runColumns)
     .from(checkRuns)

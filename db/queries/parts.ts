@@ -5,7 +5,6 @@ import { db, runInTransaction, type Executor } from "@/db/client";
 import { parts, scenarioRevisions, scenarios, type Part } from "@/db/schema";
 import { parseTouchstone, TouchstoneError, type TouchstoneData } from "@/engine/touchstone";
 import { parseTouchstoneCached } from "@/engine/system";
-import type { Scenario } from "@/engine/types";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
@@ -139,7 +138,7 @@ export async function scenariosUsingPart({ projectId, fileName, executor = db }:
     .orderBy(asc(scenarios.name));
   const file = `parts/${fileName}`;
   return rows
-    .filter((r) => ((r.content as unknown as Scenario).blocks ?? []).some((b) => b.kind === "touchstone" && b.file === file && b.data === undefined))
+    .filter((r) => (r.content.blocks ?? []).some((b) => b.kind === "touchstone" && b.file === file && b.data === undefined))
     .map((r) => r.name);
 }
 

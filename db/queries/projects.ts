@@ -5,7 +5,7 @@ import { db, runInTransaction } from "@/db/client";
 import { memberships, projects, type Project, type Role } from "@/db/schema";
 import { recordAudit } from "@/lib/server/audit";
 import { AppError } from "@/lib/base/errors";
-import { authorize, getRole } from "@/lib/server/permissions";
+import { allow, authorize, getRole, type ProjectAccess } from "@/lib/server/permissions";
 import type { SessionUser } from "@/lib/server/auth/session";
 
 export type ProjectWithRole = Pick<Project, "id" | "name" | "description" | "createdAt" | "updatedAt"> & { role: Role };
@@ -38,6 +38,14 @@ export async function getProjectForUser({ projectId, userId }: { projectId: stri
   // getRole applies an API token's project scope and role ceiling (lib/server/auth/token-scope.ts).
   const role = row ? await getRole({ userId, projectId }) : null;
   if (!row || !role) throw new AppError("not_found", 404, "Project not found.");
+  return { ...row, role };
+}
+
+/** One project with the role of access resolved by the caller (project.read is checked against it). */
+export async function loadProject(access: ProjectAccess): Promise<ProjectWithRole> {
+  const role = allow(access, "project.read");
+  const [row] = await db.select(projectColumns).from(projects).where(eq(projects.id, access.projectId));
+  if (!row) throw new AppError("not_found", 404, "Project not found.");
   return { ...row, role };
 }
 

@@ -86,7 +86,7 @@ export async function insertRevision(
     id,
     scenarioId,
     number,
-    content: stored as unknown as Record<string, unknown>,
+    content: stored,
     contentHash,
     warnings,
     origin,
@@ -121,7 +121,7 @@ export async function loadRevision(executor: Executor, { scenarioId, revisionId 
     .leftJoin(users, eq(users.id, scenarioRevisions.authorId))
     .where(and(eq(scenarioRevisions.id, revisionId), eq(scenarioRevisions.scenarioId, scenarioId)));
   if (!row) throw new AppError("not_found", 404, "Revision not found.");
-  return { ...row, content: row.content as unknown as Scenario };
+  return row;
 }
 
 /** A save that started from an older revision than the latest. */

@@ -27,7 +27,7 @@ async function selectRules(executor: Executor, projectId: string): Promise<RuleV
     .where(eq(rules.projectId, projectId))
     // insertion order breaks ties between rules created in the same millisecond (the demo seed)
     .orderBy(asc(rules.createdAt), asc(sql`${rules}.rowid`));
-  return rows.map((r) => ({ ...r, kind: r.kind as RuleSpec["kind"], spec: r.spec as unknown as RuleSpec }));
+  return rows.map((r) => ({ ...r, spec: r.spec }));
 }
 
 /** The project's rules, oldest first (anyone in the project). */
@@ -65,7 +65,7 @@ export async function createRule({ actor, projectId, spec }: { actor: SessionUse
     await authorize({ userId: actor.id, projectId, action: "rule.edit", executor: tx });
     await assertNameFree(tx, projectId, spec.id);
     const id = randomUUID();
-    await tx.insert(rules).values({ id, projectId, kind: spec.kind, spec: spec as unknown as Record<string, unknown>, createdBy: actor.id });
+    await tx.insert(rules).values({ id, projectId, kind: spec.kind, spec, createdBy: actor.id });
     await recordAudit(tx, { actor, projectId, action: "rule.create", target: spec.id ?? spec.kind, detail: { ruleId: id, spec } });
     return viewOf(tx, projectId, id);
   });
@@ -77,7 +77,7 @@ export async function updateRule({ actor, projectId, ruleId, spec }: { actor: Se
     await authorize({ userId: actor.id, projectId, action: "rule.edit", executor: tx });
     const before = await requireRule(tx, projectId, ruleId);
     await assertNameFree(tx, projectId, spec.id, ruleId);
-    await tx.update(rules).set({ kind: spec.kind, spec: spec as unknown as Record<string, unknown>, updatedAt: new Date() }).where(eq(rules.id, ruleId));
+    await tx.update(rules).set({ kind: spec.kind, spec, updatedAt: new Date() }).where(eq(rules.id, ruleId));
     await recordAudit(tx, { actor, projectId, action: "rule.update", target: spec.id ?? spec.kind, detail: { ruleId, from: before.spec, to: spec } });
     return viewOf(tx, projectId, ruleId);
   });
@@ -89,6 +89,6 @@ export async function deleteRule({ actor, projectId, ruleId }: { actor: SessionU
     await authorize({ userId: actor.id, projectId, action: "rule.edit", executor: tx });
     const before = await requireRule(tx, projectId, ruleId);
     await tx.delete(rules).where(eq(rules.id, ruleId));
-    await recordAudit(tx, { actor, projectId, action: "rule.delete", target: (before.spec as { id?: string }).id ?? before.kind, detail: { ruleId, spec: before.spec } });
+    await recordAudit(tx, { actor, projectId, action: "rule.delete", target: before.spec.id ?? before.kind, detail: { ruleId, spec: before.spec } });
   });
 }

@@ -3,11 +3,10 @@ import { randomUUID } from "node:crypto";
 import { asc, eq } from "drizzle-orm";
 import { db, runInTransaction } from "@/db/client";
 import { scenarioRevisions, scenarios, users, type Role } from "@/db/schema";
-import type { Scenario } from "@/engine/types";
 import { scenarioFromTemplate } from "@/lib/domain/scenarios/templates";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
-import { authorize } from "@/lib/server/permissions";
+import { allow, authorize, resolveAccess, type ProjectAccess } from "@/lib/server/permissions";
 import type { DraftScenario, ScenarioTemplate } from "@/lib/base/validation/scenarios";
 import { insertRevision, loadRevision, requireScenarioRow, type RevisionDetail } from "./revisions";
 
@@ -67,8 +66,7 @@ export async function listScenarios({ userId, projectId }: { userId: string; pro
     .leftJoin(users, eq(users.id, scenarioRevisions.authorId))
     .where(eq(scenarios.projectId, projectId))
     .orderBy(asc(scenarios.name));
-  return rows.map(({ content, warnings, ...row }) => {
-    const scenario = content as unknown as Scenario | null;
+  return rows.map(({ content: scenario, warnings, ...row }) => {
     return {
       ...row,
       blockCount: scenario?.blocks?.length ?? 0,
@@ -90,8 +88,16 @@ export async function getScenario({
   scenarioId: string;
   revisionId?: string;
 }): Promise<{ scenario: ScenarioInfo; revision: RevisionDetail; role: Role }> {
-  const role = await authorize({ userId, projectId, action: "scenario.read" });
-  const row = await requireScenarioRow(db, { projectId, scenarioId });
+  return loadScenario(await resolveAccess({ userId, projectId }), { scenarioId, revisionId });
+}
+
+/** As getScenario, with the caller's access already resolved (scenario.read is checked against it). */
+export async function loadScenario(
+  access: ProjectAccess,
+  { scenarioId, revisionId }: { scenarioId: string; revisionId?: string },
+): Promise<{ scenario: ScenarioInfo; revision: RevisionDetail; role: Role }> {
+  const role = allow(access, "scenario.read");
+  const row = await requireScenarioRow(db, { projectId: access.projectId, scenarioId });
   const revision = await loadRevision(db, { scenarioId, revisionId: revisionId ?? row.latestRevisionId ?? "" });
   return { scenario: info(row), revision: { ...revision, content: { ...revision.content, name: row.name } }, role };
 }

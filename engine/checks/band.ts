@@ -1,4 +1,5 @@
 // Selection of plan points inside a band (inclusive edges with a relative tolerance) and port lookup.
+import { formatHz } from "../format";
 import { EngineInputError } from "../types";
 import type { Solution } from "../types";
 
@@ -62,13 +63,5 @@ export function portIndex(solution: Pick<Solution, "ports">, name: string, where
   return i;
 }
 
-/**
- * A frequency in engineering form, e.g. "2.45 GHz".
- * @example formatHz(2.45e9) // "2.45 GHz"
- */
-export function formatHz(hz: number): string {
-  if (!Number.isFinite(hz)) return `${hz} Hz`;
-  const a = Math.abs(hz);
-  const [scale, unit] = a >= 1e9 ? [1e9, "GHz"] : a >= 1e6 ? [1e6, "MHz"] : a >= 1e3 ? [1e3, "kHz"] : [1, "Hz"];
-  return `${Number((hz / scale).toPrecision(6))} ${unit}`;
-}
+/** Check messages write frequencies with the engine's one formatter (engine/format.ts). */
+export { formatHz };

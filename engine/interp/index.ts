@@ -1,2 +1,2 @@
 /** Interpolation of part data onto a scenario's frequency plan (linear in real and imaginary parts). */
-export { interpolateS, formatHz, type InterpolateOptions, type InterpolateResult } from "./linear";
+export { interpolateS, type InterpolateOptions, type InterpolateResult } from "./linear";

@@ -1,5 +1,6 @@
 // Piecewise-linear interpolation of real and imaginary parts between neighbouring data points (the default
 // of the reference library scikit-rf 0.15.4, Network.interpolate with coords='cart' and scipy's linear interp1d).
+import { formatHz } from "../format";
 import { EngineInputError, type SData } from "../types";
 
 export type InterpolateOptions = {
@@ -66,8 +67,8 @@ export function interpolateS(s: SData, from: Float64Array, to: Float64Array, opt
   if ((below > 0 || above > 0) && opts.extrapolate !== "hold") {
     throw new EngineInputError(
       name,
-      `the frequency plan spans ${formatHz(planMin)} to ${formatHz(planMax)} but part "${name}" has data only from ` +
-        `${formatHz(lo)} to ${formatHz(hi)} (plan points: ${below} below, ${above} above); ` +
+      `the frequency plan spans ${formatHz(planMin, 10)} to ${formatHz(planMax, 10)} but part "${name}" has data only from ` +
+        `${formatHz(lo, 10)} to ${formatHz(hi, 10)} (plan points: ${below} below, ${above} above); ` +
         `extend the data, narrow the plan, or allow holding the edge values (extrapolate: "hold")`,
     );
   }
@@ -118,11 +119,4 @@ function searchInterval(from: Float64Array, f: number): number {
     else hi = mid;
   }
   return lo;
-}
-
-/** "2.45 GHz"-style text for messages. */
-export function formatHz(f: number): string {
-  const a = Math.abs(f);
-  const [scale, unit] = a >= 1e9 ? [1e9, "GHz"] : a >= 1e6 ? [1e6, "MHz"] : a >= 1e3 ? [1e3, "kHz"] : [1, "Hz"];
-  return `${Number((f / scale).toPrecision(10))} ${unit}`;
 }

@@ -25,15 +25,5 @@ export function linkName(sys: PreparedSystem, p: number, q: number): string {
   return `${portName(sys, p)}–${portName(sys, q)}`;
 }
 
-/**
- * A frequency in engineering form for messages, e.g. "2.45 GHz".
- *
- * @example formatHz(2.45e9) // "2.45 GHz"
- */
-export function formatHz(f: number): string {
-  const a = Math.abs(f);
-  if (a >= 1e9) return `${+(f / 1e9).toPrecision(6)} GHz`;
-  if (a >= 1e6) return `${+(f / 1e6).toPrecision(6)} MHz`;
-  if (a >= 1e3) return `${+(f / 1e3).toPrecision(6)} kHz`;
-  return `${+f.toPrecision(6)} Hz`;
-}
+/** Messages of the interconnection write frequencies with the engine's one formatter. */
+export { formatHz } from "../format";

@@ -3,6 +3,7 @@
  * referenced to the system Z0, links and system ports resolved to global block-port indices.
  */
 import { evaluateBlock } from "../blocks";
+import { formatHz } from "../format";
 import { interpolateS } from "../interp";
 import { renormalize, z0Vector } from "../renorm";
 import { placeBlockError } from "../scenario/block-errors";
@@ -26,13 +27,6 @@ export type PrepareOptions = PartSource & {
   /** for the size estimate: whether the solve will keep wave maps for internal waves (default true) */
   waves?: boolean;
 };
-
-function formatHz(f: number): string {
-  if (f >= 1e9) return `${+(f / 1e9).toPrecision(6)} GHz`;
-  if (f >= 1e6) return `${+(f / 1e6).toPrecision(6)} MHz`;
-  if (f >= 1e3) return `${+(f / 1e3).toPrecision(6)} kHz`;
-  return `${+f.toPrecision(6)} Hz`;
-}
 
 function sameReferences(z0: Float64Array, target: number): boolean {
   for (let p = 0; p < z0.length; p += 2) if (z0[p] !== target || z0[p + 1] !== 0) return false;

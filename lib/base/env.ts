@@ -2,7 +2,7 @@ import "server-only";
 import { z } from "zod";
 import { isLoopbackUrl, originPolicyFromEnv } from "./origins";
 
-// Read once; every other module imports `env` instead of touching process.env.
+// Read once; every other module calls getEnv() instead of touching process.env.
 const optionalFlag = z
   .enum(["1", "0", "true", "false", "yes", "no", "on", "off", ""])
   .optional()
@@ -96,9 +96,3 @@ export function getEnv(): Env {
   cached ??= parseEnv(process.env);
   return cached;
 }
-
-export const env: Env = new Proxy({} as Env, {
-  get(_target, key: string) {
-    return getEnv()[key as keyof Env];
-  },
-});

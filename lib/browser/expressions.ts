@@ -91,13 +91,6 @@ export function quantityForParam(name: string, unit?: string, kind?: string): Qu
   return "number";
 }
 
-/** The unit label shown beside a field. */
-export function unitLabel(q: Quantity): string {
-  if (q === "ohm" || q === "impedance") return "Ω";
-  if (q === "number" || q === "integer") return "";
-  return q;
-}
-
 const IDENTIFIER = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
 /** Why `name` cannot be a variable name (null when it can). */

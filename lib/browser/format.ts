@@ -1,6 +1,7 @@
 /**
  * Number formatting for the workspace: figures with SI prefixes, dB and degrees, with a real minus sign
- * so that columns of tabular figures line up.
+ * so that columns of tabular figures line up. Frequencies are written by `formatHz` (engine/format.ts),
+ * the same formatter as the engine's messages.
  */
 
 const PREFIXES: [number, string][] = [
@@ -37,11 +38,6 @@ export function formatSi(value: number, unit: string, digits = 4): string {
   return `${formatNumber(value / scale, digits)} ${prefix}${unit}`.trim();
 }
 
-/** A frequency in Hz with a prefix: 2.45e9 → "2.45 GHz". */
-export function formatFrequency(hz: number, digits = 5): string {
-  return formatSi(hz, "Hz", digits);
-}
-
 /** A fixed-decimals figure with a real minus sign: formatFixed(-3.0103, 2) → "−3.01". */
 export function formatFixed(value: number, decimals = 2): string {
   if (Number.isNaN(value)) return "—";
@@ -52,10 +48,6 @@ export function formatFixed(value: number, decimals = 2): string {
 
 export function formatDb(value: number, decimals = 2): string {
   return `${formatFixed(value, decimals)} dB`;
-}
-
-export function formatDeg(value: number, decimals = 1): string {
-  return `${formatFixed(value, decimals)}°`;
 }
 
 /** Complex impedance in Ω: "50 + j12.3 Ω". */

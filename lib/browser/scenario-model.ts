@@ -48,8 +48,6 @@ const ID_STEMS: Record<BlockKind, string> = {
   touchstone: "PART",
 };
 
-export const BLOCK_KINDS = Object.keys(ID_STEMS) as BlockKind[];
-
 /** Parses "BLOCK:PORT" (PORT 1-based); null when malformed. Block ids may not contain ':'. */
 export function parsePortRef(ref: PortRef): PortAddress | null {
   const at = ref.lastIndexOf(":");

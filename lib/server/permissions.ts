@@ -33,9 +33,33 @@ async function getMemberRole({ userId, projectId, executor }: { userId: string; 
 }
 
 /**
- * Check on the server that `userId` may do `action` in `projectId` and return their role.
- * Throws 404 when the user is not a member, so a project's existence is not revealed, and 403 when
- * the user is a member whose role does not allow the action.
+ * A member's access to one project, resolved once per use case: a route resolves it with
+ * `resolveAccess` and hands it to the loaders it calls, which check their action against the role with
+ * `allow` (no further query). Only `resolveAccess` makes one.
+ */
+export type ProjectAccess = { readonly userId: string; readonly projectId: string; readonly role: Role };
+
+/** The user's access to the project. Throws 404 when they are not a member, so a project's existence is not revealed. */
+export async function resolveAccess({ userId, projectId, executor }: { userId: string; projectId: string; executor?: Executor }): Promise<ProjectAccess> {
+  const role = await getRole({ userId, projectId, executor });
+  if (!role) throw new AppError("not_found", 404, "Project not found.");
+  return { userId, projectId, role };
+}
+
+/** Check that resolved access allows `action` (403 otherwise) and return the role. */
+export function allow(access: ProjectAccess, action: Action): Role {
+  if (!can(access.role, action)) {
+    throw new AppError("forbidden", 403, `Your role (${access.role}) does not allow this (${action}).`);
+  }
+  if (currentTokenScope()?.ceiling === "read" && !READ_ONLY_ACTIONS.has(action)) {
+    throw new AppError("forbidden", 403, `This API token is read-only and does not allow this (${action}).`);
+  }
+  return access.role;
+}
+
+/**
+ * Check on the server that `userId` may do `action` in `projectId` and return their role: 404 when the
+ * user is not a member, 403 when their role does not allow the action (resolveAccess + allow).
  */
 export async function authorize({
   userId,
@@ -48,13 +72,5 @@ export async function authorize({
   action: Action;
   executor?: Executor;
 }): Promise<Role> {
-  const role = await getRole({ userId, projectId, executor });
-  if (!role) throw new AppError("not_found", 404, "Project not found.");
-  if (!can(role, action)) {
-    throw new AppError("forbidden", 403, `Your role (${role}) does not allow this (${action}).`);
-  }
-  if (currentTokenScope()?.ceiling === "read" && !READ_ONLY_ACTIONS.has(action)) {
-    throw new AppError("forbidden", 403, `This API token is read-only and does not allow this (${action}).`);
-  }
-  return role;
+  return allow(await resolveAccess({ userId, projectId, executor }), action);
 }

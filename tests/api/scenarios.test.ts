@@ -326,7 +326,8 @@ describe("server solve", () => {
   it("Touchstone and CSV downloads name the revision; an unsolvable revision is a 422 with the engine's message", async () => {
     const ts = await solve("?format=touchstone");
     expect(ts.status).toBe(200);
-    expect(ts.headers.get("content-disposition")).toMatch(/Solved-r1\.s2p/);
+    // one file stem for every file named after a scenario (lib/domain/scenarios/file-stem.ts): lower case, dashes
+    expect(ts.headers.get("content-disposition")).toMatch(/"solved-r1\.s2p"/);
     const text = await ts.text();
     expect(text).toMatch(/^# Hz S RI R 50/m);
     const csv = await solve("?format=csv");

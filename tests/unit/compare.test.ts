@@ -1,7 +1,7 @@
 // diffScenarios: what differs between two scenarios in what the engine reads. Expected values are worked
 // out by hand from the two inputs of each case (the diff is set arithmetic on ids, link pairs and fields).
 import { describe, expect, it } from "vitest";
-import { diffScenarios } from "@/components/compare/diff-scenarios";
+import { diffScenarios } from "@/lib/domain/scenarios/diff";
 import type { Scenario } from "@/engine/types";
 
 const base: Scenario = {

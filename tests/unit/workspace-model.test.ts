@@ -19,7 +19,7 @@ import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
 import { createHistory, recordEdit, redo, undo, HISTORY_LIMIT } from "@/lib/browser/history";
 import { placePorts } from "@/components/chart/port-layout";
 
-// Port counts and numbering: DESIGN.md "Block kinds and port numbering".
+// Port counts and numbering: docs/blocks.md (the engine catalogue, engine/blocks/catalogue.ts).
 
 function empty(): Scenario {
   return { format: "portolan.scenario/1", name: "t", z0: 50, frequency: { start: 2.3e9, stop: 2.6e9, points: 31 }, blocks: [], links: [], ports: [] };
@@ -209,7 +209,7 @@ describe("scenarioForEngine", () => {
 
 describe("port placement on the block cards", () => {
   it("places every port of every kind exactly once, inside its side", () => {
-    // port counts of DESIGN.md "Block kinds and port numbering"; switch and array over a range of sizes
+    // port counts of docs/blocks.md; switch and array over a range of sizes
     const cases: [Parameters<typeof placePorts>[0], number][] = [
       ["load", 1], ["antenna", 1], ["attenuator", 2], ["line", 2], ["filter", 2], ["amplifier", 2],
       ["splitter", 3], ["tee", 3], ["circulator", 3], ["coupler", 4], ["hybrid90", 4], ["hybrid180", 4],
@@ -223,7 +223,7 @@ describe("port placement on the block cards", () => {
   });
 
   it("puts inputs on the left and outputs on the right", () => {
-    // amplifier 1 in, 2 out; splitter 1 common; switch 1 common (DESIGN.md)
+    // amplifier 1 in, 2 out; splitter 1 common; switch 1 common (docs/blocks.md)
     expect(placePorts("amplifier", 2).find((p) => p.port === 1)?.side).toBe("left");
     expect(placePorts("amplifier", 2).find((p) => p.port === 2)?.side).toBe("right");
     expect(placePorts("splitter", 3).filter((p) => p.side === "right").map((p) => p.port)).toEqual([2, 3]);

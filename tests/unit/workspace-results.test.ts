@@ -9,7 +9,8 @@ import {
   solutionToCsv,
   unwrapRadians,
 } from "@/lib/domain/results/results-math";
-import { formatDb, formatFrequency } from "@/lib/browser/format";
+import { formatHz } from "@/engine/format";
+import { formatDb } from "@/lib/browser/format";
 
 const C0 = 299_792_458; // m/s, exact (SI Brochure, 9th ed., 2.3.1)
 
@@ -103,7 +104,7 @@ describe("CSV export", () => {
 
 describe("formatting", () => {
   it("uses SI prefixes and a real minus sign", () => {
-    expect(formatFrequency(2.45e9)).toBe("2.45 GHz");
+    expect(formatHz(2.45e9)).toBe("2.45 GHz");
     expect(formatDb(-3.0103)).toBe("\u22123.01 dB");
   });
 });

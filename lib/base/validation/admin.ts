@@ -6,9 +6,7 @@ export type SignupMode = (typeof SIGNUP_MODES)[number];
 export const updateSettingsSchema = z.object({
   signupMode: z.enum(SIGNUP_MODES, { error: "Choose open or invite." }),
 });
-export type UpdateSettingsInput = z.infer<typeof updateSettingsSchema>;
 
 export const updateUserSchema = z.object({
   isSiteAdmin: z.boolean({ error: "isSiteAdmin must be true or false." }),
 });
-export type UpdateUserInput = z.infer<typeof updateUserSchema>;

@@ -29,7 +29,6 @@ export const createScenarioSchema = z.object({
   /** Content to start from instead of a template ("save as new scenario" after a conflict). */
   scenario: draftScenarioSchema.optional(),
 });
-export type CreateScenarioInput = z.infer<typeof createScenarioSchema>;
 
 export const renameScenarioSchema = z.object({ name: scenarioNameSchema });
 
@@ -39,7 +38,6 @@ export const saveRevisionSchema = z.object({
   baseRevisionId: idSchema,
   scenario: draftScenarioSchema,
 });
-export type SaveRevisionInput = z.infer<typeof saveRevisionSchema>;
 
 export const solveQuerySchema = z.object({
   format: z.enum(["json", "touchstone", "csv"], { error: "Choose format json, touchstone or csv." }).default("json"),

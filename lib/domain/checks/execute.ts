@@ -26,6 +26,12 @@ function ruleHeadline(r: RuleResult): string {
   return `${r.id}: worst ${r.quantity} ${r.worst.toFixed(2)} ${r.unit}${r.direction ? ` (${r.direction})` : ""} at ${formatHz(r.worstHz)}, margin ${signed(r.margin)} ${r.unit === "dBm" ? "dB" : r.unit}`;
 }
 
+/** A one-rule check: the rule's verdict, with its worst point and margin as the headline. */
+function ruleOutcome(solution: Solution, rule: RuleSpec): { verdict: Verdict; figures: { headline: string; result: RuleResult } } {
+  const result = evaluateRule(solution, rule, 0);
+  return { verdict: result.verdict, figures: { headline: ruleHeadline(result), result } };
+}
+
 /** The merged rules (project + scenario) that can run on this scenario, and those that cannot. */
 function applicableRules(projectRules: RuleSpec[], scenario: Scenario): { rules: RuleSpec[]; sources: { id: string; source: RuleSource }[]; skipped: SkippedRule[] } {
   const ports = new Set(scenario.ports.map((p) => p.name));
@@ -55,12 +61,11 @@ export function executeCheck(request: CheckRunRequest, solution: Solution, proje
   const scenario = solution.system.scenario;
   switch (request.check) {
     case "isolation":
+      return { check: request.check, ...ruleOutcome(solution, { kind: "isolation", id: request.check, ...request.inputs }) };
     case "match":
-    case "insertion_loss": {
-      const rule = { kind: request.check, id: request.check, ...request.inputs } as RuleSpec;
-      const result = evaluateRule(solution, rule, 0);
-      return { check: request.check, verdict: result.verdict, figures: { headline: ruleHeadline(result), result } };
-    }
+      return { check: request.check, ...ruleOutcome(solution, { kind: "match", id: request.check, ...request.inputs }) };
+    case "insertion_loss":
+      return { check: request.check, ...ruleOutcome(solution, { kind: "insertion_loss", id: request.check, ...request.inputs }) };
     case "leak_trace": {
       const { min_db, ...opts } = request.inputs;
       const result = leakTrace(solution, opts);

@@ -47,8 +47,6 @@ export const checkInputSchemas = {
   all_rules: z.object({}).strict(),
 } as const satisfies Record<CheckName, z.ZodType>;
 
-export type CheckInputs = { [K in CheckName]: z.infer<(typeof checkInputSchemas)[K]> };
-
 /** POST …/check-runs body: the check, its inputs, and the revision (default: the latest). */
 export const checkRunRequestSchema = z.discriminatedUnion("check", [
   z.object({ check: z.literal("isolation"), inputs: checkInputSchemas.isolation, revisionId: z.string().min(1).max(100).optional() }).strict(),

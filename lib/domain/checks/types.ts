@@ -48,3 +48,6 @@ export type CheckRunSummary = {
 
 /** A run with its figures; `check` tells which result `figures.result` holds. */
 export type CheckRunView = { [K in CheckName]: Omit<CheckRunSummary, "check"> & { check: K; figures: CheckFigures<K> } }[CheckName];
+
+/** A run of one named check. */
+export type CheckRunOf<K extends CheckName> = Extract<CheckRunView, { check: K }>;

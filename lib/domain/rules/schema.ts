@@ -57,9 +57,6 @@ export const ruleSpecSchema = z.discriminatedUnion("kind", [
   }).strict(),
 ]);
 
-/** A project rule: the scenario file's rule with its name required. */
-export type NamedRuleSpec = z.infer<typeof ruleSpecSchema>;
-
 /** The system ports a rule names. */
 export function rulePorts(rule: RuleSpec): string[] {
   switch (rule.kind) {

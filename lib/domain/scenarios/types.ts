@@ -27,13 +27,3 @@ export type RevisionView = {
 export type RevisionListItem = Omit<RevisionView, "content">;
 
 export type ScenarioView = { id: string; projectId: string; name: string; latestRevisionId: string; latestRevisionNumber: number };
-
-/** Date → ISO string for props of client components, recursively for plain objects and arrays. */
-export function serialiseDates<T>(value: T): T {
-  if (value instanceof Date) return value.toISOString() as unknown as T;
-  if (Array.isArray(value)) return value.map((v) => serialiseDates(v)) as unknown as T;
-  if (value && typeof value === "object") {
-    return Object.fromEntries(Object.entries(value as Record<string, unknown>).map(([k, v]) => [k, serialiseDates(v)])) as T;
-  }
-  return value;
-}

@@ -1,7 +1,7 @@
 import "server-only";
 import { getPartTexts } from "@/db/queries/parts";
-import { getProjectForUser } from "@/db/queries/projects";
-import { getScenario } from "@/db/queries/scenarios";
+import { loadProject } from "@/db/queries/projects";
+import { loadScenario } from "@/db/queries/scenarios";
 import { db } from "@/db/client";
 import { BUNDLE_PATHS, BundleError, bundleFiles, computeBundleResults, sha256, writeBundleZip, type BundleIdentity } from "@/engine/bundle";
 import { EngineInputError, SingularSystemError } from "@/engine/types";
@@ -9,23 +9,11 @@ import packageJson from "@/package.json";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
-import { authorize } from "@/lib/server/permissions";
+import { allow, type ProjectAccess } from "@/lib/server/permissions";
+import { fileStem } from "@/lib/domain/scenarios/file-stem";
 import { renderReportHtml } from "./report-html";
 
 export type ExportedBundle = { fileName: string; bytes: Uint8Array; identity: BundleIdentity; revisionNumber: number; contentHash: string };
-
-/** A file name made of the scenario's name: letters, digits and dashes. */
-function fileStem(name: string): string {
-  return (
-    name
-      .normalize("NFKD")
-      .replace(/[^\w\s-]/g, "")
-      .trim()
-      .replace(/[\s_]+/g, "-")
-      .toLowerCase()
-      .slice(0, 60) || "scenario"
-  );
-}
 
 /**
  * The bundle of one scenario revision (latest unless `revisionId`): scenario, parts, composite, checks,
@@ -33,18 +21,20 @@ function fileStem(name: string): string {
  */
 export async function exportBundle({
   actor,
-  projectId,
+  access,
   scenarioId,
   revisionId,
 }: {
   actor: SessionUser;
-  projectId: string;
+  /** the actor's access to the project, resolved once by the route */
+  access: ProjectAccess;
   scenarioId: string;
   revisionId?: string;
 }): Promise<ExportedBundle> {
-  await authorize({ userId: actor.id, projectId, action: "bundle.export" });
-  const project = await getProjectForUser({ projectId, userId: actor.id });
-  const { scenario, revision } = await getScenario({ userId: actor.id, projectId, scenarioId, revisionId });
+  allow(access, "bundle.export");
+  const { projectId } = access;
+  const project = await loadProject(access);
+  const { scenario, revision } = await loadScenario(access, { scenarioId, revisionId });
   const allParts = await getPartTexts({ projectId });
   let results;
   try {

@@ -1,4 +1,3 @@
 import { z } from "zod";
 
 export const notificationsSchema = z.object({ notifySignoff: z.boolean({ error: "Send true or false." }) });
-export type NotificationsInput = z.infer<typeof notificationsSchema>;

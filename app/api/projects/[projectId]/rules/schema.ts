@@ -3,4 +3,3 @@ import { ruleSpecSchema } from "@/lib/domain/rules/schema";
 
 /** POST …/rules and PUT …/rules/:ruleId: `{ spec }`, a project rule (see lib/domain/rules/schema.ts). */
 export const ruleBodySchema = z.object({ spec: ruleSpecSchema }).strict();
-export type RuleBody = z.infer<typeof ruleBodySchema>;

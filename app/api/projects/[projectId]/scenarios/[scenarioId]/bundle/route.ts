@@ -1,5 +1,6 @@
 import { apiRoute, parseWith } from "@/lib/server/api";
 import { exportBundle } from "@/lib/server/bundle/export";
+import { resolveAccess } from "@/lib/server/permissions";
 import { idSchema } from "@/lib/base/validation/common";
 
 type Params = { projectId: string; scenarioId: string };
@@ -12,7 +13,8 @@ export const GET = apiRoute<Params>(async (ctx) => {
   const raw = new URL(ctx.request.url).searchParams.get("revisionId");
   const revisionId = raw === null || raw === "" ? undefined : parseWith(idSchema, raw);
   const user = await ctx.requireUser();
-  const bundle = await exportBundle({ actor: user, projectId: ctx.params.projectId, scenarioId: ctx.params.scenarioId, revisionId });
+  const access = await resolveAccess({ userId: user.id, projectId: ctx.params.projectId });
+  const bundle = await exportBundle({ actor: user, access, scenarioId: ctx.params.scenarioId, revisionId });
   return new Response(new Blob([new Uint8Array(bundle.bytes)]), {
     status: 200,
     headers: {

@@ -2,6 +2,7 @@ import { listCheckRuns } from "@/db/queries/check-runs";
 import { runCheck } from "@/lib/server/check-runs";
 import { checkRunRequestSchema } from "@/lib/domain/checks/inputs";
 import { apiRoute, json, parseWith } from "@/lib/server/api";
+import { resolveAccess } from "@/lib/server/permissions";
 import { z } from "zod";
 
 type Params = { projectId: string; scenarioId: string };
@@ -13,7 +14,8 @@ export const GET = apiRoute<Params>(async (ctx) => {
   const raw = new URL(ctx.request.url).searchParams.get("limit");
   const limit = parseWith(limitSchema, raw ?? undefined);
   const user = await ctx.requireUser();
-  return json({ runs: await listCheckRuns({ userId: user.id, projectId: ctx.params.projectId, scenarioId: ctx.params.scenarioId, limit }) });
+  const access = await resolveAccess({ userId: user.id, projectId: ctx.params.projectId });
+  return json({ runs: await listCheckRuns({ access, scenarioId: ctx.params.scenarioId, limit }) });
 });
 
 /**
@@ -24,6 +26,7 @@ export const GET = apiRoute<Params>(async (ctx) => {
 export const POST = apiRoute<Params>(async (ctx) => {
   const request = await ctx.body(checkRunRequestSchema);
   const user = await ctx.requireUser();
-  const run = await runCheck({ actor: user, projectId: ctx.params.projectId, scenarioId: ctx.params.scenarioId, request });
+  const access = await resolveAccess({ userId: user.id, projectId: ctx.params.projectId });
+  const run = await runCheck({ access, scenarioId: ctx.params.scenarioId, request });
   return json({ run }, { status: 201 });
 });
