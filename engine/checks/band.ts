@@ -1,9 +1,13 @@
 // Selection of plan points inside a band (inclusive edges with a relative tolerance) and port lookup.
+import { FREQUENCY_TOLERANCE } from "../scenario/frequency-tolerance";
 import { EngineInputError } from "../types";
 import type { Solution } from "../types";
 
-/** Relative tolerance on band edges, so that 2.4e9 from a plan step still counts as inside [2.4e9, …]. */
-export const BAND_EDGE_TOLERANCE = 1e-12;
+/**
+ * Relative tolerance on band edges, so that 2.4e9 from a plan step still counts as inside [2.4e9, …]: the engine's
+ * one frequency tolerance (FREQUENCY_TOLERANCE, engine/scenario/frequency-tolerance.ts), also used for part coverage.
+ */
+export const BAND_EDGE_TOLERANCE = FREQUENCY_TOLERANCE;
 
 /**
  * Indices of the plan frequencies inside [lo, hi], edges inclusive within BAND_EDGE_TOLERANCE.

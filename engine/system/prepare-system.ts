@@ -7,6 +7,7 @@ import { interpolateS } from "../interp";
 import { renormalize, z0Vector } from "../renorm";
 import { placeBlockError } from "../scenario/block-errors";
 import { frequencyPlan } from "../scenario/frequency-plan";
+import { sameFrequency } from "../scenario/frequency-tolerance";
 import { parseScenario, splitPortRef } from "../scenario/parse-scenario";
 import {
   EngineInputError,
@@ -50,7 +51,7 @@ function evaluatePart(
   const warnings: string[] = [];
   let s = referenced;
   let identical = part.frequencies.length === frequencies.length;
-  for (let k = 0; identical && k < frequencies.length; k++) identical = part.frequencies[k] === frequencies[k];
+  for (let k = 0; identical && k < frequencies.length; k++) identical = sameFrequency(part.frequencies[k], frequencies[k]);
   if (!identical) {
     const mode = scenario.extrapolate ?? "error";
     let result;

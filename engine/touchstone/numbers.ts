@@ -83,3 +83,72 @@ function trimZeros(t: string): string {
   if (mant === "-0") mant = "0";
   return mant + exp;
 }
+
+/** A decimal token split into its sign, significant digits (no leading or trailing zeros) and exponent: value = ±0.digits × 10^exp. */
+type DecimalParts = { negative: boolean; digits: string; exp: number };
+
+// Exponents beyond this give 0 or Infinity for any mantissa a 20 MB file can hold, so they are clamped to keep
+// the shifted text an ordinary integer (no "1e+21" forms inside it).
+const EXPONENT_CLAMP = 1e9;
+
+function decimalParts(tok: string): DecimalParts {
+  let i = 0;
+  const negative = tok.charCodeAt(0) === 45;
+  if (negative || tok.charCodeAt(0) === 43) i = 1;
+  const e = tok.search(/[eE]/);
+  const mantissa = tok.slice(i, e < 0 ? tok.length : e);
+  let exp = e < 0 ? 0 : Number(tok.slice(e + 1));
+  if (!Number.isFinite(exp) || Math.abs(exp) > EXPONENT_CLAMP) exp = Math.sign(exp) * EXPONENT_CLAMP;
+  const dot = mantissa.indexOf(".");
+  const intPart = dot < 0 ? mantissa : mantissa.slice(0, dot);
+  const fracPart = dot < 0 ? "" : mantissa.slice(dot + 1);
+  let all = intPart + fracPart;
+  // value = 0.all × 10^(exp + intPart.length)
+  let point = exp + intPart.length;
+  let lead = 0;
+  while (lead < all.length && all.charCodeAt(lead) === 48) lead++;
+  let end = all.length;
+  while (end > lead && all.charCodeAt(end - 1) === 48) end--;
+  all = all.slice(lead, end);
+  point -= lead;
+  return { negative, digits: all, exp: all === "" ? 0 : point };
+}
+
+/**
+ * The value of a decimal token times 10^shift, rounded once to the nearest double: the exponent of the text is
+ * shifted and the shifted text converted by Number() (ECMA-262 StringToNumber, correctly rounded), so that
+ * "4.1" GHz is exactly the double nearest 4 100 000 000, where 4.1 × 1e9 lands one ulp away.
+ * The token must be a valid decimal (see parseDecimal). May return ±Infinity (overflow) or 0 (underflow).
+ *
+ * @example
+ * scaleDecimal("4.1", 9);     // 4100000000
+ * scaleDecimal("2.14", 9);    // 2140000000 (2.14 * 1e9 gives 2140000000.0000002)
+ * scaleDecimal("1e300", 9);   // Infinity
+ */
+export function scaleDecimal(tok: string, shift: number): number {
+  const { negative, digits, exp } = decimalParts(tok);
+  if (digits === "") return negative ? -0 : 0;
+  const e = Math.max(-EXPONENT_CLAMP, Math.min(EXPONENT_CLAMP, exp + shift - digits.length));
+  return Number(`${negative ? "-" : ""}${digits}e${e}`);
+}
+
+/**
+ * Compares the exact values of two decimal tokens (no rounding): −1, 0 or 1. Tells apart texts such as
+ * "1.00000000000000001" and "1.00000000000000002" that parse to the same double.
+ *
+ * @example
+ * compareDecimal("1.00000000000000002", "1.00000000000000001"); // 1
+ * compareDecimal("2.50", "25e-1");                               // 0
+ */
+export function compareDecimal(a: string, b: string): -1 | 0 | 1 {
+  const x = decimalParts(a);
+  const y = decimalParts(b);
+  const sx = x.digits === "" ? 0 : x.negative ? -1 : 1;
+  const sy = y.digits === "" ? 0 : y.negative ? -1 : 1;
+  if (sx !== sy) return sx < sy ? -1 : 1;
+  if (sx === 0) return 0;
+  let c: number;
+  if (x.exp !== y.exp) c = x.exp < y.exp ? -1 : 1;
+  else c = x.digits < y.digits ? -1 : x.digits > y.digits ? 1 : 0; // same length of integer part: compare digit strings
+  return (sx < 0 ? -c : c) as -1 | 0 | 1;
+}
