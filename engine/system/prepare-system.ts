@@ -17,6 +17,7 @@ import {
   type PreparedSystem,
   type Scenario,
 } from "../types";
+import { partActivity } from "./activity";
 import { loadPart, type PartSource } from "./parts";
 
 /** Options of prepareSystem: where part files come from (see PartSource). */
@@ -75,6 +76,7 @@ function evaluatePart(
       );
     }
   }
+  const active = partActivity(block, s, frequencies);
   return {
     id: block.id,
     kind: "touchstone",
@@ -82,6 +84,7 @@ function evaluatePart(
     // measured data is checked by the checks, not assumed passive or reciprocal
     traits: { passive: false, reciprocal: false, radiates: false },
     rating_dbm: block.rating_dbm,
+    ...(active ? { active } : {}),
     warnings,
   };
 }
@@ -132,6 +135,7 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
         s: result.s,
         traits: result.traits,
         rating_dbm: spec.rating_dbm,
+        ...(result.traits.passive ? {} : { active: { source: "model" as const, reason: `the ${spec.kind} model has gain` } }),
         warnings: result.warnings.map((w) => (w.startsWith(`block ${spec.id}`) ? w : `block ${spec.id}: ${w}`)),
       };
     }
