@@ -45,6 +45,9 @@ export type PartView = {
   reciprocityHz: number;
   passivity: "pass" | "fail";
   reciprocity: "pass" | "warn";
+  /** the data shows gain: an active part (not expected passive), with the reason */
+  active: boolean;
+  activeReason: string | null;
   preview: { label: string; hz: number[]; db: number[] };
   createdAt: string;
   text?: string;

@@ -5,7 +5,7 @@ import { db, runInTransaction, type Executor } from "@/db/client";
 import { parts, scenarioRevisions, scenarios, type Part } from "@/db/schema";
 import { maxSingularValue, reciprocityError } from "@/engine/linalg";
 import { parseTouchstone, TouchstoneError, type TouchstoneData } from "@/engine/touchstone";
-import { parseTouchstoneCached } from "@/engine/system";
+import { gainActivity, parseTouchstoneCached } from "@/engine/system";
 import type { Scenario } from "@/engine/types";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
@@ -27,6 +27,10 @@ export type PartSummaryRow = Omit<Part, "text" | "projectId" | "uploadedBy"> & {
   passivity: "pass" | "fail";
   /** "pass" when S = Sᵀ within tolerance, else "warn" (isolators and amplifiers are legitimately not) */
   reciprocity: "pass" | "warn";
+  /** set automatically when the data shows gain (an amplifier): then it is not expected passive or reciprocal */
+  active: boolean;
+  /** why the part counts as active ("its data shows gain: largest singular value …"), null when it does not */
+  activeReason: string | null;
   preview: PartPreview;
   text?: string;
 };
@@ -78,9 +82,13 @@ function summarise(row: Part, withText: boolean): PartSummaryRow {
   } catch {
     // stored parts were parsed on upload; a reader change should not break the list
   }
+  // the same rule and wording as the engine uses for a touchstone block without an `active` flag
+  const activity = gainActivity(row.maxSingular, row.maxSingularHz);
   return {
     ...rest,
     passivity: row.maxSingular <= 1 + PASSIVITY_TOLERANCE ? "pass" : "fail",
+    active: activity !== null,
+    activeReason: activity?.reason ?? null,
     reciprocity: row.reciprocityError <= RECIPROCITY_TOLERANCE ? "pass" : "warn",
     preview,
     ...(withText ? { text } : {}),
