@@ -136,6 +136,8 @@ export type EvaluatedBlock = {
   active?: BlockActivity;
   /** messages such as extrapolation used, passivity clipped */
   warnings: string[];
+  /** information that is not a warning, such as how part data was interpolated onto the plan */
+  notes?: string[];
 };
 
 // ---------------------------------------------------------------------------------------------------
@@ -189,6 +191,8 @@ export type PreparedSystem = {
   /** block ports neither linked nor system ports (matched terminations) */
   unterminated: number[];
   warnings: string[];
+  /** the blocks' notes (for example how part data was interpolated), in block order */
+  notes?: string[];
 };
 
 /** The composite response. */

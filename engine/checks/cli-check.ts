@@ -39,6 +39,7 @@ export function formatCheckTable(r: AllChecksResult): string {
   const notes = r.checks.filter((c) => c.verdict !== "pass").flatMap((c) => c.messages.slice(0, 3).map((m) => `  ${m}`));
   if (notes.length > 0) lines.push("", "Details:", ...notes);
   if (r.warnings.length > 0) lines.push("", "Warnings:", ...r.warnings.map((w) => `  ${w}`));
+  if (r.notes.length > 0) lines.push("", "Notes:", ...r.notes.map((w) => `  ${w}`));
   return `${lines.join("\n")}\n`;
 }
 

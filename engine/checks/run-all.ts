@@ -18,6 +18,8 @@ export type AllChecksResult = {
   /** one line per check, rules first, in a stable order */
   checks: CheckSummary[];
   warnings: string[];
+  /** information beside the results, such as how part data was interpolated onto the plan */
+  notes: string[];
 };
 
 /**
@@ -67,5 +69,6 @@ export function runAllChecks(scenario: Scenario, prepared: PreparedSystem, solut
     stability,
     checks,
     warnings: [...solution.warnings],
+    notes: [...(prepared.notes ?? [])],
   };
 }

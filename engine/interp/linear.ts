@@ -14,6 +14,8 @@ export type InterpolateResult = {
   s: SData;
   /** how many plan points lay below the first / above the last data frequency and were held */
   extrapolated: { below: number; above: number };
+  /** how many plan points lay strictly between two data frequencies (not on one within the tolerance) */
+  interpolated: number;
 };
 
 /**
@@ -81,6 +83,7 @@ export function interpolateS(s: SData, from: Float64Array, to: Float64Array, opt
   const src = s.data;
   const out = new Float64Array(m * stride);
   let seg = 0; // data interval [from[seg], from[seg + 1]] of the previous plan point
+  let interpolated = 0;
   for (let i = 0; i < m; i++) {
     const f = to[i];
     const o = i * stride;
@@ -105,13 +108,14 @@ export function interpolateS(s: SData, from: Float64Array, to: Float64Array, opt
       copyPoint(out, o, src, seg * stride, stride);
       continue;
     }
+    interpolated++;
     const w = (f - f0) / (f1 - f0);
     const v = 1 - w;
     const a = seg * stride;
     const b = a + stride;
     for (let q = 0; q < stride; q++) out[o + q] = v * src[a + q] + w * src[b + q];
   }
-  return { s: { n, nf: m, data: out }, extrapolated: { below, above } };
+  return { s: { n, nf: m, data: out }, extrapolated: { below, above }, interpolated };
 }
 
 function copyPoint(out: Float64Array, o: number, src: Float64Array, a: number, stride: number): void {

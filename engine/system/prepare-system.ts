@@ -35,6 +35,18 @@ function sameReferences(z0: Float64Array, target: number): boolean {
   return true;
 }
 
+/**
+ * The note beside a part whose data is interpolated: the method (linear in real and imaginary parts, the default
+ * of the reference library scikit-rf 0.15.4) and that it applies to the data already renormalised to the system Z0.
+ */
+function interpolationNote(id: string, count: number, planPoints: number, fileZ0: Float64Array, z0: number): string {
+  const refs = [...new Set(Array.from({ length: fileZ0.length / 2 }, (_, p) => fileZ0[2 * p]))];
+  const renorm = sameReferences(fileZ0, z0)
+    ? `its data is already referenced to the system Z0 (${z0} Ω)`
+    : `after renormalising its data from ${refs.join(", ")} Ω to the system Z0 (${z0} Ω)`;
+  return `block ${id}: part data interpolated onto ${count} of ${planPoints} plan points, linearly in real and imaginary parts, ${renorm}`;
+}
+
 /** Evaluates a touchstone block: parse (cached), renormalise to the system Z0, interpolate onto the plan. */
 function evaluatePart(
   block: BlockSpec,
@@ -50,6 +62,7 @@ function evaluatePart(
   const target = z0Vector(z0, n);
   const referenced = sameReferences(part.z0, z0) ? part.s : renormalize(null, part.s, part.z0, target, "power");
   const warnings: string[] = [];
+  const notes: string[] = [];
   let s = referenced;
   let identical = part.frequencies.length === frequencies.length;
   for (let k = 0; identical && k < frequencies.length; k++) identical = sameFrequency(part.frequencies[k], frequencies[k]);
@@ -69,6 +82,7 @@ function evaluatePart(
     const fLo = part.frequencies[0];
     const fHi = part.frequencies[part.frequencies.length - 1];
     const { below, above } = result.extrapolated;
+    if (result.interpolated > 0) notes.push(interpolationNote(block.id, result.interpolated, frequencies.length, part.z0, z0));
     if (below > 0 || above > 0) {
       const counts = [below > 0 ? `${below} below` : "", above > 0 ? `${above} above` : ""].filter(Boolean).join(" and ");
       warnings.push(
@@ -86,6 +100,7 @@ function evaluatePart(
     rating_dbm: block.rating_dbm,
     ...(active ? { active } : {}),
     warnings,
+    notes,
   };
 }
 
@@ -112,6 +127,7 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
   const frequencies = frequencyPlan(scenario.frequency);
   const z0 = scenario.z0;
   const warnings: string[] = [];
+  const notes: string[] = [];
   const blocks: EvaluatedBlock[] = [];
   const blockPorts: BlockPortInfo[] = [];
   const blockOffset: number[] = [];
@@ -144,6 +160,7 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
     }
     blocks.push(evaluated);
     warnings.push(...evaluated.warnings);
+    if (evaluated.notes) notes.push(...evaluated.notes);
     blockOffset.push(blockPorts.length);
     indexOf.set(spec.id, i);
     for (let p = 1; p <= evaluated.s.n; p++) blockPorts.push({ index: blockPorts.length, block: spec.id, port: p });
@@ -177,5 +194,5 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
     unterminated.push(p);
     warnings.push(`block ${blockPorts[p].block} port ${blockPorts[p].port} is not linked and not a system port: treated as a matched termination`);
   }
-  return { scenario, frequencies, z0, blocks, blockPorts, blockOffset, links, systemPorts, unterminated, warnings };
+  return { scenario, frequencies, z0, blocks, blockPorts, blockOffset, links, systemPorts, unterminated, warnings, notes };
 }
