@@ -73,10 +73,13 @@ export type StabilityResult = {
  * @param subject name in messages
  * @param s 2-port S (n = 2)
  * @param frequencies plan, Hz
+ * @param opts keepPoints: false leaves `points` and `frequenciesHz` empty (the summary figures stay), for the
+ *   many port pairs of a large composite whose per-point figures nobody reads and a stored run would carry
  * @throws EngineInputError when s is not a 2-port
  * @example stabilityOfStack("AMP1", block.s, plan).verdict
  */
-export function stabilityOfStack(subject: string, s: SData, frequencies: ArrayLike<number>): StabilityResult {
+export function stabilityOfStack(subject: string, s: SData, frequencies: ArrayLike<number>, opts: { keepPoints?: boolean } = {}): StabilityResult {
+  const keep = opts.keepPoints !== false;
   if (s.n !== 2) throw new EngineInputError(subject, `stability needs a 2-port, got ${s.n} ports`);
   const points: StabilityPoint[] = [];
   const freqs: number[] = [];
@@ -86,8 +89,10 @@ export function stabilityOfStack(subject: string, s: SData, frequencies: ArrayLi
   let maxDelta = 0, maxDeltaHz = frequencies[0];
   for (let k = 0; k < s.nf; k++) {
     const p = stabilityOf(s.data.subarray(8 * k, 8 * k + 8));
-    points.push(p);
-    freqs.push(frequencies[k]);
+    if (keep) {
+      points.push(p);
+      freqs.push(frequencies[k]);
+    }
     if (p.k !== null && (minK === null || p.k < minK)) { minK = p.k; minKHz = frequencies[k]; }
     if (p.mu !== null && (minMu === null || p.mu < minMu)) { minMu = p.mu; minMuHz = frequencies[k]; }
     if (p.deltaMag > maxDelta) { maxDelta = p.deltaMag; maxDeltaHz = frequencies[k]; }
@@ -112,6 +117,12 @@ export function stabilityOfStack(subject: string, s: SData, frequencies: ArrayLi
 }
 
 /**
+ * Above this many system ports the composite's port pairs (n(n − 1)/2 of them) report their summary figures
+ * only, without per-point figures, so that a stored check run stays small (8 ports: 28 pairs).
+ */
+export const PAIR_POINTS_PORT_LIMIT = 8;
+
+/**
  * Stability of every active 2-port block (built-in amplifiers, and measured parts marked active or whose data
  * shows gain) and of the composite: between its two ports when the system has two, or between every pair of
  * system ports (the others terminated in their own Z0) when it has more and holds an active block.
@@ -120,7 +131,8 @@ export function stabilityOfStack(subject: string, s: SData, frequencies: ArrayLi
  *   "active" only when the system holds an active block (a passive composite is stable with any passive
  *   terminations, and a lossless one sits at K = 1, which would read as a false alarm)
  * @returns one StabilityResult per active 2-port block (subject = block id), then "composite" (two system ports)
- *   or "composite A–B" per pair of system ports, in scenario order
+ *   or "composite A–B" per pair of system ports, in scenario order (summaries only above PAIR_POINTS_PORT_LIMIT
+ *   system ports)
  * @example stabilityCheck(sol).map((r) => r.verdict)
  */
 export function stabilityCheck(solution: Solution, opts: { composite?: "always" | "active" } = {}): StabilityResult[] {
@@ -132,9 +144,10 @@ export function stabilityCheck(solution: Solution, opts: { composite?: "always" 
   const n = solution.s.n;
   if (n === 2 && (opts.composite !== "active" || active)) out.push(stabilityOfStack("composite", solution.s, solution.frequencies));
   if (n > 2 && active) {
+    const keepPoints = n <= PAIR_POINTS_PORT_LIMIT;
     for (let i = 0; i < n; i++) {
       for (let j = i + 1; j < n; j++) {
-        out.push(stabilityOfStack(`composite ${solution.ports[i]}–${solution.ports[j]}`, portPair(solution.s, i, j), solution.frequencies));
+        out.push(stabilityOfStack(`composite ${solution.ports[i]}–${solution.ports[j]}`, portPair(solution.s, i, j), solution.frequencies, { keepPoints }));
       }
     }
   }

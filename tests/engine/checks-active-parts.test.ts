@@ -10,7 +10,7 @@ import { describe, expect, it } from "vitest";
 import { main } from "@/engine/cli";
 import { dataQuality } from "@/engine/checks/data-quality";
 import { runAllChecks } from "@/engine/checks/run-all";
-import { stabilityCheck } from "@/engine/checks/stability";
+import { stabilityCheck, stabilityOfStack } from "@/engine/checks/stability";
 import { solveSystem } from "@/engine/network";
 import { parseScenario } from "@/engine/scenario";
 import { gainActivity, prepareSystem } from "@/engine/system";
@@ -234,5 +234,34 @@ describe("stability figures of active parts against independent references", () 
         expect(Math.abs(mine - ref[pair][k])).toBeLessThanOrEqual(1e-12 * Math.max(1, Math.abs(ref[pair][k])));
       }
     }
+  });
+
+  it("above 8 system ports the composite's 36 pairs keep their summary figures but no per-point figures", () => {
+    // IN → amplifier → 8-throw switch, every throw a system port: 9 ports, 9·8/2 = 36 pairs.
+    const sc: Scenario = {
+      format: "portolan.scenario/1",
+      name: "amplifier and 8-throw switch",
+      z0: 50,
+      frequency: { start: 1e9, stop: 1.5e9, points: 4 },
+      blocks: [
+        { id: "AMP", kind: "amplifier", params: { gain_db: 15, reverse_isolation_db: 25, input_return_loss_db: 12, output_return_loss_db: 10 } },
+        { id: "SW", kind: "switch", params: { throws: 8, insertion_loss_db: 0.5, isolation_db: 30 }, state: 3 },
+      ],
+      links: [["AMP:2", "SW:1"]],
+      ports: [{ name: "IN", at: "AMP:1" }, ...Array.from({ length: 8 }, (_, k) => ({ name: `T${k + 1}`, at: `SW:${k + 2}` }))],
+    };
+    const sol = solveSystem(prepareSystem(sc));
+    const pairs = stabilityCheck(sol, { composite: "active" }).filter((r) => r.subject.startsWith("composite "));
+    expect(pairs.length).toBe(36);
+    const inT3 = pairs.find((r) => r.subject === "composite IN–T3")!;
+    expect(inT3.points).toEqual([]);
+    // the same pair with its points, built from the composite by hand: identical summary
+    const n = 9, nf = 4, i = 0, j = 3;
+    const data = new Float64Array(8 * nf);
+    const at = [i * n + i, i * n + j, j * n + i, j * n + j];
+    for (let k = 0; k < nf; k++) for (let e = 0; e < 4; e++) for (let c = 0; c < 2; c++) data[8 * k + 2 * e + c] = sol.s.data[2 * (k * n * n + at[e]) + c];
+    const full = stabilityOfStack("composite IN–T3", { n: 2, nf, data }, sol.frequencies);
+    expect(full.points.length).toBe(4);
+    expect({ ...inT3, points: full.points, frequenciesHz: full.frequenciesHz }).toEqual(full);
   });
 });
