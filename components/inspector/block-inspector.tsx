@@ -101,7 +101,7 @@ function ActivityField({
 }) {
   const part = findPart(block, parts);
   const value = block.active === true ? "active" : block.active === false ? "passive" : "auto";
-  const hint = part?.active ? `Its data: ${part.activeReason ?? "shows gain"}.` : part ? "Its data shows no gain." : undefined;
+  const hint = part?.active ? `Active by default: ${part.activeReason ?? "its data shows gain"}.` : part ? "Passive by default: its data shows no gain." : undefined;
   return (
     <Field label="Active or passive" hint={hint}>
       <Select
