@@ -126,10 +126,70 @@ function decimalParts(tok: string): DecimalParts {
  * scaleDecimal("1e300", 9);   // Infinity
  */
 export function scaleDecimal(tok: string, shift: number): number {
+  const fast = scaleDecimalFast(tok, shift);
+  if (!Number.isNaN(fast)) return fast;
   const { negative, digits, exp } = decimalParts(tok);
   if (digits === "") return negative ? -0 : 0;
   const e = Math.max(-EXPONENT_CLAMP, Math.min(EXPONENT_CLAMP, exp + shift - digits.length));
   return Number(`${negative ? "-" : ""}${digits}e${e}`);
+}
+
+// Powers of ten that are exact doubles (10^22 < 2^53 · 2^22, the last with an exact binary64 form).
+const EXACT_POW10 = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
+
+/**
+ * Clinger's fast path (W. D. Clinger, "How to read floating point numbers accurately", PLDI 1990): when the
+ * significant digits form an integer D < 2^53 and the decimal exponent e satisfies |e| ≤ 22, both D and 10^|e|
+ * are exact doubles, so the one IEEE multiplication or division D·10^e rounds correctly. NaN when the token
+ * falls outside that case (more than 15 significant digits, or a larger exponent); the caller then takes the
+ * exact string route.
+ */
+function scaleDecimalFast(tok: string, shift: number): number {
+  const len = tok.length;
+  let i = 0;
+  let c = tok.charCodeAt(0);
+  const negative = c === 45;
+  if (negative || c === 43) i++;
+  let d = 0;
+  let sig = 0; // significant digits taken into d (leading zeros excluded)
+  let frac = 0; // digits after the point taken into d
+  let seenPoint = false;
+  for (; i < len; i++) {
+    c = tok.charCodeAt(i);
+    if (c === 46) {
+      seenPoint = true;
+      continue;
+    }
+    if (c < 48 || c > 57) break;
+    if (d === 0 && c === 48) {
+      if (seenPoint) frac++;
+      continue;
+    }
+    if (++sig > 15) return NaN;
+    d = d * 10 + (c - 48);
+    if (seenPoint) frac++;
+  }
+  let exp = 0;
+  if (i < len) {
+    // exponent: the token is a valid decimal, so (e|E)[+-]digits follows
+    i++;
+    let expNeg = false;
+    c = tok.charCodeAt(i);
+    if (c === 43 || c === 45) {
+      expNeg = c === 45;
+      i++;
+    }
+    for (; i < len; i++) {
+      exp = exp * 10 + (tok.charCodeAt(i) - 48);
+      if (exp > 1000) return NaN;
+    }
+    if (expNeg) exp = -exp;
+  }
+  if (d === 0) return negative ? -0 : 0;
+  const e = exp + shift - frac;
+  if (e > 22 || e < -22) return NaN;
+  const v = e >= 0 ? d * EXACT_POW10[e] : d / EXACT_POW10[-e];
+  return negative ? -v : v;
 }
 
 /**

@@ -116,6 +116,7 @@ class Reader {
   /** frequencies in Hz, converted exactly from the text */
   private readonly freqs: number[] = [];
   private lastFreqText = "";
+  private lastFreqValue = -Infinity;
   private readonly recLines: number[] = [];
   private lastDataLine = 0;
   private lastContentLine = 0;
@@ -452,7 +453,8 @@ class Reader {
           );
         }
         const prev = this.freqs.length > 0 ? this.freqs[this.freqs.length - 1] : -Infinity;
-        const increases = this.freqs.length === 0 || compareDecimal(tok, this.lastFreqText) > 0;
+        // a larger double is a larger decimal; only ties (or a step back) need the exact comparison of the texts
+        const increases = this.freqs.length === 0 || v > this.lastFreqValue || compareDecimal(tok, this.lastFreqText) > 0;
         if (this.version === "1.1" && n === 2 && !increases) {
           // 1.1, 2-port: the first frequency that does not increase starts the noise parameters (§ "Noise Parameter Data").
           this.section = "noise";
@@ -486,6 +488,7 @@ class Reader {
         }
         this.freqs.push(hz);
         this.lastFreqText = tok;
+        this.lastFreqValue = v;
         this.recLines.push(lineNo);
       } else if (this.format === "DB" && this.recPos % 2 === 1 && !Number.isFinite(Math.pow(10, v / 20))) {
         this.fail(lineNo, `magnitude ${clip(tok)} dB is too large: 10^(${clip(tok)}/20) overflows (value ${t + 1} on the line)`);
