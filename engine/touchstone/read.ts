@@ -443,53 +443,7 @@ class Reader {
       const v = parseDecimal(tok);
       if (Number.isNaN(v)) this.fail(lineNo, `"${clip(tok)}" is not a finite number (value ${t + 1} on the line)`);
       if (this.recPos === 0) {
-        if (t !== 0) {
-          const startLine = this.recLines[this.recLines.length - 1];
-          this.fail(
-            lineNo,
-            `the data of the frequency on line ${startLine} ended in the middle of this line: each frequency needs ` +
-              `${recLen} values (the frequency, then ${plural((recLen - 1) / 2, "complex value")} as pairs) and starts on a new line, ` +
-              `so a line from ${startLine} to ${lineNo} has values missing or extra`,
-          );
-        }
-        const prev = this.freqs.length > 0 ? this.freqs[this.freqs.length - 1] : -Infinity;
-        // a larger double is a larger decimal; only ties (or a step back) need the exact comparison of the texts
-        const increases = this.freqs.length === 0 || v > this.lastFreqValue || compareDecimal(tok, this.lastFreqText) > 0;
-        if (this.version === "1.1" && n === 2 && !increases) {
-          // 1.1, 2-port: the first frequency that does not increase starts the noise parameters (§ "Noise Parameter Data").
-          this.section = "noise";
-          this.noiseLine(lineNo, toks);
-          return;
-        }
-        if (oneLine && toks.length !== recLen) {
-          this.fail(
-            lineNo,
-            `a ${n}-port data line needs ${recLen} values (the frequency, then ${plural((recLen - 1) / 2, "complex value")} as pairs); found ${toks.length}`,
-          );
-        }
-        if (v < 0) this.fail(lineNo, `negative frequency ${tok}`);
-        const hz = scaleDecimal(tok, this.unitExp);
-        if (!Number.isFinite(hz)) {
-          this.fail(lineNo, `frequency ${clip(tok)} ${this.unit} is too large: it overflows when converted to hertz`);
-        }
-        const prevLine = this.recLines[this.recLines.length - 1];
-        if (!increases) {
-          this.fail(lineNo, `frequency ${tok} ${this.unit} does not increase on the previous one (line ${prevLine}); frequencies must be in increasing order`);
-        }
-        if (!(hz > prev)) {
-          this.fail(
-            lineNo,
-            `frequency ${clip(tok)} ${this.unit} and ${clip(this.lastFreqText)} ${this.unit} (line ${prevLine}) are different texts but the same ` +
-              `frequency once converted to hertz (${hz} Hz): they are closer than double precision can tell apart`,
-          );
-        }
-        if (this.declaredFreqs !== null && this.freqs.length === this.declaredFreqs) {
-          this.fail(lineNo, `more frequencies than the ${this.declaredFreqs} announced by [Number of Frequencies] on line ${this.declaredFreqsLine}`);
-        }
-        this.freqs.push(hz);
-        this.lastFreqText = tok;
-        this.lastFreqValue = v;
-        this.recLines.push(lineNo);
+        if (this.startRecord(lineNo, toks, t, tok, v)) return;
       } else if (this.format === "DB" && this.recPos % 2 === 1 && !Number.isFinite(Math.pow(10, v / 20))) {
         this.fail(lineNo, `magnitude ${clip(tok)} dB is too large: 10^(${clip(tok)}/20) overflows (value ${t + 1} on the line)`);
       }
@@ -517,10 +471,9 @@ class Reader {
    */
   private checkRowStarts(lineNo: number, from: number, to: number): void {
     const rowLen = 2 * this.ports!;
-    const isRowStart = (p: number): boolean => (p - 1) % rowLen === 0;
     const firstInside = from + (rowLen - ((from - 1) % rowLen)); // next row start after `from`
     if (firstInside >= to) return; // the line stays within one row
-    if (isRowStart(from) && isRowStart(to)) return; // whole rows
+    if ((from - 1) % rowLen === 0 && (to - 1) % rowLen === 0) return; // whole rows
     const row = (firstInside - 1) / rowLen + 1;
     const startLine = this.recLines[this.recLines.length - 1];
     this.fail(
@@ -529,6 +482,65 @@ class Reader {
         `${this.ports} ports each matrix row (${this.ports} pairs, at most four per line) starts on a new line, so a row before ` +
         `it is short or this line is long`,
     );
+  }
+
+  /**
+   * The first value of a record: its frequency, checked (position on the line, order, overflow, distinct once in
+   * hertz) and converted exactly to hertz. Returns true when the line turned out to start 1.1 noise data instead.
+   * Kept out of data()'s loop so that the loop over the values stays small.
+   */
+  private startRecord(lineNo: number, toks: string[], t: number, tok: string, v: number): boolean {
+    const n = this.ports!;
+    const recLen = this.recLen;
+    const oneLine = this.version === "1.1" && n <= 2;
+    if (t !== 0) {
+      const startLine = this.recLines[this.recLines.length - 1];
+      this.fail(
+        lineNo,
+        `the data of the frequency on line ${startLine} ended in the middle of this line: each frequency needs ` +
+          `${recLen} values (the frequency, then ${plural((recLen - 1) / 2, "complex value")} as pairs) and starts on a new line, ` +
+          `so a line from ${startLine} to ${lineNo} has values missing or extra`,
+      );
+    }
+    const prev = this.freqs.length > 0 ? this.freqs[this.freqs.length - 1] : -Infinity;
+    // a larger double is a larger decimal; only ties (or a step back) need the exact comparison of the texts
+    const increases = this.freqs.length === 0 || v > this.lastFreqValue || compareDecimal(tok, this.lastFreqText) > 0;
+    if (this.version === "1.1" && n === 2 && !increases) {
+      // 1.1, 2-port: the first frequency that does not increase starts the noise parameters (§ "Noise Parameter Data").
+      this.section = "noise";
+      this.noiseLine(lineNo, toks);
+      return true;
+    }
+    if (oneLine && toks.length !== recLen) {
+      this.fail(
+        lineNo,
+        `a ${n}-port data line needs ${recLen} values (the frequency, then ${plural((recLen - 1) / 2, "complex value")} as pairs); found ${toks.length}`,
+      );
+    }
+    if (v < 0) this.fail(lineNo, `negative frequency ${tok}`);
+    const hz = scaleDecimal(tok, this.unitExp);
+    if (!Number.isFinite(hz)) {
+      this.fail(lineNo, `frequency ${clip(tok)} ${this.unit} is too large: it overflows when converted to hertz`);
+    }
+    const prevLine = this.recLines[this.recLines.length - 1];
+    if (!increases) {
+      this.fail(lineNo, `frequency ${tok} ${this.unit} does not increase on the previous one (line ${prevLine}); frequencies must be in increasing order`);
+    }
+    if (!(hz > prev)) {
+      this.fail(
+        lineNo,
+        `frequency ${clip(tok)} ${this.unit} and ${clip(this.lastFreqText)} ${this.unit} (line ${prevLine}) are different texts but the same ` +
+          `frequency once converted to hertz (${hz} Hz): they are closer than double precision can tell apart`,
+      );
+    }
+    if (this.declaredFreqs !== null && this.freqs.length === this.declaredFreqs) {
+      this.fail(lineNo, `more frequencies than the ${this.declaredFreqs} announced by [Number of Frequencies] on line ${this.declaredFreqsLine}`);
+    }
+    this.freqs.push(hz);
+    this.lastFreqText = tok;
+    this.lastFreqValue = v;
+    this.recLines.push(lineNo);
+    return false;
   }
 
   private push(v: number): void {
