@@ -42,19 +42,27 @@ export function gainActivity(maxSingular: number, atHz: number): BlockActivity |
   return { source: "data", reason: `its data shows gain: largest singular value ${maxSingular.toFixed(3)} (${db.toFixed(2)} dB) at ${formatHz(atHz)}` };
 }
 
+// The largest gain of each parsed part, computed once: parts are parsed once per text (engine/system/parts.ts)
+// and prepared again for every state of a sweep.
+const gainOfPart = new WeakMap<object, { maxSingular: number; atHz: number }>();
+
 /**
  * Activity of a touchstone block: `active: true` marks it (reason: the scenario says so), `active: false` keeps it
- * passive whatever its data shows (passivity is then checked and warned about), and no flag lets its data decide.
+ * passive whatever its data shows (passivity is then checked and warned about), and no flag lets its data decide:
+ * all of its data, as the file gives it, so that the block and the parts library agree whatever the plan covers.
  * @param block the block spec
- * @param s the block's S over the plan
- * @param frequencies the plan, Hz
- * @example partActivity({ id: "LNA", kind: "touchstone", file: "lna.s2p" }, s, plan)?.source // "data"
+ * @param part the parsed part data (S as in the file, frequencies in Hz)
+ * @example partActivity({ id: "LNA", kind: "touchstone", file: "lna.s2p" }, part)?.source // "data"
  */
-export function partActivity(block: BlockSpec, s: SData, frequencies: ArrayLike<number>): BlockActivity | null {
+export function partActivity(block: BlockSpec, part: { s: SData; frequencies: Float64Array }): BlockActivity | null {
   if (block.active === true) return { source: "scenario", reason: "marked active in the scenario (active: true)" };
   if (block.active === false) return null;
-  const { maxSingular, atHz } = largestGain(s, frequencies);
-  return gainActivity(maxSingular, atHz);
+  let gain = gainOfPart.get(part);
+  if (!gain) {
+    gain = largestGain(part.s, part.frequencies);
+    gainOfPart.set(part, gain);
+  }
+  return gainActivity(gain.maxSingular, gain.atHz);
 }
 
 /**

@@ -90,7 +90,7 @@ function evaluatePart(
       );
     }
   }
-  const active = partActivity(block, s, frequencies);
+  const active = partActivity(block, part);
   return {
     id: block.id,
     kind: "touchstone",

@@ -50,6 +50,13 @@ describe("measured active parts", () => {
     expect(lna.active?.reason).toBe("its data shows gain: largest singular value 10.009 (20.01 dB) at 1 GHz");
   });
 
+  it("the whole data decides, as in the parts library, even where the plan covers only its passive part", () => {
+    // gain (|S21| = 4, 12.04 dB) only at 3 GHz; the plan stays within 1–2 GHz where |S21| = 0.5
+    const text = "# GHz S RI R 50\n1 0 0 0.5 0 0.01 0 0 0\n2 0 0 0.5 0 0.01 0 0 0\n3 0 0 4 0 0.01 0 0 0\n";
+    const sys = prepareSystem(ampScenario(), { parts: { "lna.s2p": text } });
+    expect(sys.blocks[1].active?.reason).toBe("its data shows gain: largest singular value 4.000 (12.04 dB) at 3 GHz");
+  });
+
   it("is not reported as active although it should be passive, and is not expected reciprocal", () => {
     const sys = prepareSystem(ampScenario(), { parts });
     const q = dataQuality(solveSystem(sys));
