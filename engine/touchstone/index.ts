@@ -2,4 +2,4 @@
 export { parseTouchstone, type TouchstoneData, type ParseOptions, type DataFormat, type FrequencyUnit } from "./read";
 export { writeTouchstone, type WriteInput, type WriteOptions } from "./write";
 export { TouchstoneError } from "./errors";
-export { parseDecimal, formatSignificant, formatFixed } from "./numbers";
+export { parseDecimal, scaleDecimal, compareDecimal, formatSignificant, formatFixed } from "./numbers";
