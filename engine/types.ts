@@ -67,6 +67,12 @@ export type BlockSpec = {
   ports?: number;
   /** the most power any port of the block may take, dBm */
   rating_dbm?: number;
+  /**
+   * touchstone: true marks a measured part as active (an amplifier: not expected passive or reciprocal, checked
+   * for stability); false keeps it expected passive; absent lets its data decide (gain above 1 dB). Built-in
+   * kinds may only repeat what their model is (true for the amplifier, false for the others).
+   */
+  active?: boolean;
   /** chart position; ignored by the engine */
   position?: { x: number; y: number };
   /** free text label; ignored by the engine */
@@ -112,6 +118,9 @@ export type BlockTraits = {
   radiates: boolean;
 };
 
+/** Why a block counts as active: its model (amplifier), the scenario's `active: true`, or gain in its data. */
+export type BlockActivity = { source: "model" | "scenario" | "data"; reason: string };
+
 /**
  * An evaluated block: its S over the plan, referenced at every port to the system Z0 (real),
  * ready for the interconnection.
@@ -122,8 +131,12 @@ export type EvaluatedBlock = {
   s: SData;
   traits: BlockTraits;
   rating_dbm?: number;
+  /** set when the block is active (it may add energy), with the reason; absent for passive blocks */
+  active?: BlockActivity;
   /** messages such as extrapolation used, passivity clipped */
   warnings: string[];
+  /** information that is not a warning, such as how part data was interpolated onto the plan */
+  notes?: string[];
 };
 
 // ---------------------------------------------------------------------------------------------------
@@ -177,6 +190,8 @@ export type PreparedSystem = {
   /** block ports neither linked nor system ports (matched terminations) */
   unterminated: number[];
   warnings: string[];
+  /** the blocks' notes (for example how part data was interpolated), in block order */
+  notes?: string[];
 };
 
 /** The composite response. */

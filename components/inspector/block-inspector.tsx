@@ -2,7 +2,7 @@
 
 import { useCallback, useMemo, useState } from "react";
 import type { Scenario } from "@/engine/types";
-import { Badge, Button, Field, Input } from "@/components/ui";
+import { Badge, Button, Field, Input, Select } from "@/components/ui";
 import { kindSummary, paramsOf, portLabelsOf, blockTitle } from "@/lib/browser/catalogue";
 import { evaluateQuantity } from "@/lib/browser/expressions";
 import { readParamInput, valueToText } from "@/lib/browser/param-input";
@@ -54,6 +54,7 @@ export function BlockInspector({ scenario, blockId, parts, readOnly, scope, rese
         scope={scope}
         commit={commit}
       />
+      {block.kind === "touchstone" ? <ActivityField scenario={scenario} block={block} parts={parts} readOnly={readOnly} commit={commit} /> : null}
       <PortList scenario={scenario} block={block} parts={parts} readOnly={readOnly} commit={commit} notify={notify} />
     </section>
   );
@@ -75,6 +76,55 @@ function Header({ block, parts }: { block: WorkspaceBlock; parts: readonly PartS
         </p>
       ) : null}
     </div>
+  );
+}
+
+const ACTIVITY_OPTIONS = [
+  { value: "auto", label: "From its data (active when it shows gain)" },
+  { value: "active", label: "Active (amplifier): check stability" },
+  { value: "passive", label: "Passive: warn when its data shows gain" },
+];
+
+/** The `active` flag of a part block: automatic from the data, or set either way, with what the data shows. */
+function ActivityField({
+  scenario,
+  block,
+  parts,
+  readOnly,
+  commit,
+}: {
+  scenario: Scenario;
+  block: WorkspaceBlock;
+  parts: readonly PartSummary[];
+  readOnly: boolean;
+  commit: BlockInspectorProps["commit"];
+}) {
+  const part = findPart(block, parts);
+  const value = block.active === true ? "active" : block.active === false ? "passive" : "auto";
+  const hint = part?.active ? `Active by default: ${part.activeReason ?? "its data shows gain"}.` : part ? "Passive by default: its data shows no gain." : undefined;
+  return (
+    <Field label="Active or passive" hint={hint}>
+      <Select
+        value={value}
+        disabled={readOnly}
+        options={ACTIVITY_OPTIONS}
+        onChange={(e) => {
+          const v = e.target.value;
+          if (v !== "auto") {
+            commit(updateBlock(scenario, block.id, { active: v === "active" }, parts), `${block.id}.active`);
+            return;
+          }
+          // automatic: the key goes, so that the saved scenario says nothing rather than `active: undefined`
+          const blocks = scenario.blocks.map((b) => {
+            if (b.id !== block.id) return b;
+            const { active: _dropped, ...rest } = b;
+            void _dropped;
+            return rest;
+          });
+          commit({ ...scenario, blocks }, `${block.id}.active`);
+        }}
+      />
+    </Field>
   );
 }
 

@@ -2,7 +2,7 @@
 
 import { useRef, useState, type FormEvent } from "react";
 import useSWR from "swr";
-import { Alert, Button, ConfirmDialog, EmptyState, Field, Input, Spinner, Table, TBody, Td, Th, THead, Tr, VerdictBadge } from "@/components/ui";
+import { Alert, Badge, Button, ConfirmDialog, EmptyState, Field, Input, Spinner, Table, TBody, Td, Th, THead, Tr, VerdictBadge } from "@/components/ui";
 import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import type { PartView } from "@/lib/domain/parts/types";
 import { formatHz } from "@/engine/format";
@@ -63,7 +63,14 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
                 <Td className="figures text-xs">{formatReference(p.referenceOhms)}</Td>
                 <Td>
                   <div className="flex flex-col items-start gap-0.5">
-                    <VerdictBadge verdict={p.passivity} label={p.passivity === "pass" ? "Passive" : "Active"} />
+                    {p.active ? (
+                      <Badge tone="neutral" title={p.activeReason ?? undefined} data-active="true">
+                        Active part
+                      </Badge>
+                    ) : (
+                      <VerdictBadge verdict={p.passivity} label={p.passivity === "pass" ? "Passive" : "Active"} />
+                    )}
+                    {p.active && p.activeReason ? <span className="text-[11px] text-muted">{p.activeReason}; checked for stability</span> : null}
                     <span className="figures text-[11px] text-muted" title={`at ${formatHz(p.maxSingularHz)}`}>
                       σmax {p.maxSingular.toFixed(4)}
                     </span>

@@ -355,6 +355,15 @@ function Warnings({ result, z0 }: { result: Solved; z0: number }) {
           ))}
         </ul>
       )}
+      {result.notes.length > 0 ? (
+        <ul className="flex flex-col gap-1 text-sm text-muted" aria-label="Notes">
+          {result.notes.map((note) => (
+            <li key={`n:${note}`} className="border-l-2 border-rule pl-2">
+              {note}
+            </li>
+          ))}
+        </ul>
+      ) : null}
     </section>
   );
 }

@@ -52,7 +52,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
     revalidateOnFocus: true,
   });
   const parts = useMemo<PartSummary[]>(
-    () => (partsData?.parts ?? []).map((p) => ({ id: p.id, name: p.name, fileName: p.fileName, ports: p.ports, text: p.text })),
+    () => (partsData?.parts ?? []).map((p) => ({ id: p.id, name: p.name, fileName: p.fileName, ports: p.ports, text: p.text, active: p.active, activeReason: p.activeReason })),
     [partsData],
   );
 

@@ -15,7 +15,9 @@
  * prefactor keep the most transmission). A matched reciprocal lossless four-port cannot leak to its
  * isolated port (Pozar sec. 7.1), so finite directivity or isolation costs transmission: passivate
  * reduces α, β (or the hybrid's transmissions) just enough and a warning says by how much; the
- * leakage stays exactly as entered. All three are lossless (SᴴS = I) when ideal with no excess loss.
+ * leakage stays exactly as entered. For the coupler that reduction lowers the coupled wave while the
+ * isolated-port leakage stays, so its directivity (isolation − coupling) falls by the same amount: the
+ * warning then gives the coupling and directivity the model now has next to the entered ones. All three are lossless (SᴴS = I) when ideal with no excess loss.
  */
 import type { ParamReader } from "./params";
 import { dbToAmplitude } from "./params";
@@ -43,7 +45,18 @@ export function evaluateCoupler(r: ParamReader, nf: number): ModelOutput {
   setPair(p, 4, 0, 3, 0, leak);
   setPair(p, 4, 1, 2, 0, leak);
   const res = passivate(t, p, 4);
-  return { s: broadcastMatrix(res.s, 4, nf), warnings: passivityWarnings(r.blockId, res, "directivity_db") };
+  const warnings = passivityWarnings(r.blockId, res, "directivity_db");
+  if (res.parasiticScale === 1 && res.transmissionScale < 1 - 1e-12 && leak > 0) {
+    // coupling |S31| = κ·l·β while |S41| stays β·10^(−D/20): both coupling and directivity move by −20·log10 κ
+    const shift = -20 * Math.log10(res.transmissionScale);
+    const c = r.number("coupling_db") + r.number("excess_loss_db");
+    const d = r.number("directivity_db");
+    warnings.push(
+      `block ${r.blockId}: coupling is now ${(c + shift).toFixed(3)} dB and directivity ${(d - shift).toFixed(3)} dB ` +
+        `(as entered, with excess loss: ${c.toFixed(3)} dB and ${d.toFixed(3)} dB); the isolated-port leakage stays as entered`,
+    );
+  }
+  return { s: broadcastMatrix(res.s, 4, nf), warnings };
 }
 
 /**

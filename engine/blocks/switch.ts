@@ -16,13 +16,16 @@
  * these choices keep the most transmission once passivity is enforced. Passive for every legal value: when
  * t and the leakage together exceed the energy balance (for example IL = 0 with finite isolation),
  * the selected path (and the reflective Γ with it) is reduced by passivate and a warning says by how
- * much; the leakage stays as entered. Lossless: the reflective switch with ISO = ∞ and IL = 0.
+ * much; the leakage stays as entered. Isolation is never reported better than entered: when the leakage
+ * alone would be active (many throws with very little isolation, e.g. 8 throws at 3 dB), no passive switch
+ * has it and the block is refused, naming isolation_db and the least isolation that works for that many
+ * throws, rather than scaled down. Lossless: the reflective switch with ISO = ∞ and IL = 0.
  * Reciprocal.
  */
 import type { ParamReader } from "./params";
 import { dbToAmplitude } from "./params";
 import { broadcastMatrix, setEntry, setPair, zeroMatrix } from "./cmatrix";
-import { passivate } from "./passivity";
+import { largestSingularValue, passivate, powerGainBelow } from "./passivity";
 import { passivityWarnings, type ModelOutput } from "./model";
 import { EngineInputError } from "../types";
 
@@ -57,8 +60,28 @@ export function evaluateSwitch(r: ParamReader, state: unknown, nf: number): Mode
   const reflective = r.choice<"absorptive" | "reflective">("off_state") === "reflective";
   const n = throws + 1;
   const tm = zeroMatrix(n);
-  const pm = zeroMatrix(n);
+  const pm = leakage(throws, sel, reflective, iota);
   setPair(tm, n, 0, sel, t, 0);
+  for (let k = 1; k <= throws; k++) {
+    if (k !== sel && reflective) setEntry(tm, n, k, k, t, 0);
+  }
+  if (!powerGainBelow(pm, n, 1)) {
+    const sigma = largestSingularValue(pm, n, 1e-8);
+    throw r.error(
+      "isolation_db",
+      `${r.number("isolation_db")} dB isolation on a ${throws}-throw switch leaks more power than enters it (largest singular value ` +
+        `of the leakage alone ${sigma.toFixed(6)} > 1), so no passive switch has it; expected at least ` +
+        `${leastIsolationDb(throws, sel, reflective).toFixed(2)} dB for ${throws} throws`,
+    );
+  }
+  const res = passivate(tm, pm, n);
+  return { s: broadcastMatrix(res.s, n, nf), warnings: passivityWarnings(r.blockId, res, "isolation_db") };
+}
+
+/** The leakage matrix of a switch (every term but the selected path and the reflective Γ) for leakage ι. */
+function leakage(throws: number, sel: number, reflective: boolean, iota: number): Float64Array {
+  const n = throws + 1;
+  const pm = zeroMatrix(n);
   for (let k = 1; k <= throws; k++) {
     if (k === sel) continue;
     setPair(pm, n, 0, k, iota, 0);
@@ -67,8 +90,21 @@ export function evaluateSwitch(r: ParamReader, state: unknown, nf: number): Mode
       if (j === sel) continue;
       setPair(pm, n, j, k, reflective ? -iota * iota : iota * iota, 0);
     }
-    if (reflective) setEntry(tm, n, k, k, t, 0);
   }
-  const res = passivate(tm, pm, n);
-  return { s: broadcastMatrix(res.s, n, nf), warnings: passivityWarnings(r.blockId, res, "isolation_db") };
+  return pm;
+}
+
+/**
+ * Least isolation (dB, rounded up to 0.01 dB) whose leakage alone is passive, by bisection: every entry of the
+ * leakage grows with ι, and so does its largest singular value.
+ */
+function leastIsolationDb(throws: number, sel: number, reflective: boolean): number {
+  let lo = 0; // active
+  let hi = 100; // passive
+  for (let it = 0; it < 40; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (powerGainBelow(leakage(throws, sel, reflective, dbToAmplitude(mid)), throws + 1, 1)) hi = mid;
+    else lo = mid;
+  }
+  return Math.ceil(hi * 100) / 100;
 }

@@ -1,10 +1,14 @@
 // Selection of plan points inside a band (inclusive edges with a relative tolerance) and port lookup.
 import { formatHz } from "../format";
+import { FREQUENCY_TOLERANCE, withinRange } from "../scenario/frequency-tolerance";
 import { EngineInputError } from "../types";
 import type { Solution } from "../types";
 
-/** Relative tolerance on band edges, so that 2.4e9 from a plan step still counts as inside [2.4e9, …]. */
-export const BAND_EDGE_TOLERANCE = 1e-12;
+/**
+ * Relative tolerance on band edges, so that 2.4e9 from a plan step still counts as inside [2.4e9, …]: the engine's
+ * one frequency tolerance (FREQUENCY_TOLERANCE, engine/scenario/frequency-tolerance.ts), also used for part coverage.
+ */
+export const BAND_EDGE_TOLERANCE = FREQUENCY_TOLERANCE;
 
 /**
  * Indices of the plan frequencies inside [lo, hi], edges inclusive within BAND_EDGE_TOLERANCE.
@@ -19,12 +23,9 @@ export function bandIndices(frequencies: ArrayLike<number>, band: readonly [numb
   const [lo, hi] = band;
   if (!Number.isFinite(lo) || !Number.isFinite(hi)) throw new EngineInputError(where, `band [${lo}, ${hi}] Hz is not finite`);
   if (lo > hi) throw new EngineInputError(where, `band [${lo}, ${hi}] Hz starts above its stop`);
-  const loT = lo - Math.abs(lo) * BAND_EDGE_TOLERANCE;
-  const hiT = hi + Math.abs(hi) * BAND_EDGE_TOLERANCE;
   const out: number[] = [];
   for (let k = 0; k < frequencies.length; k++) {
-    const f = frequencies[k];
-    if (f >= loT && f <= hiT) out.push(k);
+    if (withinRange(frequencies[k], lo, hi)) out.push(k);
   }
   if (out.length === 0) {
     throw new EngineInputError(where, `band ${formatHz(lo)}–${formatHz(hi)} holds no point of the frequency plan (${formatHz(frequencies[0])}–${formatHz(frequencies[frequencies.length - 1])})`);

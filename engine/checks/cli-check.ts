@@ -7,7 +7,7 @@ import { runAllChecks, type AllChecksResult } from "./run-all";
 export const CHECK_USAGE = [
   "portolan check <scenario.json> [--json] [--max-memory SIZE]",
   "  Solves the scenario, runs its rules and the built-in checks (power ledger closure, passivity,",
-  "  reciprocity where expected, amplifier stability) and prints a table of verdicts.",
+  "  reciprocity where expected, stability of active blocks and of a composite holding one) and prints a table of verdicts.",
   "  --json         print every result as JSON instead",
   MAX_MEMORY_USAGE,
   "  Exit codes: 0 all pass (warnings allowed), 1 any check fails, 2 bad input or over --max-memory",
@@ -34,13 +34,14 @@ export function formatCheckTable(r: AllChecksResult): string {
   const q = r.dataQuality;
   rows.push([q.passivity, "passivity", `composite σmax ${q.composite.maxSingular.toFixed(9)} at ${formatHz(q.composite.maxSingularHz)}`]);
   rows.push([q.reciprocity, "reciprocity", `composite max|Sij−Sji| ${q.composite.reciprocityError.toExponential(2)}${q.composite.expectReciprocal ? "" : " (not expected)"}`]);
-  for (const s of r.stability) rows.push([s.verdict, `stability ${s.subject}`, `min K ${s.minK === null ? "∞" : s.minK.toFixed(3)}, min μ ${s.minMu === null ? "∞" : s.minMu.toFixed(3)}`]);
+  for (const s of r.stability) rows.push([s.verdict, `stability ${s.subject}`, `min K ${s.minK === null ? "∞" : s.minK.toFixed(3)}, max |Δ| ${s.maxDelta.toFixed(3)}, min μ ${s.minMu === null ? "∞" : s.minMu.toFixed(3)}`]);
   const w0 = Math.max(...rows.map((x) => x[0].length));
   const w1 = Math.max(...rows.map((x) => x[1].length));
   for (const [a, b, c] of rows) lines.push(`${(a === "verdict" ? a : a.toUpperCase()).padEnd(w0)}  ${b.padEnd(w1)}  ${c}`);
   const notes = r.checks.filter((c) => c.verdict !== "pass").flatMap((c) => c.messages.slice(0, 3).map((m) => `  ${m}`));
   if (notes.length > 0) lines.push("", "Details:", ...notes);
   if (r.warnings.length > 0) lines.push("", "Warnings:", ...r.warnings.map((w) => `  ${w}`));
+  if (r.notes.length > 0) lines.push("", "Notes:", ...r.notes.map((w) => `  ${w}`));
   return `${lines.join("\n")}\n`;
 }
 

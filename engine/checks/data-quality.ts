@@ -2,6 +2,7 @@
 // every block and of the composite (Pozar, Microwave Engineering 4th ed., §4.3, unitary and symmetric S).
 import type { EvaluatedBlock, SData, Solution } from "../types";
 import { maxSingularValue, reciprocityError, unitarityError } from "../linalg";
+import { isActiveBlock } from "../system/activity";
 import { bandIndices, formatHz } from "./band";
 import type { Verdict } from "./types";
 
@@ -15,6 +16,8 @@ export type QualityFigures = {
   subject: string;
   kind: string;
   measured: boolean;
+  /** why the block counts as active (model, scenario flag or gain in its data); null when it does not */
+  activeReason: string | null;
   expectPassive: boolean;
   expectReciprocal: boolean;
   /** largest singular value of S over the band and where */
@@ -45,7 +48,7 @@ export type DataQualityResult = {
   messages: string[];
 };
 
-function figures(subject: string, kind: string, s: SData, ks: number[], freqs: Float64Array, measured: boolean, expectPassive: boolean, expectReciprocal: boolean, tol: number, failVerdict: Verdict): QualityFigures {
+function figures(subject: string, kind: string, s: SData, ks: number[], freqs: Float64Array, measured: boolean, activeReason: string | null, expectPassive: boolean, expectReciprocal: boolean, tol: number, failVerdict: Verdict): QualityFigures {
   let maxS = 0, maxSHz = freqs[ks[0]], uni = 0, uniHz = freqs[ks[0]], rec = 0, recHz = freqs[ks[0]];
   const activeHz: number[] = [], nonReciprocalHz: number[] = [];
   let activeCount = 0, nonReciprocalCount = 0;
@@ -70,7 +73,7 @@ function figures(subject: string, kind: string, s: SData, ks: number[], freqs: F
     if (nonReciprocalCount > 0) messages.push(`${subject}: S is not reciprocal (max |Sij − Sji| ${rec.toExponential(2)} at ${formatHz(recHz)}) at ${nonReciprocalCount} point${nonReciprocalCount === 1 ? "" : "s"} although it should be`);
   }
   return {
-    subject, kind, measured, expectPassive, expectReciprocal,
+    subject, kind, measured, activeReason, expectPassive, expectReciprocal,
     maxSingular: maxS, maxSingularHz: maxSHz, unitarityError: uni, unitarityHz: uniHz, reciprocityError: rec, reciprocityHz: recHz,
     activeHz, activeCount, nonReciprocalHz, nonReciprocalCount, passivity, reciprocity, messages,
   };
@@ -88,8 +91,10 @@ function worse(a: Verdict, b: Verdict | null): Verdict {
  * Expectations: a built-in model is expected passive/reciprocal as its traits say and fails beyond
  * MODEL_TOLERANCE; measured data (touchstone) is expected passive and reciprocal and only warns beyond
  * MEASURED_TOLERANCE (a measured active or non-reciprocal device is possible, but usually a sign of
- * calibration error). The composite is expected passive (reciprocal) when every block is; it fails beyond
- * MODEL_TOLERANCE, or warns when measured blocks are involved.
+ * calibration error) — unless the part is active (`active: true` on its block, or gain of more than
+ * ACTIVE_GAIN_DB in its data with no `active: false`): an active part is expected neither passive nor
+ * reciprocal, and gets the stability check instead. The composite is expected passive (reciprocal) when every
+ * block is; it fails beyond MODEL_TOLERANCE, or warns when measured blocks are involved.
  *
  * @param solution solved composite
  * @param band optional [lo, hi] Hz, default the whole plan
@@ -100,15 +105,21 @@ export function dataQuality(solution: Solution, band?: [number, number]): DataQu
   const ks = band ? bandIndices(freqs, band, "band") : Array.from({ length: freqs.length }, (_, k) => k);
   const blocks = solution.system.blocks.map((b: EvaluatedBlock) => {
     const measured = b.kind === "touchstone";
-    return measured
-      ? figures(b.id, b.kind, b.s, ks, freqs, true, true, true, MEASURED_TOLERANCE, "warn")
-      : figures(b.id, b.kind, b.s, ks, freqs, false, b.traits.passive, b.traits.reciprocal, MODEL_TOLERANCE, "fail");
+    const activeReason = isActiveBlock(b) ? (b.active?.reason ?? `the ${b.kind} model has gain`) : null;
+    if (measured) {
+      const passive = activeReason === null;
+      return figures(b.id, b.kind, b.s, ks, freqs, true, activeReason, passive, passive, MEASURED_TOLERANCE, "warn");
+    }
+    return figures(b.id, b.kind, b.s, ks, freqs, false, activeReason, b.traits.passive, b.traits.reciprocal, MODEL_TOLERANCE, "fail");
   });
   const anyMeasured = blocks.some((b) => b.measured);
-  const compositePassive = blocks.every((b) => (b.measured ? b.activeCount === 0 : b.expectPassive));
-  const compositeReciprocal = blocks.every((b) => (b.measured ? b.nonReciprocalCount === 0 : b.expectReciprocal));
+  const compositePassive = blocks.every((b) => b.expectPassive && (!b.measured || b.activeCount === 0));
+  const compositeReciprocal = blocks.every((b) => b.expectReciprocal && (!b.measured || b.nonReciprocalCount === 0));
+  const activeBlocks = blocks.filter((b) => b.activeReason !== null).map((b) => b.subject);
   const composite = figures(
-    "composite", "composite", solution.s, ks, freqs, anyMeasured, compositePassive, compositeReciprocal,
+    "composite", "composite", solution.s, ks, freqs, anyMeasured,
+    activeBlocks.length > 0 ? `it holds active block${activeBlocks.length === 1 ? "" : "s"} ${activeBlocks.join(", ")}` : null,
+    compositePassive, compositeReciprocal,
     anyMeasured ? MEASURED_TOLERANCE : MODEL_TOLERANCE, anyMeasured ? "warn" : "fail",
   );
   let passivity: Verdict = composite.passivity ?? "pass";
@@ -117,7 +128,11 @@ export function dataQuality(solution: Solution, band?: [number, number]): DataQu
     passivity = worse(passivity, b.passivity);
     reciprocity = worse(reciprocity, b.reciprocity);
   }
-  const messages = [...blocks.flatMap((b) => b.messages), ...composite.messages];
+  const messages = [
+    ...blocks.filter((b) => b.measured && b.activeReason !== null).map((b) => `${b.subject}: active part (${b.activeReason}); not expected to be passive or reciprocal, checked for stability instead`),
+    ...blocks.flatMap((b) => b.messages),
+    ...composite.messages,
+  ];
   if (!compositePassive) messages.push("composite: not expected to be passive (it holds an amplifier or active measured data); largest singular value reported only");
   if (!compositeReciprocal) messages.push("composite: not expected to be reciprocal (it holds a non-reciprocal block)");
   messages.unshift(`passivity ${passivity}, reciprocity ${reciprocity}; composite largest singular value ${composite.maxSingular.toPrecision(10)} at ${formatHz(composite.maxSingularHz)}, max |Sij − Sji| ${composite.reciprocityError.toExponential(2)}`);

@@ -11,5 +11,5 @@ export { leakTrace, idealS, LEAK_EDGE_FLOOR, type LeakTraceResult, type LeakTrac
 export { sliceS, sliceSystem } from "./slice-system";
 export { stateSweep, sweepSwitches, switchStates, combinationStates, countCombinations, ruleIndices, MAX_SWEEP_COMBINATIONS, type StateSweepResult, type SweepRow, type SweepCell } from "./state-sweep";
 export { driveCheck, defaultDriveSources, DRIVE_CAUTIONS, type DriveResult, type DriveOptions, type DriveSource, type DrivePortResult, type DriveBlockResult } from "./drive";
-export { stabilityOf, stabilityOfStack, stabilityCheck, type StabilityPoint, type StabilityResult } from "./stability";
+export { stabilityOf, stabilityOfStack, stabilityCheck, PAIR_POINTS_PORT_LIMIT, type StabilityPoint, type StabilityResult } from "./stability";
 export { runAllChecks, worstVerdict, type AllChecksResult } from "./run-all";

@@ -1,5 +1,5 @@
 // Every rule of a scenario and the built-in checks (ledger closure, passivity, reciprocity, stability of
-// amplifiers) in one call, with one overall verdict: the web app's "run all rules", the CLI and bundles.
+// active blocks) in one call, with one overall verdict: the web app's "run all rules", the CLI and bundles.
 import type { PreparedSystem, Scenario, Solution } from "../types";
 import { dataQuality, type DataQualityResult } from "./data-quality";
 import { powerLedgers, type LedgerResult } from "./power-ledger";
@@ -18,6 +18,8 @@ export type AllChecksResult = {
   /** one line per check, rules first, in a stable order */
   checks: CheckSummary[];
   warnings: string[];
+  /** information beside the results, such as how part data was interpolated onto the plan */
+  notes: string[];
 };
 
 /**
@@ -35,8 +37,9 @@ export function worstVerdict(verdicts: Verdict[]): Verdict {
  * - every rule (evaluateRule);
  * - the power ledger of every system port (closure within 1e-9);
  * - passivity and reciprocity of every block and of the composite where expected (dataQuality);
- * - stability of every amplifier block, and of a two-port composite that holds one (verdict "warn" when
- *   only conditionally stable, since the terminations decide).
+ * - stability of every active 2-port block (amplifiers, and measured parts marked active or whose data shows
+ *   gain), and of the composite between every two system ports when it holds an active block (verdict "fail"
+ *   when potentially unstable: K ≤ 1 or |Δ| ≥ 1 at some point).
  *
  * @param scenario the scenario (its rules are run)
  * @param prepared the prepared system (solution.system when solved from it)
@@ -66,5 +69,6 @@ export function runAllChecks(scenario: Scenario, prepared: PreparedSystem, solut
     stability,
     checks,
     warnings: [...solution.warnings],
+    notes: [...(prepared.notes ?? [])],
   };
 }

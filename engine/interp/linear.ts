@@ -1,6 +1,7 @@
 // Piecewise-linear interpolation of real and imaginary parts between neighbouring data points (the default
 // of the reference library scikit-rf 0.15.4, Network.interpolate with coords='cart' and scipy's linear interp1d).
 import { formatHz } from "../format";
+import { FREQUENCY_TOLERANCE, sameFrequency } from "../scenario/frequency-tolerance";
 import { EngineInputError, type SData } from "../types";
 
 export type InterpolateOptions = {
@@ -14,6 +15,8 @@ export type InterpolateResult = {
   s: SData;
   /** how many plan points lay below the first / above the last data frequency and were held */
   extrapolated: { below: number; above: number };
+  /** how many plan points lay strictly between two data frequencies (not on one within the tolerance) */
+  interpolated: number;
 };
 
 /**
@@ -21,7 +24,9 @@ export type InterpolateResult = {
  *
  * Method: for a plan frequency f between data frequencies f0 < f1, every S entry is
  * (1 − w)·S(f0) + w·S(f1) with w = (f − f0)/(f1 − f0), applied to real and imaginary parts separately.
- * Plan points equal to a data frequency get that data point's values exactly.
+ * Plan points equal to a data frequency get that data point's values exactly; "equal" and "outside the data" are
+ * decided with the engine's one relative tolerance FREQUENCY_TOLERANCE (1e-12), so that 4.1e9 from a plan and
+ * 4.1 GHz from a file are the same point whichever route rounded them.
  *
  * Shapes: `s` has `from.length` frequencies (Hz, strictly increasing); `to` is the plan (Hz, any order,
  * O(nf + m) when increasing). Plan points outside [from[0], from[last]] raise EngineInputError naming the part,
@@ -53,14 +58,17 @@ export function interpolateS(s: SData, from: Float64Array, to: Float64Array, opt
   }
   const lo = from[0];
   const hi = from[nf - 1];
+  // coverage edges widened by the tolerance: a plan point this close to an edge takes the edge's values
+  const loT = lo - Math.abs(lo) * FREQUENCY_TOLERANCE;
+  const hiT = hi + Math.abs(hi) * FREQUENCY_TOLERANCE;
   let below = 0;
   let above = 0;
   let planMin = Infinity;
   let planMax = -Infinity;
   for (let i = 0; i < m; i++) {
     const f = to[i];
-    if (f < lo) below++;
-    if (f > hi) above++;
+    if (f < loT) below++;
+    if (f > hiT) above++;
     if (f < planMin) planMin = f;
     if (f > planMax) planMax = f;
   }
@@ -76,14 +84,15 @@ export function interpolateS(s: SData, from: Float64Array, to: Float64Array, opt
   const src = s.data;
   const out = new Float64Array(m * stride);
   let seg = 0; // data interval [from[seg], from[seg + 1]] of the previous plan point
+  let interpolated = 0;
   for (let i = 0; i < m; i++) {
     const f = to[i];
     const o = i * stride;
-    if (f <= lo) {
+    if (f <= lo || sameFrequency(f, lo)) {
       copyPoint(out, o, src, 0, stride);
       continue;
     }
-    if (f >= hi) {
+    if (f >= hi || sameFrequency(f, hi)) {
       copyPoint(out, o, src, (nf - 1) * stride, stride);
       continue;
     }
@@ -92,17 +101,22 @@ export function interpolateS(s: SData, from: Float64Array, to: Float64Array, opt
     while (from[seg + 1] < f) seg++;
     const f0 = from[seg];
     const f1 = from[seg + 1];
-    if (f === f1) {
+    if (sameFrequency(f, f1)) {
       copyPoint(out, o, src, (seg + 1) * stride, stride);
       continue;
     }
+    if (sameFrequency(f, f0)) {
+      copyPoint(out, o, src, seg * stride, stride);
+      continue;
+    }
+    interpolated++;
     const w = (f - f0) / (f1 - f0);
     const v = 1 - w;
     const a = seg * stride;
     const b = a + stride;
     for (let q = 0; q < stride; q++) out[o + q] = v * src[a + q] + w * src[b + q];
   }
-  return { s: { n, nf: m, data: out }, extrapolated: { below, above } };
+  return { s: { n, nf: m, data: out }, extrapolated: { below, above }, interpolated };
 }
 
 function copyPoint(out: Float64Array, o: number, src: Float64Array, a: number, stride: number): void {

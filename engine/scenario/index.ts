@@ -1,5 +1,6 @@
 export { parseScenario, parseScenarioText, splitPortRef, SCENARIO_FORMAT } from "./parse-scenario";
 export { frequencyPlan } from "./frequency-plan";
+export { FREQUENCY_TOLERANCE, sameFrequency, withinRange } from "./frequency-tolerance";
 export { formatJsonPath } from "./json-path";
 export { placeBlockError } from "./block-errors";
 export {

@@ -78,6 +78,14 @@ function checkBlocks(scenario: Scenario, source: PartSource): Map<string, { inde
         throw new EngineInputError(block.file !== undefined ? `${where}.file` : `${where}.data`, `only touchstone blocks take part data; this block is a ${block.kind}`);
       }
     }
+    if (block.active !== undefined && block.kind !== "touchstone" && block.active !== (block.kind === "amplifier")) {
+      throw new EngineInputError(
+        `${where}.active`,
+        block.kind === "amplifier"
+          ? "an amplifier is active by its model; `active: false` applies to measured parts (touchstone)"
+          : `a ${block.kind} is passive by its model; \`active: true\` marks measured parts (touchstone), and the amplifier is active by its model`,
+      );
+    }
     if (block.state !== undefined && block.kind !== "switch") {
       throw new EngineInputError(`${where}.state`, `only switch blocks have a state; this block is a ${block.kind}`);
     }

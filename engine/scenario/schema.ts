@@ -60,6 +60,8 @@ export const BlockSchema = z.object({
   data: z.string().min(1).optional(),
   ports: z.number().int().min(1).max(1024).optional(),
   rating_dbm: finite.optional(),
+  /** touchstone parts: marks the part active (or, false, passive); built-in kinds may only repeat their model */
+  active: z.boolean().optional(),
   position: z.object({ x: finite, y: finite }).optional(),
   label: z.string().optional(),
   /** the expressions the user typed for params (the web app evaluates them; the engine ignores them) */

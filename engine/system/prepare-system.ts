@@ -9,6 +9,7 @@ import { renormalize, z0Vector } from "../renorm";
 import { placeBlockError } from "../scenario/block-errors";
 import { frequencyPlan } from "../scenario/frequency-plan";
 import { parseScenario } from "../scenario/parse-scenario";
+import { sameFrequency } from "../scenario/frequency-tolerance";
 import {
   EngineInputError,
   type BlockSpec,
@@ -17,6 +18,7 @@ import {
   type Scenario,
 } from "../types";
 import { checkSolveSize, estimateValidScenario } from "./estimate";
+import { partActivity } from "./activity";
 import { loadPart, type PartSource } from "./parts";
 import { resolveTopology } from "./topology";
 
@@ -31,6 +33,18 @@ export type PrepareOptions = PartSource & {
 function sameReferences(z0: Float64Array, target: number): boolean {
   for (let p = 0; p < z0.length; p += 2) if (z0[p] !== target || z0[p + 1] !== 0) return false;
   return true;
+}
+
+/**
+ * The note beside a part whose data is interpolated: the method (linear in real and imaginary parts, the default
+ * of the reference library scikit-rf 0.15.4) and that it applies to the data already renormalised to the system Z0.
+ */
+function interpolationNote(id: string, count: number, planPoints: number, fileZ0: Float64Array, z0: number): string {
+  const refs = [...new Set(Array.from({ length: fileZ0.length / 2 }, (_, p) => fileZ0[2 * p]))];
+  const renorm = sameReferences(fileZ0, z0)
+    ? `its data is already referenced to the system Z0 (${z0} Ω)`
+    : `after renormalising its data from ${refs.join(", ")} Ω to the system Z0 (${z0} Ω)`;
+  return `block ${id}: part data interpolated onto ${count} of ${planPoints} plan points, linearly in real and imaginary parts, ${renorm}`;
 }
 
 /** Evaluates a touchstone block: parse (cached), renormalise to the system Z0, interpolate onto the plan. */
@@ -48,9 +62,10 @@ function evaluatePart(
   const target = z0Vector(z0, n);
   const referenced = sameReferences(part.z0, z0) ? part.s : renormalize(null, part.s, part.z0, target, "power");
   const warnings: string[] = [];
+  const notes: string[] = [];
   let s = referenced;
   let identical = part.frequencies.length === frequencies.length;
-  for (let k = 0; identical && k < frequencies.length; k++) identical = part.frequencies[k] === frequencies[k];
+  for (let k = 0; identical && k < frequencies.length; k++) identical = sameFrequency(part.frequencies[k], frequencies[k]);
   if (!identical) {
     const mode = scenario.extrapolate ?? "error";
     let result;
@@ -67,6 +82,7 @@ function evaluatePart(
     const fLo = part.frequencies[0];
     const fHi = part.frequencies[part.frequencies.length - 1];
     const { below, above } = result.extrapolated;
+    if (result.interpolated > 0) notes.push(interpolationNote(block.id, result.interpolated, frequencies.length, part.z0, z0));
     if (below > 0 || above > 0) {
       const counts = [below > 0 ? `${below} below` : "", above > 0 ? `${above} above` : ""].filter(Boolean).join(" and ");
       warnings.push(
@@ -74,6 +90,7 @@ function evaluatePart(
       );
     }
   }
+  const active = partActivity(block, part);
   return {
     id: block.id,
     kind: "touchstone",
@@ -81,7 +98,9 @@ function evaluatePart(
     // measured data is checked by the checks, not assumed passive or reciprocal
     traits: { passive: false, reciprocal: false, radiates: false },
     rating_dbm: block.rating_dbm,
+    ...(active ? { active } : {}),
     warnings,
+    notes,
   };
 }
 
@@ -112,6 +131,7 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
   const z0 = scenario.z0;
   if (opts.maxBytes !== undefined && opts.maxBytes !== Infinity) checkSolveSize(estimateValidScenario(scenario, frequencies.length, opts), opts.maxBytes);
   const warnings: string[] = [];
+  const notes: string[] = [];
   const blocks: EvaluatedBlock[] = [];
 
   scenario.blocks.forEach((spec, i) => {
@@ -132,6 +152,7 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
         s: result.s,
         traits: result.traits,
         rating_dbm: spec.rating_dbm,
+        ...(result.traits.passive ? {} : { active: { source: "model" as const, reason: `the ${spec.kind} model has gain` } }),
         warnings: result.warnings.map((w) => (w.startsWith(`block ${spec.id}`) ? w : `block ${spec.id}: ${w}`)),
       };
     }
@@ -140,8 +161,9 @@ export function prepareSystem(scenario: Scenario, opts: PrepareOptions = {}): Pr
     }
     blocks.push(evaluated);
     warnings.push(...evaluated.warnings);
+    if (evaluated.notes) notes.push(...evaluated.notes);
   });
   const topology = resolveTopology(scenario, blocks.map((b) => b.s.n));
   warnings.push(...topology.warnings);
-  return { scenario, frequencies, z0, blocks, ...topology, warnings };
+  return { scenario, frequencies, z0, blocks, ...topology, warnings, notes };
 }

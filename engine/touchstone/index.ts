@@ -3,4 +3,4 @@ export { parseTouchstone, type TouchstoneData, type ParseOptions, type DataForma
 export { writeTouchstone, type WriteInput, type WriteOptions } from "./write";
 export { writeCompositeTouchstone, type CompositeData, type CompositeWriteOptions } from "./composite";
 export { TouchstoneError } from "./errors";
-export { parseDecimal, formatSignificant, formatFixed } from "./numbers";
+export { parseDecimal, scaleDecimal, compareDecimal, formatSignificant, formatFixed } from "./numbers";

@@ -3,7 +3,7 @@
 import type { SData, Z0Vector } from "../types";
 import { solveComplexInPlace } from "../linalg/solve";
 import { TouchstoneError } from "./errors";
-import { parseDecimal } from "./numbers";
+import { compareDecimal, parseDecimal, scaleDecimal } from "./numbers";
 
 export type FrequencyUnit = "Hz" | "kHz" | "MHz" | "GHz";
 export type DataFormat = "RI" | "MA" | "DB";
@@ -41,11 +41,13 @@ export type ParseOptions = {
   maxBytes?: number;
 };
 
+// unit and its power of ten: frequencies are converted to hertz by shifting the decimal exponent of the text
+// (scaleDecimal), never by a product, so "4.1" GHz is the double nearest 4.1e9 and matches a plan's 4.1e9.
 const UNITS: Record<string, [FrequencyUnit, number]> = {
-  hz: ["Hz", 1],
-  khz: ["kHz", 1e3],
-  mhz: ["MHz", 1e6],
-  ghz: ["GHz", 1e9],
+  hz: ["Hz", 0],
+  khz: ["kHz", 3],
+  mhz: ["MHz", 6],
+  ghz: ["GHz", 9],
 };
 
 type Section = "header" | "network" | "noise" | "information" | "done";
@@ -91,7 +93,7 @@ class Reader {
 
   private optionLine: number | null = null;
   private unit: FrequencyUnit = "GHz";
-  private unitScale = 1e9;
+  private unitExp = 9;
   private parameter: "S" | "Y" | "Z" = "S";
   private format: DataFormat = "MA";
   private resistance: number[] = [50];
@@ -111,7 +113,10 @@ class Reader {
   private recPos = 0;
   private values = new Float64Array(1024);
   private nValues = 0;
+  /** frequencies in Hz, converted exactly from the text */
   private readonly freqs: number[] = [];
+  private lastFreqText = "";
+  private lastFreqValue = -Infinity;
   private readonly recLines: number[] = [];
   private lastDataLine = 0;
   private lastContentLine = 0;
@@ -353,7 +358,7 @@ class Reader {
       const t = toks[i].toLowerCase();
       if (t in UNITS) {
         once("frequency unit");
-        [this.unit, this.unitScale] = UNITS[t];
+        [this.unit, this.unitExp] = UNITS[t];
       } else if (t === "s" || t === "y" || t === "z") {
         once("parameter");
         this.parameter = t.toUpperCase() as "S" | "Y" | "Z";
@@ -425,6 +430,7 @@ class Reader {
       this.startNetwork(lineNo);
     }
     const toks = content.split(/\s+/);
+    const firstPos = this.recPos;
     if (this.section === "noise") {
       this.noiseLine(lineNo, toks);
       return;
@@ -437,37 +443,9 @@ class Reader {
       const v = parseDecimal(tok);
       if (Number.isNaN(v)) this.fail(lineNo, `"${clip(tok)}" is not a finite number (value ${t + 1} on the line)`);
       if (this.recPos === 0) {
-        if (t !== 0) {
-          const startLine = this.recLines[this.recLines.length - 1];
-          this.fail(
-            lineNo,
-            `the data of the frequency on line ${startLine} ended in the middle of this line: each frequency needs ` +
-              `${recLen} values (the frequency, then ${plural((recLen - 1) / 2, "complex value")} as pairs) and starts on a new line, ` +
-              `so a line from ${startLine} to ${lineNo} has values missing or extra`,
-          );
-        }
-        const prev = this.freqs.length > 0 ? this.freqs[this.freqs.length - 1] : -Infinity;
-        if (this.version === "1.1" && n === 2 && this.freqs.length > 0 && v <= prev) {
-          // 1.1, 2-port: the first frequency that does not increase starts the noise parameters (§ "Noise Parameter Data").
-          this.section = "noise";
-          this.noiseLine(lineNo, toks);
-          return;
-        }
-        if (oneLine && toks.length !== recLen) {
-          this.fail(
-            lineNo,
-            `a ${n}-port data line needs ${recLen} values (the frequency, then ${plural((recLen - 1) / 2, "complex value")} as pairs); found ${toks.length}`,
-          );
-        }
-        if (v < 0) this.fail(lineNo, `negative frequency ${tok}`);
-        if (!(v > prev)) {
-          this.fail(lineNo, `frequency ${tok} ${this.unit} does not increase on the previous one (line ${this.recLines[this.recLines.length - 1]}); frequencies must be in increasing order`);
-        }
-        if (this.declaredFreqs !== null && this.freqs.length === this.declaredFreqs) {
-          this.fail(lineNo, `more frequencies than the ${this.declaredFreqs} announced by [Number of Frequencies] on line ${this.declaredFreqsLine}`);
-        }
-        this.freqs.push(v);
-        this.recLines.push(lineNo);
+        if (this.startRecord(lineNo, toks, t, tok, v)) return;
+      } else if (this.format === "DB" && this.recPos % 2 === 1 && !Number.isFinite(Math.pow(10, v / 20))) {
+        this.fail(lineNo, `magnitude ${clip(tok)} dB is too large: 10^(${clip(tok)}/20) overflows (value ${t + 1} on the line)`);
       }
       this.push(v);
       this.recPos++;
@@ -479,8 +457,90 @@ class Reader {
       if (pairs % 2 !== 0) {
         this.fail(lineNo, `${pairs} values ${startsRecord ? "after the frequency" : "on the line"}: values come in pairs (RI, MA or DB)`);
       }
+      this.checkRowStarts(lineNo, firstPos === 0 ? 1 : firstPos, this.recPos === 0 ? recLen : this.recPos);
     }
     this.lastDataLine = lineNo;
+  }
+
+  /**
+   * 1.1 files of 3 or more ports: each row of the matrix starts on a new line (§ "Network Data", 3-port and larger),
+   * wrapped at four pairs per line. A line may hold several whole rows, but no row may start in its middle
+   * unless the line both starts and ends on a row boundary: otherwise a short row followed by a long one would
+   * keep the value count right and be silently read into the wrong elements.
+   * `from` and `to` are the record positions (1 = first value after the frequency) the line covered.
+   */
+  private checkRowStarts(lineNo: number, from: number, to: number): void {
+    const rowLen = 2 * this.ports!;
+    const firstInside = from + (rowLen - ((from - 1) % rowLen)); // next row start after `from`
+    if (firstInside >= to) return; // the line stays within one row
+    if ((from - 1) % rowLen === 0 && (to - 1) % rowLen === 0) return; // whole rows
+    const row = (firstInside - 1) / rowLen + 1;
+    const startLine = this.recLines[this.recLines.length - 1];
+    this.fail(
+      lineNo,
+      `row ${row} of the matrix of the frequency on line ${startLine} starts in the middle of this line: in a 1.1 file of ` +
+        `${this.ports} ports each matrix row (${this.ports} pairs, at most four per line) starts on a new line, so a row before ` +
+        `it is short or this line is long`,
+    );
+  }
+
+  /**
+   * The first value of a record: its frequency, checked (position on the line, order, overflow, distinct once in
+   * hertz) and converted exactly to hertz. Returns true when the line turned out to start 1.1 noise data instead.
+   * Kept out of data()'s loop so that the loop over the values stays small.
+   */
+  private startRecord(lineNo: number, toks: string[], t: number, tok: string, v: number): boolean {
+    const n = this.ports!;
+    const recLen = this.recLen;
+    const oneLine = this.version === "1.1" && n <= 2;
+    if (t !== 0) {
+      const startLine = this.recLines[this.recLines.length - 1];
+      this.fail(
+        lineNo,
+        `the data of the frequency on line ${startLine} ended in the middle of this line: each frequency needs ` +
+          `${recLen} values (the frequency, then ${plural((recLen - 1) / 2, "complex value")} as pairs) and starts on a new line, ` +
+          `so a line from ${startLine} to ${lineNo} has values missing or extra`,
+      );
+    }
+    const prev = this.freqs.length > 0 ? this.freqs[this.freqs.length - 1] : -Infinity;
+    // a larger double is a larger decimal; only ties (or a step back) need the exact comparison of the texts
+    const increases = this.freqs.length === 0 || v > this.lastFreqValue || compareDecimal(tok, this.lastFreqText) > 0;
+    if (this.version === "1.1" && n === 2 && !increases) {
+      // 1.1, 2-port: the first frequency that does not increase starts the noise parameters (§ "Noise Parameter Data").
+      this.section = "noise";
+      this.noiseLine(lineNo, toks);
+      return true;
+    }
+    if (oneLine && toks.length !== recLen) {
+      this.fail(
+        lineNo,
+        `a ${n}-port data line needs ${recLen} values (the frequency, then ${plural((recLen - 1) / 2, "complex value")} as pairs); found ${toks.length}`,
+      );
+    }
+    if (v < 0) this.fail(lineNo, `negative frequency ${tok}`);
+    const hz = scaleDecimal(tok, this.unitExp);
+    if (!Number.isFinite(hz)) {
+      this.fail(lineNo, `frequency ${clip(tok)} ${this.unit} is too large: it overflows when converted to hertz`);
+    }
+    const prevLine = this.recLines[this.recLines.length - 1];
+    if (!increases) {
+      this.fail(lineNo, `frequency ${tok} ${this.unit} does not increase on the previous one (line ${prevLine}); frequencies must be in increasing order`);
+    }
+    if (!(hz > prev)) {
+      this.fail(
+        lineNo,
+        `frequency ${clip(tok)} ${this.unit} and ${clip(this.lastFreqText)} ${this.unit} (line ${prevLine}) are different texts but the same ` +
+          `frequency once converted to hertz (${hz} Hz): they are closer than double precision can tell apart`,
+      );
+    }
+    if (this.declaredFreqs !== null && this.freqs.length === this.declaredFreqs) {
+      this.fail(lineNo, `more frequencies than the ${this.declaredFreqs} announced by [Number of Frequencies] on line ${this.declaredFreqsLine}`);
+    }
+    this.freqs.push(hz);
+    this.lastFreqText = tok;
+    this.lastFreqValue = v;
+    this.recLines.push(lineNo);
+    return false;
   }
 
   private push(v: number): void {
@@ -548,7 +608,7 @@ class Reader {
     const n = this.ports!;
     const nf = this.freqs.length;
     const frequencies = new Float64Array(nf);
-    for (let k = 0; k < nf; k++) frequencies[k] = this.freqs[k] * this.unitScale;
+    for (let k = 0; k < nf; k++) frequencies[k] = this.freqs[k];
 
     const z0 = new Float64Array(2 * n);
     for (let i = 0; i < n; i++) {
@@ -589,6 +649,13 @@ class Reader {
       }
     }
     if (this.parameter !== "S") this.toS(data, n, nf, z0);
+    // every value is finite here by the checks above; this guards the promise against a path they missed
+    for (let k = 0; k < nf; k++) {
+      const o = k * 2 * n * n;
+      for (let q = 0; q < 2 * n * n; q++) {
+        if (!Number.isFinite(data[o + q])) this.fail(this.recLines[k], `the data of this frequency gives a value that is not finite once converted to S`);
+      }
+    }
 
     return {
       version: this.version,

@@ -17,7 +17,16 @@ import type { BlockKind, BlockSpec, PortRef, Scenario, SystemPortSpec } from "@/
 export type WorkspaceBlock = BlockSpec & { expr?: Record<string, string> };
 
 /** A project's part as the workspace lists it; `text` is the Touchstone text when it has been loaded. */
-export type PartSummary = { id: string; name: string; fileName: string; ports: number; text?: string };
+export type PartSummary = {
+  id: string;
+  name: string;
+  fileName: string;
+  ports: number;
+  text?: string;
+  /** the part's data shows gain (set at upload), with the reason */
+  active?: boolean;
+  activeReason?: string | null;
+};
 
 export type PortAddress = { block: string; port: number };
 

@@ -21,6 +21,8 @@ export type SolveResponse =
       ok: true;
       view: SolvedView;
       warnings: string[];
+      /** information beside the results (how part data was interpolated onto the plan) */
+      notes: string[];
       /** block ports left unlinked and unmarked, terminated in the system Z0 ("PAD1:2") */
       unterminated: string[];
       /** time spent in the engine, ms */
@@ -49,6 +51,7 @@ export function runSolve(request: SolveRequest): SolveResponse {
         s: solution.s,
       },
       warnings: [...new Set([...system.warnings, ...solution.warnings])],
+      notes: system.notes ?? [],
       unterminated,
       solveMs: performance.now() - started,
     };

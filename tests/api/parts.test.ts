@@ -1,7 +1,8 @@
 // Touchstone parts: upload limits, malformed files, figures against scikit-rf/numpy, delete refused while in use.
 import { beforeAll, describe, expect, it } from "vitest";
 import { spawnSync } from "node:child_process";
-import { readFileSync } from "node:fs";
+import { readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
 import path from "node:path";
 import { call, countRows, createAccount, makeRequest, setUpDatabase, ORIGIN, HOST, type ErrorJson } from "./helpers";
 import * as projectsRoute from "@/app/api/projects/route";
@@ -34,6 +35,8 @@ type PartJson = {
   reciprocityError: number;
   passivity: string;
   reciprocity: string;
+  active: boolean;
+  activeReason: string | null;
   preview: { label: string; hz: number[]; db: number[] };
   text?: string;
 };
@@ -101,6 +104,27 @@ describe("uploading parts", () => {
     expect(part.reciprocity).toBe(ref.recip <= 1e-6 ? "pass" : "warn");
     expect(part.preview.label).toBe("|S21|");
     expect(part.preview.hz.length).toBe(ref.f.length);
+  });
+
+  it("an amplifier's data marks the part active, with σmax (numpy SVD via scikit-rf 0.15.4) and its gain as the reason", async () => {
+    // S11 = S22 = 0.3, S21 = 10 (20 dB), S12 = 0.218 at every point: gain far above the 1 dB that calibration error gives
+    const text = ["! measured amplifier", "# GHz S RI R 50", "1 0.3 0 10 0 0.218 0 0.3 0", "2 0.3 0 10 0 0.218 0 0.3 0", ""].join("\n");
+    const file = path.join(tmpdir(), `portolan-amp-${process.pid}.s2p`);
+    writeFileSync(file, text);
+    const response = await upload(engineer.cookie, "amp.s2p", text);
+    expect(response.status).toBe(201);
+    const { part } = (await response.json()) as { part: PartJson };
+    const ref = referenceFigures(file);
+    expect(part.maxSingular).toBeCloseTo(ref.sigma, 12);
+    expect(part.active).toBe(true);
+    expect(part.activeReason).toBe(`its data shows gain: largest singular value ${ref.sigma.toFixed(3)} (${(20 * Math.log10(ref.sigma)).toFixed(2)} dB) at 1 GHz`);
+    const passive = (await (await upload(engineer.cookie, "pad.s2p", "# GHz S RI R 50\n1 0 0 0.5 0 0.5 0 0 0\n")).json()) as { part: PartJson };
+    expect([passive.part.active, passive.part.activeReason]).toEqual([false, null]);
+    // leave the library as the later tests expect it
+    for (const id of [part.id, passive.part.id]) {
+      const del = await call(partRoute.DELETE, makeRequest("DELETE", `/api/projects/${projectId}/parts/${id}`, { cookie: engineer.cookie }), { projectId, partId: id });
+      expect(del.status).toBeLessThan(300);
+    }
   });
 
   it("a 2.0 file with per-port references keeps them (75 Ω and 100 Ω on ports 2 and 3)", async () => {

@@ -17,6 +17,45 @@ const amp = (db: number) => Math.pow(10, -db / 20);
 
 /** dB values ≥ 0 including the edge 0 and ∞ (null) */
 const dbOrInf = (max: number) => fc.oneof(fc.constant(0), fc.constant(null), fc.double({ min: 0, max, noNaN: true }));
+
+/**
+ * The leakage of a switch as its header documents it (engine/blocks/switch.ts), built here independently:
+ * common ↔ unselected throw +ι, selected ↔ unselected −ι, unselected ↔ unselected +ι² (absorptive) or −ι²
+ * (reflective); ports 0-based, 0 the common port, `sel` the selected throw.
+ */
+function switchLeakage(throws: number, sel: number, reflective: boolean, isolationDb: number | null): Float64Array {
+  const n = throws + 1;
+  const iota = isolationDb === null ? 0 : amp(isolationDb);
+  const m = new Float64Array(2 * n * n);
+  const set = (i: number, j: number, v: number) => {
+    m[2 * (i * n + j)] = v;
+    m[2 * (j * n + i)] = v;
+  };
+  for (let k = 1; k <= throws; k++) {
+    if (k === sel) continue;
+    set(0, k, iota);
+    set(sel, k, -iota);
+    for (let j = k + 1; j <= throws; j++) if (j !== sel) set(j, k, reflective ? -iota * iota : iota * iota);
+  }
+  return m;
+}
+
+/** Evaluates a switch, or checks that its refusal names isolation_db exactly when its leakage alone is active. */
+function evaluateSwitchOrRefusal(spec: BlockSpec, freqs: Float64Array): ReturnType<typeof evaluateBlock> | null {
+  const p = spec.params as { throws: number; isolation_db: number | null; off_state?: string };
+  const leakSigma = sigmaMax(switchLeakage(p.throws, spec.state ?? 1, p.off_state === "reflective", p.isolation_db), p.throws + 1);
+  try {
+    const out = evaluateBlock(spec, freqs, 50);
+    expect(leakSigma).toBeLessThanOrEqual(1 + 1e-9);
+    return out;
+  } catch (e) {
+    expect(e).toBeInstanceOf(EngineInputError);
+    expect((e as EngineInputError).where).toBe("block SW, parameter isolation_db");
+    expect((e as Error).message).toMatch(/no passive switch has it; expected at least \d+\.\d\d dB/);
+    expect(leakSigma).toBeGreaterThan(1 - 1e-9);
+    return null;
+  }
+}
 const dbAtLeast0 = (max: number) => fc.oneof(fc.constant(0), fc.double({ min: 0, max, noNaN: true }));
 const freqsArb = fc.array(fc.double({ min: 0, max: 4e10, noNaN: true }), { minLength: 1, maxLength: 3 }).map((a) => Float64Array.from(a));
 
@@ -76,7 +115,10 @@ describe("energy balance: σ_max(S) ≤ 1 for every passive kind and random lega
     it(`${kind} is passive${BLOCK_TRAITS[kind as keyof typeof BLOCK_TRAITS].reciprocal ? " and reciprocal" : ""}`, () => {
       fc.assert(
         fc.property(arb, freqsArb, (spec, freqs) => {
-          const { s, traits } = evaluateBlock(spec, freqs, 50);
+          // a switch whose leakage alone is active is refused (isolation is never reported better than entered)
+          const out = kind === "switch" ? evaluateSwitchOrRefusal(spec, freqs) : evaluateBlock(spec, freqs, 50);
+          if (out === null) return;
+          const { s, traits } = out;
           expect(traits.passive).toBe(true);
           for (const v of s.data) expect(Number.isFinite(v)).toBe(true);
           expect(sigmaMaxOver(s)).toBeLessThanOrEqual(1 + TOL);
@@ -151,7 +193,11 @@ describe("isolation, directivity and return loss are never reported better than 
     ];
     fc.assert(
       fc.property(fc.oneof(...cases), ([spec, ratios]) => {
-        const { s, warnings } = evaluateBlock(spec, new Float64Array([1e9]), 50);
+        const out = spec.kind === "switch" ? evaluateSwitchOrRefusal(spec, new Float64Array([1e9])) : evaluateBlock(spec, new Float64Array([1e9]), 50);
+        if (out === null) return;
+        const { s, warnings } = out;
+        // the switch never scales its leakage: it keeps it exactly or refuses the entries
+        if (spec.kind === "switch") expect(warnings.some((w) => w.includes("every term reduced"))).toBe(false);
         const scaledAll = warnings.some((w) => w.includes("every term reduced"));
         for (const r of ratios(s)) {
           if (scaledAll) expect(r).toBeLessThanOrEqual(1 + 1e-12);
@@ -207,5 +253,56 @@ describe("ideal lossless cases: SᴴS = I", () => {
       expect(unitarityError(s)).toBeGreaterThan(0.5);
       expect(sigmaMaxOver(s)).toBeLessThanOrEqual(1 + TOL);
     }
+  });
+});
+
+describe("passivity costs no more transmission than needed, and what it changes is said", () => {
+  it("circulator, IL 0 and isolation 20 dB, no return loss: passivity cuts 0.480 dB, not 0.915 dB", () => {
+    // Derivation (Davis, Circulant Matrices, 1979: a circulant matrix is diagonalised by the DFT, so it is normal
+    // and its singular values are the moduli of its eigenvalues): S = κ·C + ι·e^{jφ}·Cᵀ with C the cyclic shift
+    // has eigenvalues κ·w^k + ι·e^{jφ}·w^{−k}, w = e^{j2π/3}, so σ_k² = κ² + ι² + 2κι·cos(φ − 4πk/3). The three
+    // angles lie 120° apart, so the largest cosine is at least 1/2, reached with φ = 180°: κ² + ι² + κι = 1,
+    // κ = (−ι + √(4 − 3ι²))/2. With ι = 0.1: κ = 0.946243, 0.479947 dB; φ = 0° would need κ + ι = 1, κ = 0.9, 0.91515 dB.
+    const { s, warnings } = evaluateBlock({ id: "C", kind: "circulator", params: { insertion_loss_db: 0, isolation_db: 20 } }, new Float64Array([1e9]), 50);
+    const iota = 0.1;
+    const kappa = (-iota + Math.sqrt(4 - 3 * iota * iota)) / 2;
+    expect(abs(entry(s, 0, 2, 1))).toBeCloseTo(kappa, 12);
+    expect(-db20(abs(entry(s, 0, 2, 1)))).toBeCloseTo(0.479947, 6);
+    expect(abs(entry(s, 0, 1, 2))).toBeCloseTo(iota, 15); // isolation exactly as entered
+    expect(warnings).toEqual(["block C: transmission reduced by 0.480 dB to keep the part passive with the entered isolation_db and return_loss_db"]);
+    expect(sigmaMax(matrixAt(s, 0), 3)).toBeLessThanOrEqual(1 + 1e-12);
+    // the same holds for return loss alone (the roles of ι and ρ swap: ρ·I − … has the same three angles)
+    const rl = evaluateBlock({ id: "C", kind: "circulator", params: { insertion_loss_db: 0, return_loss_db: 20 } }, new Float64Array([1e9]), 50);
+    expect(abs(entry(rl.s, 0, 2, 1))).toBeCloseTo(kappa, 12);
+  });
+
+  it("coupler: when passivity lowers the coupled wave, the warning gives the coupling and directivity the model now has", () => {
+    const { s, warnings } = evaluateBlock({ id: "K", kind: "coupler", params: { coupling_db: 3, directivity_db: 15 } }, new Float64Array([1e9]), 50);
+    const coupling = -db20(abs(entry(s, 0, 3, 1)));
+    const directivity = db20(abs(entry(s, 0, 3, 1))) - db20(abs(entry(s, 0, 4, 1))); // directivity = |S31|/|S41| in dB (common practice)
+    expect(directivity).toBeLessThan(15);
+    const m = warnings.find((w) => w.includes("coupling is now"))?.match(/coupling is now (\d+\.\d+) dB and directivity (\d+\.\d+) dB \(as entered, with excess loss: 3\.000 dB and 15\.000 dB\)/);
+    expect(m).not.toBeNull();
+    expect(Number(m![1])).toBeCloseTo(coupling, 3);
+    expect(Number(m![2])).toBeCloseTo(directivity, 3);
+    // no reduction, no such warning: 20 dB coupling with 25 dB directivity and 0.3 dB excess loss fits
+    expect(evaluateBlock({ id: "K", kind: "coupler", params: { coupling_db: 20, directivity_db: 25, excess_loss_db: 0.3 } }, new Float64Array([1e9]), 50).warnings).toEqual([]);
+  });
+
+  it("switch: 8 throws at 3 dB isolation is refused with the least isolation that works, and that value keeps its leakage", () => {
+    const spec = (iso: number): BlockSpec => ({ id: "SW", kind: "switch", params: { throws: 8, insertion_loss_db: 0.5, isolation_db: iso }, state: 1 });
+    let least = NaN;
+    try {
+      evaluateBlock(spec(3), new Float64Array([1e9]), 50);
+    } catch (e) {
+      expect((e as EngineInputError).where).toBe("block SW, parameter isolation_db");
+      least = Number((e as Error).message.match(/expected at least (\d+\.\d\d) dB/)![1]);
+    }
+    expect(least).toBeGreaterThan(3);
+    // the leakage alone at the suggested value is passive (independent eigenvalue routine), just above it not
+    expect(sigmaMax(switchLeakage(8, 1, false, least), 9)).toBeLessThanOrEqual(1);
+    expect(sigmaMax(switchLeakage(8, 1, false, least - 0.02), 9)).toBeGreaterThan(1);
+    const { s } = evaluateBlock(spec(least + 0.5), new Float64Array([1e9]), 50);
+    expect(abs(entry(s, 0, 1, 3))).toBeCloseTo(amp(least + 0.5), 14); // S13: common to an unselected throw
   });
 });

@@ -4,6 +4,10 @@ import { join } from "node:path";
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { interpolateS } from "@/engine/interp";
+import { formatCheckTable } from "@/engine/checks/cli-check";
+import { runAllChecks } from "@/engine/checks/run-all";
+import { solveSystem } from "@/engine/network";
+import { prepareSystem } from "@/engine/system";
 import { parseTouchstone } from "@/engine/touchstone";
 import { EngineInputError, type SData } from "@/engine/types";
 import { interleave, requireSkrf, runSkrf, type Cplx } from "../fixtures/touchstone/skrf";
@@ -116,5 +120,38 @@ describe("interpolateS()", () => {
     let worst = 0;
     for (let i = 0; i < got.length; i++) worst = Math.max(worst, Math.abs(got[i] - want[i]));
     expect(worst).toBeLessThan(1e-12);
+  });
+});
+
+describe("the note beside interpolated part data", () => {
+  const scenario = (data: string, plan: number[]) => ({
+    format: "portolan.scenario/1" as const,
+    name: "note",
+    z0: 50,
+    frequency: { list: plan },
+    blocks: [{ id: "ANT", kind: "touchstone" as const, ports: 1, data }],
+    links: [],
+    ports: [{ name: "A", at: "ANT:1" }],
+  });
+
+  it("states the method (linear in re/im, after renormalising to the system Z0) and how many plan points it touched", () => {
+    const sys = prepareSystem(scenario("# GHz S RI R 75\n1 0.2 0\n2 0.4 0\n", [1e9, 1.25e9, 1.5e9, 2e9]));
+    expect(sys.notes).toEqual([
+      "block ANT: part data interpolated onto 2 of 4 plan points, linearly in real and imaginary parts, after renormalising its data from 75 Ω to the system Z0 (50 Ω)",
+    ]);
+    expect(sys.warnings).toEqual([]);
+    const same = prepareSystem(scenario("# GHz S RI R 50\n1 0.2 0\n2 0.4 0\n", [1.5e9]));
+    expect(same.notes).toEqual(["block ANT: part data interpolated onto 1 of 1 plan points, linearly in real and imaginary parts, its data is already referenced to the system Z0 (50 Ω)"]);
+  });
+
+  it("is absent when every plan point is a data point (within the 1e-12 frequency tolerance)", () => {
+    expect(prepareSystem(scenario("# GHz S RI R 50\n1 0.2 0\n2.14 0.3 0\n3 0.4 0\n", [2.14 * 1e9, 3e9])).notes).toEqual([]);
+  });
+
+  it("is printed by portolan check under Notes", () => {
+    const sc = scenario("# GHz S RI R 50\n1 0.2 0\n2 0.4 0\n", [1.5e9]);
+    const sys = prepareSystem(sc);
+    const table = formatCheckTable(runAllChecks(sc, sys, solveSystem(sys)));
+    expect(table).toMatch(/\nNotes:\n {2}block ANT: part data interpolated onto 1 of 1 plan points, linearly in real and imaginary parts/);
   });
 });

@@ -137,8 +137,12 @@ print(json.dumps(out))
       expect(maxDiff(xh, Float64Array.from(ref[i].xh))).toBeLessThan(50 * ref[i].cond * EPS * Math.max(...ref[i].xh.map(Math.abs)));
       // Hager–Higham: a lower bound of κ₁, in practice within a factor of 3 (Higham 1988, "from memory")
       const est = conditionEstimate1(anorm, a, c.n, piv);
-      // both figures carry rounding of order κ·ε (the estimate's ‖A⁻¹‖ comes from solves with these factors)
-      expect(est).toBeLessThanOrEqual(ref[i].cond * (1 + 50 * ref[i].cond * EPS));
+      // The estimate is ‖A⁻¹x‖₁/‖x‖₁ for unit vectors x, a lower bound of κ₁ in exact arithmetic; but both it and
+      // numpy's cond(A, 1) apply A⁻¹ through a computed LU, whose columns carry a relative error of order n·κ·ε
+      // (Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed., ch. 14, inversion via LU; from memory).
+      // For the 7×7 Hilbert-like case (κ₁ ≈ 1e9) that is ≈ 1.5e-6, so a fixed 1e-10 margin was below the rounding
+      // of either side: it failed once (985194888.6 vs 985194887.9, 7e-10 apart) when numpy's BLAS took another path.
+      expect(est).toBeLessThanOrEqual(ref[i].cond * (1 + 4 * c.n * ref[i].cond * EPS));
       expect(est).toBeGreaterThanOrEqual(ref[i].cond / 3);
     });
   });

@@ -3,6 +3,8 @@
 // Specification, Version 2.0 (IBIS Open Forum, 2009; from memory).
 import { describe, expect, it } from "vitest";
 import { parseTouchstone, TouchstoneError, type ParseOptions } from "@/engine/touchstone";
+import { prepareSystem } from "@/engine/system";
+import { EngineInputError } from "@/engine/types";
 
 function refusal(text: string, opts: ParseOptions): TouchstoneError {
   try {
@@ -50,9 +52,21 @@ describe("parseTouchstone() refuses broken data with the line and what was expec
     expectRefusal(text, "x.s3p", 6, /file ends in the middle of the data of the frequency on line 5: 13 of 19 values/);
   });
 
-  it("reports a 3-port row that lost a pair as a frequency ending mid-line", () => {
+  it("reports a 3-port row that lost a pair on the next line, where the following row would start mid-line", () => {
+    // 1.1 rule: each matrix row of a 3-port or larger starts on a new line, so line 4 (one pair finishing row 2,
+    // then two pairs of row 3) is where the lost pair shows.
     const text = `${H2}1 0 0 0 0 0 0\n  0 0 0 0\n  0 0 0 0 0 0\n2 0 0 0 0 0 0\n  0 0 0 0 0 0\n  0 0 0 0 0 0\n`;
-    expectRefusal(text, "x.s3p", 5, /frequency on line 2 ended in the middle of this line: each frequency needs 19 values/);
+    expectRefusal(text, "x.s3p", 4, /row 3 of the matrix of the frequency on line 2 starts in the middle of this line/);
+  });
+
+  it("accepts whole matrix rows sharing a line, and reads them into the right rows", () => {
+    // A line that starts and ends on row boundaries cannot shift values between rows, so the reader accepts it
+    // (some writers put a whole 4-port matrix row pair on one line); S31 must come out as written.
+    const row = (r: number) => Array.from({ length: 4 }, (_, c) => `${r}${c + 1} 0`).join(" ");
+    const text = `${H2}1 ${row(1)}\n${row(2)} ${row(3)}\n${row(4)}\n`;
+    const t = parseTouchstone(text, { name: "x.s4p" });
+    expect(t.s.data[2 * (2 * 4 + 0)]).toBe(31); // S31, row-major
+    expect(t.s.data[2 * (3 * 4 + 3)]).toBe(44);
   });
 
   it("refuses an odd number of values on a 1.1 line of a 4-port (values come in pairs)", () => {
@@ -201,5 +215,68 @@ describe("parseTouchstone() never hangs", () => {
     expect(performance.now() - t0).toBeLessThan(15_000);
     expect([t.s.n, t.s.nf]).toEqual([4, 20_000]);
     expect(t.s.data[t.s.data.length - 1]).toBe(-0.234567890123);
+  });
+});
+
+describe("parseTouchstone() keeps its promise of finite values and distinct frequencies", () => {
+  it("refuses a dB magnitude that overflows (1 7000 0: 10^(7000/20) is beyond the largest double)", () => {
+    // IEEE 754 binary64 tops out near 1.8e308, so any magnitude above about 6165 dB overflows.
+    expectRefusal(`# GHz S DB R 50\n1 -3 0\n2 7000 0\n`, "amp.s1p", 3, /magnitude 7000 dB is too large: 10\^\(7000\/20\) overflows \(value 2 on the line\)/);
+    // the angle position of a pair may hold any finite number of degrees
+    expect(parseTouchstone(`# GHz S DB R 50\n1 -3 7000\n`, { name: "a.s1p" }).s.data.every(Number.isFinite)).toBe(true);
+  });
+
+  it("refuses a dB magnitude that overflows on a continuation line of a 3-port, naming that line", () => {
+    const text = `# GHz S DB R 50\n1 -3 0 -3 0 -3 0\n-3 0 -3 0 7000 0\n-3 0 -3 0 -3 0\n`;
+    expectRefusal(text, "x.s3p", 3, /magnitude 7000 dB is too large: .*\(value 5 on the line\)/);
+  });
+
+  it("refuses a frequency that overflows once scaled to hertz (1e300 GHz)", () => {
+    expectRefusal(`${H2}1 0.1 0\n1e300 0.1 0\n`, "a.s1p", 3, /frequency 1e300 GHz is too large: it overflows when converted to hertz/);
+  });
+
+  it("refuses two different frequency texts that are one double in hertz, in a 1-port and in a 1.1 2-port (not read as noise)", () => {
+    // "1" and "1.00000000000000001" GHz are different decimals but the same binary64 value (the spacing of doubles
+    // near 1e9 is 2^-23 ≈ 1.2e-7 Hz).
+    expectRefusal(`${H2}1 0.1 0\n1.00000000000000001 0.1 0\n`, "a.s1p", 3, /different texts but the same frequency once converted to hertz \(1000000000 Hz\)/);
+    const two = `${H2}1 0 0 0 0 0 0 0 0\n1.00000000000000001 0 0 0 0 0 0 0 0\n`;
+    expectRefusal(two, "a.s2p", 3, /different texts but the same frequency/);
+    // in MHz the same pair of texts collapses only after scaling: 1000.0000000000001 MHz vs 1000 MHz
+    expectRefusal(`# MHz S RI R 50\n1000 0.1 0\n1000.00000000000001 0.1 0\n`, "a.s1p", 3, /same frequency once converted to hertz/);
+  });
+
+  it("still reads a 1.1 2-port whose frequency steps back as the start of noise data", () => {
+    const t = parseTouchstone(`${H2}1 0 0 0 0 0 0 0 0\n2 0 0 0 0 0 0 0 0\n1 1.5 0.5 30 0.3\n`, { name: "a.s2p" });
+    expect(t.s.nf).toBe(2);
+  });
+
+  it("refuses a short matrix row followed by a long one in 1.1 files of 3 and 4 ports (value count unchanged)", () => {
+    // Touchstone 1.1, 3 or more ports: each matrix row starts on a new line. Row 1 below has 2 pairs instead of 3
+    // and row 2 has 4: the 19 values add up, so only the row rule can catch it.
+    const three = `${H2}1 11 0 12 0\n13 0 21 0 22 0 23 0\n31 0 32 0 33 0\n`;
+    expectRefusal(three, "x.s3p", 3, /row 2 of the matrix of the frequency on line 2 starts in the middle of this line/);
+    // 4 ports, rows wrapped at four pairs: row 2 short (3 pairs), row 3 long (5 pairs); caught on row 3's line.
+    const r = (a: number) => `${a} 0`;
+    const four = `${H2}1 ${r(11)} ${r(12)} ${r(13)} ${r(14)}\n${r(21)} ${r(22)} ${r(23)}\n${r(24)} ${r(31)} ${r(32)} ${r(33)} ${r(34)}\n${r(41)} ${r(42)} ${r(43)} ${r(44)}\n`;
+    expectRefusal(four, "x.s4p", 4, /row 3 of the matrix of the frequency on line 2 starts in the middle of this line/);
+  });
+
+  it("reaches a scenario as an EngineInputError with file:line", () => {
+    const scenario = {
+      format: "portolan.scenario/1" as const,
+      name: "hostile",
+      z0: 50,
+      frequency: { list: [1e9] },
+      blocks: [{ id: "P", kind: "touchstone" as const, file: "amp.s1p" }],
+      links: [],
+      ports: [{ name: "A", at: "P:1" }],
+    };
+    try {
+      prepareSystem(scenario, { parts: { "amp.s1p": "# GHz S DB R 50\n1 7000 0\n" } });
+      throw new Error("accepted");
+    } catch (e) {
+      expect(e).toBeInstanceOf(EngineInputError);
+      expect((e as EngineInputError).where).toBe("amp.s1p:2");
+    }
   });
 });

@@ -42,6 +42,14 @@ describe("diffScenarios", () => {
     ]);
   });
 
+  it("reports a part block's active flag set, with before and after", () => {
+    const part: Scenario = { ...base, blocks: [...base.blocks, { id: "LNA", kind: "touchstone", file: "parts/lna.s2p" }] };
+    const marked: Scenario = { ...part, blocks: part.blocks.map((x) => (x.id === "LNA" ? { ...x, active: true } : x)) };
+    expect(diffScenarios(part, marked).blocks).toEqual([
+      { change: "changed", id: "LNA", kind: "touchstone", params: [], fields: [{ name: "active", before: undefined, after: true }], state: null },
+    ]);
+  });
+
   it("reports added and removed blocks, links (either order of ends) and system ports", () => {
     const b: Scenario = {
       ...base,

@@ -1,5 +1,6 @@
 import { MEASURED_TOLERANCE } from "@/engine/checks/data-quality";
 import { maxSingularValue, reciprocityError } from "@/engine/linalg";
+import { gainActivity } from "@/engine/system/activity";
 import type { TouchstoneData } from "@/engine/touchstone";
 
 /** A small |S| trace for the parts page: |S21| (|S11| for one-port data) in dB, at most 120 points. */
@@ -14,12 +15,23 @@ export type PartFigures = { maxSingular: number; maxSingularHz: number; reciproc
  * it, is a warning, not a failure — an active or non-reciprocal measured device is possible (an
  * amplifier, an isolator), but usually a sign of calibration error.
  */
-export type PartVerdicts = { passivity: "pass" | "warn"; reciprocity: "pass" | "warn" };
+export type PartVerdicts = {
+  passivity: "pass" | "warn";
+  reciprocity: "pass" | "warn";
+  /** the data shows gain (an amplifier): not expected passive or reciprocal, checked for stability instead */
+  active: boolean;
+  /** why the part counts as active (the engine's wording), null when it does not */
+  activeReason: string | null;
+};
 
-export function partVerdicts(figures: Pick<PartFigures, "maxSingular" | "reciprocityError">): PartVerdicts {
+export function partVerdicts(figures: Pick<PartFigures, "maxSingular" | "maxSingularHz" | "reciprocityError">): PartVerdicts {
+  // the same rule and wording as the engine uses for a touchstone block without an `active` flag
+  const activity = gainActivity(figures.maxSingular, figures.maxSingularHz);
   return {
     passivity: figures.maxSingular <= 1 + MEASURED_TOLERANCE ? "pass" : "warn",
     reciprocity: figures.reciprocityError <= MEASURED_TOLERANCE ? "pass" : "warn",
+    active: activity !== null,
+    activeReason: activity?.reason ?? null,
   };
 }
 

@@ -40,7 +40,7 @@ function canonical(value: unknown): string {
 const equal = (a: unknown, b: unknown) => canonical(a) === canonical(b);
 
 /** Block fields compared besides `params` and `state` (chart position, label and editor expressions are not). */
-const BLOCK_FIELDS = ["kind", "file", "data", "ports", "rating_dbm"] as const;
+const BLOCK_FIELDS = ["kind", "file", "data", "ports", "rating_dbm", "active"] as const;
 
 function diffBlock(a: BlockSpec, b: BlockSpec): BlockDiff | null {
   const pa = (a.params ?? {}) as Record<string, unknown>;
@@ -59,7 +59,7 @@ const linkKey = ([x, y]: [PortRef, PortRef]) => (x < y ? `${x}~${y}` : `${y}~${x
 
 /**
  * What differs between two scenarios (or two revisions of one), in what the engine reads: blocks added,
- * removed or changed (parameters, switch state, part file, rating), links added or removed (a link is the
+ * removed or changed (parameters, switch state, part file, rating, active flag), links added or removed (a link is the
  * same whichever end is written first), system ports added, removed, moved or with another Z0, and the
  * system Z0 and frequency plan. Blocks are matched by id.
  * @example diffScenarios(a, b).blocks // [{ change: "changed", id: "TR", params: [{ name: "isolation_db", before: 45, after: 25 }], … }]
