@@ -26,7 +26,7 @@ export type Z0Vector = Float64Array;
 export type WaveKind = "power" | "pseudo";
 
 // ---------------------------------------------------------------------------------------------------
-// Scenario file (DESIGN.md "Scenario file"); the zod schema that validates it is engine/scenario/.
+// Scenario file (docs/scenario-format.md); the zod schema that validates it is engine/scenario/.
 
 export type FrequencyPlanSpec =
   | { start: number; stop: number; points: number }
@@ -55,7 +55,7 @@ export type BlockSpec = {
   /** unique within the scenario, e.g. "SW1" */
   id: string;
   kind: BlockKind;
-  /** model parameters, numbers in SI/dB units as named in DESIGN.md (strings allowed where documented) */
+  /** model parameters, numbers in SI/dB units as named in docs/blocks.md (strings allowed where documented) */
   params?: Record<string, unknown>;
   /** switch: selected throw, 1-based (1 = common to port 2) */
   state?: number;

@@ -10,7 +10,7 @@ import { AppError } from "@/lib/base/errors";
 import { authorize } from "@/lib/server/permissions";
 import { loadRevision, requireScenarioRow } from "./revisions";
 
-/** Roles that may be asked to sign off (DESIGN: reviewers sign off; owners may too). */
+/** Roles that may be asked to sign off (docs/README.md "Roles": reviewers sign off; owners may too). */
 export const SIGNOFF_REVIEWER_ROLES = ["reviewer", "owner"] as const;
 
 /** A sign-off as the API returns it. `stale` when the scenario's latest revision has another content hash. */

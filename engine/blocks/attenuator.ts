@@ -1,6 +1,6 @@
 /**
  * Attenuator and phase shifter: matched reciprocal two-ports, S21 = S12 = 10^(−L/20)·e^(−jφ)
- * (DESIGN.md phase conventions; e^(+jωt), so a delay is a negative phase). Passive for L ≥ 0;
+ * (docs/blocks.md, "Conventions"; e^(+jωt), so a delay is a negative phase). Passive for L ≥ 0;
  * lossless when L = 0.
  */
 import type { ParamReader } from "./params";

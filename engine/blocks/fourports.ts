@@ -1,7 +1,7 @@
 /**
  * Four-port couplers: directional coupler, 90° hybrid, 180° hybrid (Pozar, Microwave Engineering,
  * 4th ed., sec. 7.1 for the directional-coupler matrix, sec. 7.5 and 7.8 for the quadrature and
- * rat-race hybrids, section numbers from memory; matrices exactly as in DESIGN.md).
+ * rat-race hybrids, section numbers from memory; matrices exactly as in docs/blocks.md).
  *
  * - coupler: S = l·[[0,α,jβ,0],[α,0,0,jβ],[jβ,0,0,α],[0,jβ,α,0]], β = 10^(−C/20), α = √(1−β²),
  *   l = 10^(−excess/20). Finite directivity D adds the isolated-port leakage

@@ -1,5 +1,5 @@
 /**
- * Built-in block models: S(f) of every kind in DESIGN.md's "Block kinds and port numbering" table
+ * Built-in block models: S(f) of every kind in docs/blocks.md
  * except `touchstone` (measured parts are read by engine/touchstone). Phase conventions: e^(+jωt),
  * ideal matrices as in Pozar, Microwave Engineering, 4th ed., ch. 4 and 7.
  *

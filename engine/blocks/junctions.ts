@@ -1,7 +1,7 @@
 /**
  * Three-port junctions: equal-split Wilkinson splitter, tee of three equal lines, circulator
  * (Pozar, Microwave Engineering, 4th ed., sec. 7.1–7.3 for the ideal matrices, section numbers from
- * memory; matrices as written in DESIGN.md).
+ * memory; matrices as written in docs/blocks.md).
  *
  * - splitter: S = (−j/√2)·l·[[0,1,1],[1,0,0],[1,0,0]], l = 10^(−excess/20); finite isolation adds
  *   S23 = S32 = −j·10^(−ISO/20) (same phase as the transmissions). A matched reciprocal three-port with

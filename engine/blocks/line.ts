@@ -28,7 +28,7 @@ export type LineSection = {
  * S of a line section over the frequencies `freqs` (Hz), referenced to the real Z0 (Ω) at both ports.
  * Written in terms of q = e^(−2γl) so that long lossy lines never overflow:
  * D = 2(1 + q) + (r + 1/r)(1 − q), S11 = S22 = (r − 1/r)(1 − q)/D, S21 = S12 = 4e^(−γl)/D, r = Zc/Z0.
- * For Zc = Z0 this is S21 = e^(−αl)·e^(−jθ), θ = 2πf·length/(v·c0) (DESIGN.md).
+ * For Zc = Z0 this is S21 = e^(−αl)·e^(−jθ), θ = 2πf·length/(v·c0) (docs/blocks.md, "line").
  *
  * @example
  * lineSParameters({ lengthM: 0.25, velocityFactor: 1, lossDbPerM: 0, zc: 50 }, new Float64Array([C0]), 50);

@@ -2,7 +2,7 @@
  * Single-pole n-throw switch: port 1 common, ports 2…n+1 the throws, `state` s ∈ 1…n selects port s+1.
  *
  * With t = 10^(−IL/20) and ι = 10^(−ISO/20), all real (phases: this model's documented choice):
- * - common ↔ selected throw: S = t (DESIGN.md: real); common and selected throw matched;
+ * - common ↔ selected throw: S = t (docs/blocks.md: real); common and selected throw matched;
  * - common ↔ each unselected throw: +ι (isolation = isolation_db);
  * - selected throw ↔ each unselected throw: −ι (isolation = isolation_db: the leak crosses one open
  *   switching element, like the common-to-throw leak);

@@ -7,7 +7,7 @@ import { bandIndices, formatHz, portIndex } from "./band";
 import { dbmFromWatts, wattsFromDbm } from "./conversions";
 import type { Verdict } from "./types";
 
-/** The cautions shown with every drive-check result (DESIGN.md, "Cautions the product shows"). */
+/** The cautions shown with every drive-check result (docs/checks.md, "Drive check"; docs/README.md, "Cautions the product shows"). */
 export const DRIVE_CAUTIONS: readonly string[] = [
   "RF power can burn people and destroy parts.",
   "These figures are estimates from the entered data.",

@@ -1,5 +1,5 @@
 /**
- * zod schema of the scenario file (DESIGN.md "Scenario file"; the type `Scenario` in engine/types.ts).
+ * zod schema of the scenario file (docs/scenario-format.md; the type `Scenario` in engine/types.ts).
  * Structure only: references between blocks, links and ports are checked by parseScenario.
  */
 import { z } from "zod";

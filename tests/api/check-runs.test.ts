@@ -110,7 +110,7 @@ describe("running checks", () => {
     expect(onFirst.run.revisionId).toBe(first);
     expect(onFirst.run.revisionNumber).toBe(1);
     expect(onFirst.run.verdict).toBe("pass");
-    // Hand reasoning from the switch model (DESIGN.md block table: an off throw passes 10^(−isolation_db/20)):
+    // Hand reasoning from the switch model (docs/blocks.md "switch": an off throw passes 10^(−isolation_db/20)):
     // TX reaches RX through the T/R switch's off path, so 20 dB less switch isolation is 20 dB less TX→RX
     // isolation, up to the much weaker paths around it (e.g. via the antenna switch and reflections).
     const worst1 = (onFirst.run.figures.result as RuleResult).worst;

@@ -4,7 +4,7 @@ import { collectForeignRequests, signInAs } from "./helpers";
 // Screenshots of the landing page in both themes, kept for a person to look at after a run.
 const SHOTS = "test-results/screenshots";
 
-// Palette from DESIGN.md ("Look"): paper #F4EFE2 and night-ink #121A24.
+// Palette from docs/README.md ("Look"): paper #F4EFE2 and night-ink #121A24.
 const PAPER = "rgb(244, 239, 226)";
 const NIGHT = "rgb(18, 26, 36)";
 

@@ -29,7 +29,7 @@ export const ctanh = (z: C): C => {
 };
 export const db20 = (x: number): number => 20 * Math.log10(x);
 
-/** S_ij (1-based ports, as in the DESIGN tables) at frequency index k */
+/** S_ij (1-based ports, as in docs/blocks.md) at frequency index k */
 export function entry(s: SData, k: number, i: number, j: number): C {
   const p = 2 * ((k * s.n + (i - 1)) * s.n + (j - 1));
   return [s.data[p], s.data[p + 1]];

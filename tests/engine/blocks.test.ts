@@ -102,7 +102,7 @@ describe("load and antenna", () => {
 });
 
 describe("attenuator and phase shifter", () => {
-  it("attenuator: S21 = S12 = 10^(−L/20), real, matched (DESIGN phase conventions)", () => {
+  it("attenuator: S21 = S12 = 10^(−L/20), real, matched (docs/blocks.md phase conventions)", () => {
     const { s } = run({ kind: "attenuator", params: { loss_db: 6 } });
     const t = 0.501187233627272; // 10^(−6/20)
     expectMatrix(s, [
@@ -123,7 +123,7 @@ describe("attenuator and phase shifter", () => {
 });
 
 describe("line", () => {
-  it("matched line: S21 = e^(−jθ), θ = 2πf·length/(v·c0) (DESIGN.md; Pozar sec. 2.1)", () => {
+  it("matched line: S21 = e^(−jθ), θ = 2πf·length/(v·c0) (docs/blocks.md; Pozar sec. 2.1)", () => {
     const len = 0.37;
     const vf = 0.66;
     const { s } = run({ kind: "line", params: { length_m: len, velocity_factor: vf } });
@@ -254,7 +254,7 @@ describe("splitter, tee, circulator", () => {
     }
   });
 
-  it("tee is (1/3)[[−1,2,2],[2,−1,2],[2,2,−1]] and lossless (Pozar sec. 7.2 / DESIGN.md)", () => {
+  it("tee is (1/3)[[−1,2,2],[2,−1,2],[2,2,−1]] and lossless (Pozar sec. 7.2 / docs/blocks.md)", () => {
     const { s } = run({ kind: "tee" });
     const a = c(-1 / 3);
     const b = c(2 / 3);
@@ -320,7 +320,7 @@ describe("coupler and hybrids", () => {
       [c(0), c(-H), c(0, -H), c(0)],
     ]);
     expect(unitarityError(s)).toBeLessThan(1e-15);
-    // port 2 lags port 1 by 90°, port 3 by 180° (DESIGN.md port numbering)
+    // port 2 lags port 1 by 90°, port 3 by 180° (docs/blocks.md port numbering)
     expect(argDeg(entry(s, 0, 2, 1))).toBeCloseTo(-90, 12);
     expect(Math.abs(argDeg(entry(s, 0, 3, 1)))).toBeCloseTo(180, 12);
   });
@@ -478,7 +478,7 @@ describe("validation", () => {
 });
 
 describe("blockPortCount, idealizeBlock, BLOCK_CATALOGUE", () => {
-  it("port counts follow DESIGN.md's table; switch and array from their parameters", () => {
+  it("port counts follow docs/blocks.md; switch and array from their parameters", () => {
     const fixed: Record<string, number> = { load: 1, antenna: 1, attenuator: 2, line: 2, phase_shifter: 2, isolator: 2, amplifier: 2, filter: 2, splitter: 3, tee: 3, circulator: 3, coupler: 4, hybrid90: 4, hybrid180: 4 };
     for (const [kind, n] of Object.entries(fixed)) expect(blockPortCount({ id: "X", kind: kind as never })).toBe(n);
     expect(blockPortCount({ id: "S", kind: "switch", params: { throws: 6, insertion_loss_db: 1, isolation_db: 30 } })).toBe(7);

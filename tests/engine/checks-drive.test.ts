@@ -6,7 +6,7 @@ import { EngineInputError } from "@/engine/types";
 import { buildSystem, c, onePort, type C } from "./checks-helpers";
 
 // Two 30 dBm sources at the split ports of an ideal equal splitter, S = (−j/√2)[[0,1,1],[1,0,0],[1,0,0]]
-// (DESIGN.md / Pozar 4th ed. §7.3), combine into a matched load on the common port. Each source delivers
+// (docs/blocks.md / Pozar 4th ed. §7.3), combine into a matched load on the common port. Each source delivers
 // half its power there: 0.5 W (26.99 dBm). Incoherent sum 1 W (30 dBm); worst-case coherent sum
 // (√0.5 + √0.5)² = 2 W (33.01 dBm). Each split port takes its own source's 1 W (30 dBm).
 const h = -1 / Math.SQRT2;

@@ -47,7 +47,7 @@ describe("powerLedger()", () => {
   });
 
   it("a lossless network absorbs nothing (hybrid, lines and a short)", () => {
-    // Ideal 90° hybrid (DESIGN/Pozar 4th ed. §7.5), lossless lines e^(−jθ) and a short Γ = −1: every block is
+    // Ideal 90° hybrid (docs/blocks.md "hybrid90"; Pozar 4th ed. §7.5), lossless lines e^(−jθ) and a short Γ = −1: every block is
     // lossless, so all absorption entries vanish and reflected + outputs = 1 (Pozar 4th ed. §4.3).
     const h = -1 / Math.SQRT2;
     const hyb: C[][] = [

@@ -287,7 +287,7 @@ describe("renormalize() identities", () => {
 describe("renormalize() against scikit-rf 0.15.4 renormalize_s (networks with a Z matrix)", () => {
   it("a 2-port 6 dB attenuator 50 → 75 Ω, and random passive 3-ports to complex references, both wave kinds", () => {
     requireSkrf();
-    // matched 6 dB pad at 50 Ω: S21 = S12 = 10^(−6/20), S11 = S22 = 0 (DESIGN.md attenuator; Pozar §4.3)
+    // matched 6 dB pad at 50 Ω: S21 = S12 = 10^(−6/20), S11 = S22 = 0 (docs/blocks.md attenuator; Pozar §4.3)
     const a = 10 ** (-6 / 20);
     const pad: SData = { n: 2, nf: 1, data: new Float64Array([0, 0, a, 0, a, 0, 0, 0]) };
     const cases: { s: SData; from: Float64Array; to: Float64Array; kind: "power" | "pseudo" }[] = [

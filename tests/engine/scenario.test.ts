@@ -1,5 +1,5 @@
 /**
- * Scenario files (DESIGN.md "Scenario file") and system preparation: what is accepted, what is refused
+ * Scenario files (docs/scenario-format.md) and system preparation: what is accepted, what is refused
  * and with which JSON path, the frequency plan, index maps, matched terminations, part handling.
  */
 import { readFileSync } from "node:fs";

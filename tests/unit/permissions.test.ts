@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { ACTIONS, PERMISSIONS, can, type Action, type Role } from "@/lib/base/permission-table";
 
-// Expected access, written out by hand from the product design (DESIGN.md "The web app" and issue 2:
+// Expected access, written out by hand from the product design (docs/README.md "Roles" and issue 2:
 // reviewers read, run checks, export bundles and sign off; engineers also edit scenarios, parts and
 // rules; owners also manage members, rename and delete the project and read the audit log).
 // Deliberately not derived from PERMISSIONS, so a change to the table must be made here too.

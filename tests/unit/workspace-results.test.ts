@@ -14,7 +14,7 @@ import { formatDb } from "@/lib/browser/format";
 
 const C0 = 299_792_458; // m/s, exact (SI Brochure, 9th ed., 2.3.1)
 
-/** A matched line as a 2-port: S11 = S22 = 0, S21 = S12 = a·e^(−jθ), θ = 2πf·L/(vf·c0) (DESIGN.md; Pozar, 4th ed., ch. 2). */
+/** A matched line as a 2-port: S11 = S22 = 0, S21 = S12 = a·e^(−jθ), θ = 2πf·L/(vf·c0) (docs/blocks.md; Pozar, 4th ed., ch. 2). */
 function matchedLine(freqs: Float64Array, length: number, vf: number, loss = 1): SData {
   const n = 2;
   const data = new Float64Array(2 * freqs.length * n * n);

@@ -43,7 +43,7 @@ describe("runSolve (what the engine worker runs)", () => {
   });
 
   it("gives the group delay of a line as length/(vf·c0)", () => {
-    // matched line S21 = e^(−jθ), θ = 2πf·L/(vf·c0) (DESIGN.md; Pozar, 4th ed., ch. 2) ⇒ τ = L/(vf·c0) (common practice)
+    // matched line S21 = e^(−jθ), θ = 2πf·L/(vf·c0) (docs/blocks.md; Pozar, 4th ed., ch. 2) ⇒ τ = L/(vf·c0) (common practice)
     let s = base();
     s = addBlock(s, "line", { x: 0, y: 0 }).scenario;
     s = { ...s, blocks: [{ ...s.blocks[0], params: { length_m: 0.5, velocity_factor: 0.66 } }] };
