@@ -38,15 +38,15 @@ describe("partVerdicts: the parts page judges measured data as the engine's data
     expect(figures.maxSingular).toBeCloseTo(1.00001, 12);
     expect(figures.maxSingularHz).toBe(2e9);
     expect(figures.reciprocityError).toBeCloseTo(0.10001, 12);
-    expect(partVerdicts(figures)).toEqual({ passivity: "warn", reciprocity: "warn" });
-    expect(engineVerdict(text)).toEqual(partVerdicts(figures));
+    expect(partVerdicts(figures)).toEqual({ passivity: "warn", reciprocity: "warn", active: false, activeReason: null });
+    expect(engineVerdict(text)).toEqual({ passivity: partVerdicts(figures).passivity, reciprocity: partVerdicts(figures).reciprocity });
   });
 
   it("passive reciprocal data passes on both", () => {
     const text = twoPort(0.9, 0.9);
     const figures = partFigures(parseTouchstone(text, { name: "p.s2p" }));
     expect(figures.maxSingular).toBeCloseTo(0.9, 12);
-    expect(partVerdicts(figures)).toEqual({ passivity: "pass", reciprocity: "pass" });
-    expect(engineVerdict(text)).toEqual(partVerdicts(figures));
+    expect(partVerdicts(figures)).toEqual({ passivity: "pass", reciprocity: "pass", active: false, activeReason: null });
+    expect(engineVerdict(text)).toEqual({ passivity: partVerdicts(figures).passivity, reciprocity: partVerdicts(figures).reciprocity });
   });
 });
