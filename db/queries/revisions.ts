@@ -12,7 +12,7 @@ import { authorize } from "@/lib/server/permissions";
 import type { DraftScenario } from "@/lib/base/validation/scenarios";
 import { getPartTexts } from "./parts";
 
-export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed" | "import";
+export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed" | "import" | "migrate";
 
 /** A revision as the API returns it. */
 export type RevisionDetail = {

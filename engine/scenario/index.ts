@@ -7,6 +7,8 @@ export {
   BlockSchema,
   SystemPortSchema,
   RuleSchema,
+  RuleOverrideSchema,
+  RuleOptOutSchema,
   IsolationRuleSchema,
   MatchRuleSchema,
   InsertionLossRuleSchema,

@@ -1,5 +1,5 @@
 import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult, Verdict } from "@/engine/checks";
-import type { RuleSource } from "@/lib/domain/rules/merge";
+import type { RuleSource } from "@/engine/checks";
 import type { CheckName } from "./inputs";
 
 /** A rule left out of a run because the scenario lacks a system port it names. */
@@ -42,6 +42,14 @@ export type CheckRunSummary = {
   inputs: Record<string, unknown>;
   verdict: Verdict;
   headline: string;
+  /** what the verdict is of: the revision's content hash, the effective rule set's hash, the engine version (null for older runs) */
+  contentHash: string | null;
+  rulesHash: string | null;
+  engineVersion: string | null;
+  /** why the verdict is no longer current for its revision (rules changed, engine updated…); empty when current */
+  stale: string[];
+  /** the run is of the scenario's latest revision */
+  latest: boolean;
   userName: string | null;
   createdAt: string | Date;
 };

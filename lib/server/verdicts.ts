@@ -1,0 +1,97 @@
+import "server-only";
+import { db, type Executor } from "@/db/client";
+import { findCurrentRun } from "@/db/queries/check-runs";
+import { getPartTexts } from "@/db/queries/parts";
+import { projectRuleSpecs } from "@/db/queries/rules";
+import { getScenario } from "@/db/queries/scenarios";
+import { hashRuleSet } from "@/engine/bundle";
+import { effectiveRuleSet, type EffectiveRuleSet } from "@/engine/checks";
+import { parseScenario } from "@/engine/scenario";
+import { solveScenario } from "@/engine/system";
+import { EngineInputError, SingularSystemError, type Scenario } from "@/engine/types";
+import { ENGINE_VERSION } from "@/engine/version";
+import { AppError } from "@/lib/base/errors";
+import type { CheckRunView } from "@/lib/domain/checks/types";
+import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
+import type { SessionUser } from "@/lib/server/auth/session";
+import { getRunWithFreshness, runCheck } from "@/lib/server/check-runs";
+
+/** A revision's effective rule set and its hash (docs/checks.md "Verdict identity"). */
+export type RevisionRules = { ruleSet: EffectiveRuleSet; rulesHash: string };
+
+/** The effective rule set of a revision's content under the project's current rules. */
+export async function revisionRules({ projectId, content, executor = db }: { projectId: string; content: Scenario; executor?: Executor }): Promise<RevisionRules> {
+  const ruleSet = effectiveRuleSet(await projectRuleSpecs({ projectId, executor }), content);
+  return { ruleSet, rulesHash: hashRuleSet(ruleSet) };
+}
+
+/** Why a revision cannot be solved (the engine's message), or null when it solves. */
+export async function solveProblem({ projectId, content }: { projectId: string; content: Scenario }): Promise<string | null> {
+  const parts = await getPartTexts({ projectId });
+  try {
+    solveScenario(parseScenario(scenarioForEngine(content), { parts }), { parts });
+    return null;
+  } catch (error) {
+    if (error instanceof EngineInputError || error instanceof SingularSystemError) return error.message;
+    throw error;
+  }
+}
+
+/** The verdict of a revision under its current rules, as the sign-off panel, compare and bundles show it. */
+export type RevisionVerdict = {
+  revisionId: string;
+  revisionNumber: number;
+  contentHash: string;
+  rulesHash: string;
+  engineVersion: string;
+  ruleSet: EffectiveRuleSet;
+  /** the stored "all rules" run that is current for (revision, rules, engine), or null when none is */
+  run: Extract<CheckRunView, { check: "all_rules" }> | null;
+  /** failing rule ids and failing built-in checks (names as in checks.json), when the run fails */
+  failing: string[];
+};
+
+/** Rule ids and built-in check names that fail in an "all rules" run: what a waiver must name. */
+export function failingItems(run: Extract<CheckRunView, { check: "all_rules" }>): string[] {
+  return run.figures.result.checks.filter((c) => c.verdict === "fail").map((c) => (c.name.startsWith("rule:") ? c.name.slice("rule:".length) : c.name));
+}
+
+/**
+ * The current verdict of a revision (default the latest): the newest stored "all rules" run with the
+ * revision's current rules hash and this engine version. With `ensure`, runs and stores it when there is
+ * none (check.run); an unsolvable revision is then 422 naming the problem.
+ */
+export async function revisionVerdict({
+  actor,
+  projectId,
+  scenarioId,
+  revisionId,
+  ensure,
+}: {
+  actor: SessionUser;
+  projectId: string;
+  scenarioId: string;
+  revisionId?: string;
+  ensure: boolean;
+}): Promise<RevisionVerdict> {
+  const { revision } = await getScenario({ userId: actor.id, projectId, scenarioId, revisionId });
+  const { ruleSet, rulesHash } = await revisionRules({ projectId, content: revision.content });
+  let runId = await findCurrentRun({ scenarioId, revisionId: revision.id, check: "all_rules", rulesHash, engineVersion: ENGINE_VERSION });
+  if (!runId && ensure) runId = (await runCheck({ actor, projectId, scenarioId, request: { check: "all_rules", inputs: {}, revisionId: revision.id } })).id;
+  let run: RevisionVerdict["run"] = null;
+  if (runId) {
+    const view = await getRunWithFreshness({ userId: actor.id, projectId, scenarioId, runId });
+    if (view.check !== "all_rules") throw new AppError("internal", 500, "Stored run is not an all-rules run.");
+    run = view;
+  }
+  return {
+    revisionId: revision.id,
+    revisionNumber: revision.number,
+    contentHash: revision.contentHash,
+    rulesHash,
+    engineVersion: ENGINE_VERSION,
+    ruleSet,
+    run,
+    failing: run && run.verdict === "fail" ? failingItems(run) : [],
+  };
+}
