@@ -260,6 +260,17 @@ export async function decideSignoff({
   return { signoff: await loadView(signoffId), ...result };
 }
 
+/** Waivers given on approval of a revision (by content hash), oldest first: what its later bundles carry. */
+export async function waiversOfRevision({ scenarioId, contentHash }: { scenarioId: string; contentHash: string }): Promise<{ reviewer: string; decidedAt: Date | null; comment: string; rules: { id: string; reason: string }[] }[]> {
+  const rows = await db
+    .select({ waiver: signoffs.waiver, decidedAt: signoffs.decidedAt, comment: signoffs.comment, name: users.name, email: users.email })
+    .from(signoffs)
+    .innerJoin(users, eq(users.id, signoffs.reviewerId))
+    .where(and(eq(signoffs.scenarioId, scenarioId), eq(signoffs.contentHash, contentHash), eq(signoffs.state, "approved")))
+    .orderBy(signoffs.decidedAt);
+  return rows.filter((r) => r.waiver && r.waiver.rules.length > 0).map((r) => ({ reviewer: `${r.name} <${r.email}>`, decidedAt: r.decidedAt, comment: r.comment, rules: r.waiver!.rules }));
+}
+
 /** Turn sign-off e-mails on or off for one's own account. */
 export async function setSignoffNotifications({ actor, enabled }: { actor: SessionUser; enabled: boolean }): Promise<boolean> {
   await runInTransaction(async (tx) => {

@@ -47,7 +47,7 @@ export type OptedOutRule = {
 export type EffectiveRuleSet = {
   /** project rules first, in the project's order, then the scenario's own rules in the file's order */
   rules: EffectiveRule[];
-  optedOut: OptedOutRule[];
+  opted_out: OptedOutRule[];
 };
 
 const namedRuleSchema = z.intersection(RuleSchema, z.object({ id: z.string().min(1) }));
@@ -66,7 +66,7 @@ export const EffectiveRuleSetSchema = z.object({
       note: z.string().optional(),
     }),
   ),
-  optedOut: z.array(z.object({ id: z.string().min(1), reason: z.string(), by: z.string().optional(), at: z.string().optional(), project_rule: namedRuleSchema.nullable() })),
+  opted_out: z.array(z.object({ id: z.string().min(1), reason: z.string(), by: z.string().optional(), at: z.string().optional(), project_rule: namedRuleSchema.nullable() })),
 });
 
 /** The system ports a rule names. */
@@ -135,7 +135,7 @@ export function normaliseScenarioRules(
 /**
  * The one function that says which rules judge a revision:
  * - every project rule, in the project's order, unless the scenario opts out of it (then it is listed in
- *   `optedOut` with the reason) or overrides it (then the override judges, with the project rule beside it);
+ *   `opted_out` with the reason) or overrides it (then the override judges, with the project rule beside it);
  * - then the scenario's own rules, named `rules[i]` when unnamed;
  * - an override of a rule the project no longer has judges as a scenario rule, with a note;
  * - a rule naming a system port the scenario lacks is listed with `not_run` and judges nothing.
@@ -156,7 +156,7 @@ export function effectiveRuleSet(
   const optOuts = new Map((scenario.rule_opt_outs ?? []).map((o) => [o.id, o]));
   const ports = scenario.ports ? new Set(scenario.ports.map((p) => p.name)) : null;
   const rules: EffectiveRule[] = [];
-  const optedOut: OptedOutRule[] = [];
+  const opted_out: OptedOutRule[] = [];
   const used = new Set<string>();
   const push = (entry: EffectiveRule) => {
     const missing = ports ? rulePorts(entry.rule).filter((p) => !ports.has(p)) : [];
@@ -168,7 +168,7 @@ export function effectiveRuleSet(
     used.add(project.id);
     const out: RuleOptOut | undefined = optOuts.get(project.id);
     if (out) {
-      optedOut.push({ id: project.id, reason: out.reason, by: out.by, at: out.at, project_rule: project });
+      opted_out.push({ id: project.id, reason: out.reason, by: out.by, at: out.at, project_rule: project });
       return;
     }
     const over = overrides.get(project.id);
@@ -179,7 +179,7 @@ export function effectiveRuleSet(
     push({ id: project.id, source: "project", rule: project });
   });
   for (const o of optOuts.values()) {
-    if (!used.has(o.id)) optedOut.push({ id: o.id, reason: o.reason, by: o.by, at: o.at, project_rule: null });
+    if (!used.has(o.id)) opted_out.push({ id: o.id, reason: o.reason, by: o.by, at: o.at, project_rule: null });
   }
   for (const o of overrides.values()) {
     if (used.has(o.id)) continue;
@@ -190,7 +190,7 @@ export function effectiveRuleSet(
     const id = spec.id ?? `rules[${i}]`;
     push({ id, source: "scenario", rule: { ...spec, id } as NamedRule });
   });
-  return { rules, optedOut };
+  return { rules, opted_out };
 }
 
 /** The rules of a set that judge (those that can run on the revision). */
@@ -206,6 +206,6 @@ export function judgingRules(set: EffectiveRuleSet): NamedRule[] {
 export function ruleSetHashInput(set: EffectiveRuleSet): unknown {
   return {
     rules: set.rules.map((r) => ({ id: r.id, source: r.source, rule: r.rule })),
-    opted_out: set.optedOut.map((o) => ({ id: o.id, reason: o.reason })),
+    opted_out: set.opted_out.map((o) => ({ id: o.id, reason: o.reason })),
   };
 }

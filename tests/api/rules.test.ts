@@ -122,7 +122,7 @@ describe("effectiveRuleSet (project rules, overrides, opt-outs and a scenario's 
   it("lists an opted-out project rule with its reason and does not judge by it", () => {
     const set = effectiveRuleSet([iso, loss], { ports, rule_opt_outs: [{ id: "loss", reason: "ANT is a test fixture here", by: "emil" }] });
     expect(set.rules.map((r) => r.id)).toEqual(["iso"]);
-    expect(set.optedOut).toEqual([{ id: "loss", reason: "ANT is a test fixture here", by: "emil", at: undefined, project_rule: loss }]);
+    expect(set.opted_out).toEqual([{ id: "loss", reason: "ANT is a test fixture here", by: "emil", at: undefined, project_rule: loss }]);
   });
 
   it("appends scenario-only rules (unnamed ones named by place) and lists rules naming missing ports as not run", () => {
