@@ -7,7 +7,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import type { RuleSpec } from "@/engine/types";
 import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components/ui";
 import { SortableTable, type SortColumn } from "@/components/checks/sortable-table";
-import { formatBand } from "@/components/helm/parse-input";
+import { describeRule as describe } from "@/lib/domain/rules/describe";
 import { RULE_KIND_LABELS, RULE_KINDS } from "@/lib/domain/rules/schema";
 import { EMPTY_RULE_FORM, formFromSpec, ruleFormSchema, specFromForm, type RuleFormValues } from "./rule-form";
 
@@ -24,20 +24,6 @@ async function send(url: string, method: string, body?: unknown): Promise<{ ok: 
   if (res.ok) return { ok: true };
   const json = (await res.json().catch(() => null)) as { error?: { message?: string; fields?: Record<string, string> } } | null;
   return { ok: false, message: json?.error?.message ?? `The server answered ${res.status}.`, fields: json?.error?.fields };
-}
-
-function describe(spec: RuleSpec): { ports: string; band: string; limit: string } {
-  const band = "band" in spec && spec.band ? formatBand(spec.band) : "whole plan";
-  switch (spec.kind) {
-    case "isolation":
-      return { ports: `${spec.from} → ${spec.to}${spec.one_way ? " (one way)" : ""}`, band, limit: `≥ ${spec.min_db} dB` };
-    case "insertion_loss":
-      return { ports: `${spec.from} → ${spec.to}`, band, limit: `≤ ${spec.max_db} dB` };
-    case "match":
-      return { ports: spec.port, band, limit: spec.min_return_loss_db !== undefined ? `return loss ≥ ${spec.min_return_loss_db} dB` : `VSWR ≤ ${spec.max_vswr}` };
-    case "drive":
-      return { ports: spec.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", "), band, limit: spec.coherent ? "ratings, coherent sum" : "ratings" };
-  }
 }
 
 /** A project's rules: a table for everyone; create, edit and delete for engineers and owners. */
@@ -119,15 +105,20 @@ export function RulesEditor({ projectId, initial, canEdit }: { projectId: string
   );
 }
 
-function RuleFormPanel({
+export function RuleFormPanel({
   initial,
   title,
   onCancel,
   onSubmit,
+  fixedName = false,
+  submitLabel = "Save rule",
 }: {
   initial: RuleFormValues;
   title: string;
   onCancel: () => void;
+  /** the name and kind stay as given (a scenario's override of a project rule keeps its name) */
+  fixedName?: boolean;
+  submitLabel?: string;
   onSubmit: (spec: RuleSpec) => Promise<{ ok: true } | { ok: false; message: string; fields?: Record<string, string> }>;
 }) {
   const form = useForm<RuleFormValues>({ resolver: zodResolver(ruleFormSchema), defaultValues: initial, mode: "onSubmit" });
@@ -158,18 +149,24 @@ function RuleFormPanel({
       <h3 className="text-base font-semibold">{title}</h3>
       {serverError ? <Alert tone="error">{serverError}</Alert> : null}
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field label="Name" error={err("id")} hint="Letters, digits, dots, dashes; shown in verdicts." required>
-          <Input {...register("id")} autoComplete="off" />
+        <Field label="Name" error={err("id")} hint={fixedName ? "The project rule's name." : "Letters, digits, dots, dashes; shown in verdicts."} required>
+          <Input {...register("id")} autoComplete="off" readOnly={fixedName} />
         </Field>
-        <Field label="Kind" error={err("kind")}>
-          <Select {...register("kind")}>
-            {RULE_KINDS.map((k) => (
-              <option key={k} value={k}>
-                {RULE_KIND_LABELS[k]}
-              </option>
-            ))}
-          </Select>
-        </Field>
+        {fixedName ? (
+          <Field label="Kind">
+            <Input value={RULE_KIND_LABELS[initial.kind]} readOnly />
+          </Field>
+        ) : (
+          <Field label="Kind" error={err("kind")}>
+            <Select {...register("kind")}>
+              {RULE_KINDS.map((k) => (
+                <option key={k} value={k}>
+                  {RULE_KIND_LABELS[k]}
+                </option>
+              ))}
+            </Select>
+          </Field>
+        )}
         {kind === "isolation" || kind === "insertion_loss" ? (
           <>
             <Field label="From port" error={err("from")} required>
@@ -218,7 +215,7 @@ function RuleFormPanel({
       </div>
       <div className="flex gap-2">
         <Button type="submit" loading={formState.isSubmitting}>
-          Save rule
+          {submitLabel}
         </Button>
         <Button type="button" variant="secondary" onClick={onCancel}>
           Cancel

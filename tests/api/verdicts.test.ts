@@ -10,7 +10,7 @@ import { mkdtempSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { and, eq } from "drizzle-orm";
-import { call, createAccount, makeRequest, setUpDatabase, type ErrorJson } from "./helpers";
+import { call, makeRequest, setUpDatabase, type ErrorJson } from "./helpers";
 import * as runsRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/route";
 import * as verdictRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/verdict/route";
 import * as revisionsRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/revisions/route";
@@ -137,7 +137,7 @@ describe("verdict identity and the effective rule set", () => {
     expect(csv.find((line) => line.startsWith("overall,"))).toContain(",fail,");
     const report = files.get("report.html")!;
     expect(report).toContain('<span class="fail">FAIL</span>');
-    expect(report).toMatch(/tx-rx-isolation<\/td><td>project<\/td><td>isolation TX↔RX ≥ \d+ dB/);
+    expect(report).toMatch(/tx-rx-isolation<\/td><td>project<\/td><td>isolation ≥ \d+ dB \(TX → RX\)/);
     const run = spawnSync(process.execPath, [path.resolve("node_modules/tsx/dist/cli.mjs"), path.resolve("engine/cli.ts"), "check", files.get("(path)")!], { encoding: "utf8" });
     expect(run.status).toBe(1);
     expect(run.stdout).toContain("REPRODUCED");

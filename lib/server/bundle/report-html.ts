@@ -1,6 +1,7 @@
 // report.html of a bundle: one self-contained, printable page (inline CSS and SVG, system fonts, no
 // scripts, no external requests) with the verdicts, |S| traces, leak traces, power ledgers and cautions.
-import { DRIVE_CAUTIONS, formatHz, RULE_SOURCE_LABELS, type NamedRule } from "@/engine/checks";
+import { DRIVE_CAUTIONS, formatHz, RULE_SOURCE_LABELS } from "@/engine/checks";
+import { ruleText } from "@/lib/domain/rules/describe";
 import type { BundleManifest, BundleResults } from "@/engine/bundle";
 import { escapeHtml, svgPlot, type PlotTrace } from "./svg-plot";
 
@@ -98,24 +99,6 @@ function verdictTable(results: BundleResults): string {
   return `<table><thead><tr><th>Verdict</th><th>Check</th><th>What</th><th>Figures</th></tr></thead><tbody>${rows.join("")}</tbody></table>`;
 }
 
-/** A rule's limit in words: "≥ 30 dB isolation", "≤ 6 dB insertion loss", "≥ 12 dB return loss / VSWR ≤ 2". */
-export function ruleLimitText(rule: NamedRule): string {
-  switch (rule.kind) {
-    case "isolation":
-      return `isolation ${rule.from}↔${rule.to} ≥ ${rule.min_db} dB`;
-    case "insertion_loss":
-      return `insertion loss ${rule.from}→${rule.to} ≤ ${rule.max_db} dB`;
-    case "match":
-      return `match at ${rule.port}: ${[rule.min_return_loss_db !== undefined ? `return loss ≥ ${rule.min_return_loss_db} dB` : "", rule.max_vswr !== undefined ? `VSWR ≤ ${rule.max_vswr}` : ""].filter(Boolean).join(", ")}`;
-    case "drive":
-      return `drive from ${rule.sources.map((s) => `${s.port} at ${s.dbm} dBm`).join(", ")} within ratings`;
-  }
-}
-
-function bandText(rule: NamedRule): string {
-  return rule.band ? `${formatHz(rule.band[0])} – ${formatHz(rule.band[1])}` : "whole plan";
-}
-
 /** The effective rule set the verdicts were judged by: each rule with its source and verdict; opt-outs with their reasons. */
 function ruleSetSection(results: BundleResults): string {
   const doc = results.checks;
@@ -124,13 +107,13 @@ function ruleSetSection(results: BundleResults): string {
     const v = verdicts.get(entry.id);
     const verdict = !v || v.verdict === "not run" ? `<span class="muted">NOT RUN</span>` : verdictCell(v.verdict);
     const override = entry.project_rule
-      ? `<div class="small muted">overrides the project's ${escapeHtml(ruleLimitText(entry.project_rule))}${entry.by ? `; changed by ${escapeHtml(entry.by)}` : ""}${entry.at ? ` on ${escapeHtml(entry.at)}` : ""}</div>`
+      ? `<div class="small muted">overrides the project's ${escapeHtml(ruleText(entry.project_rule))}${entry.by ? `; changed by ${escapeHtml(entry.by)}` : ""}${entry.at ? ` on ${escapeHtml(entry.at)}` : ""}</div>`
       : "";
     const note = entry.not_run ?? entry.note;
-    return `<tr><td>${verdict}</td><td class="mono">${escapeHtml(entry.id)}</td><td>${escapeHtml(RULE_SOURCE_LABELS[entry.source])}</td><td>${escapeHtml(ruleLimitText(entry.rule))}, ${escapeHtml(bandText(entry.rule))}${override}${note ? `<div class="small muted">${escapeHtml(note)}</div>` : ""}</td></tr>`;
+    return `<tr><td>${verdict}</td><td class="mono">${escapeHtml(entry.id)}</td><td>${escapeHtml(RULE_SOURCE_LABELS[entry.source])}</td><td>${escapeHtml(ruleText(entry.rule))}${override}${note ? `<div class="small muted">${escapeHtml(note)}</div>` : ""}</td></tr>`;
   });
   for (const o of doc.rule_set.opted_out) {
-    rows.push(`<tr><td><span class="muted">OPTED OUT</span></td><td class="mono">${escapeHtml(o.id)}</td><td>project</td><td>${o.project_rule ? escapeHtml(ruleLimitText(o.project_rule)) : "(no longer a project rule)"}<div class="small">reason: ${escapeHtml(o.reason)}${o.by ? ` (${escapeHtml(o.by)}${o.at ? `, ${escapeHtml(o.at)}` : ""})` : ""}</div></td></tr>`);
+    rows.push(`<tr><td><span class="muted">OPTED OUT</span></td><td class="mono">${escapeHtml(o.id)}</td><td>project</td><td>${o.project_rule ? escapeHtml(ruleText(o.project_rule)) : "(no longer a project rule)"}<div class="small">reason: ${escapeHtml(o.reason)}${o.by ? ` (${escapeHtml(o.by)}${o.at ? `, ${escapeHtml(o.at)}` : ""})` : ""}</div></td></tr>`);
   }
   if (rows.length === 0) return `<p class="muted">No rules: the project has none and the scenario adds none.</p>`;
   return `<table><thead><tr><th>Verdict</th><th>Rule</th><th>Source</th><th>Requirement</th></tr></thead><tbody>${rows.join("")}</tbody></table>
