@@ -27,7 +27,38 @@ async function send(url: string, method: string, body?: unknown): Promise<{ ok: 
 }
 
 /** A project's rules: a table for everyone; create, edit and delete for engineers and owners. */
-export function RulesEditor({ projectId, initial, canEdit }: { projectId: string; initial: RuleItem[]; canEdit: boolean }) {
+/** How scenarios depart from a rule (lib/server/verdicts.ts `projectRuleUsage`), by rule name. */
+export type RuleUsageItem = {
+  overrides: { scenarioId: string; scenarioName: string; rule: RuleSpec; by?: string }[];
+  optOuts: { scenarioId: string; scenarioName: string; reason: string; by?: string }[];
+};
+
+function UsageCell({ projectId, usage }: { projectId: string; usage: RuleUsageItem | undefined }) {
+  if (!usage || (usage.overrides.length === 0 && usage.optOuts.length === 0)) return <span className="text-muted">all inherit</span>;
+  return (
+    <ul className="flex flex-col gap-0.5 text-xs">
+      {usage.overrides.map((o) => (
+        <li key={`o:${o.scenarioId}`}>
+          <a className="underline underline-offset-2" href={`/projects/${projectId}/scenarios/${o.scenarioId}#scenario-rules`}>
+            {o.scenarioName}
+          </a>{" "}
+          overrides: {describe(o.rule).limit}
+          {o.by ? ` (${o.by})` : ""}
+        </li>
+      ))}
+      {usage.optOuts.map((o) => (
+        <li key={`x:${o.scenarioId}`}>
+          <a className="underline underline-offset-2" href={`/projects/${projectId}/scenarios/${o.scenarioId}#scenario-rules`}>
+            {o.scenarioName}
+          </a>{" "}
+          opts out: {o.reason}
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+export function RulesEditor({ projectId, initial, canEdit, usage = {} }: { projectId: string; initial: RuleItem[]; canEdit: boolean; usage?: Record<string, RuleUsageItem> }) {
   const url = `/api/projects/${projectId}/rules`;
   const { data, mutate } = useSWR<{ rules: RuleItem[] }>(url, fetcher, { fallbackData: { rules: initial } });
   const rules = data?.rules ?? [];
@@ -40,6 +71,13 @@ export function RulesEditor({ projectId, initial, canEdit }: { projectId: string
     { id: "ports", header: "Ports", value: (r) => describe(r.spec).ports, cell: (r) => <span className="font-mono">{describe(r.spec).ports}</span> },
     { id: "band", header: "Band", value: (r) => ("band" in r.spec && r.spec.band ? r.spec.band[0] : 0), cell: (r) => describe(r.spec).band },
     { id: "limit", header: "Requirement", value: (r) => describe(r.spec).limit, sortable: false },
+    {
+      id: "scenarios",
+      header: "Scenarios",
+      sortable: false,
+      value: () => null,
+      cell: (r) => <UsageCell projectId={projectId} usage={r.spec.id ? usage[r.spec.id] : undefined} />,
+    },
     ...(canEdit
       ? [
           {
@@ -55,7 +93,7 @@ export function RulesEditor({ projectId, initial, canEdit }: { projectId: string
                 <ConfirmButton
                   buttonProps={{ size: "sm", "aria-label": `Delete rule ${r.spec.id}` }}
                   title={`Delete rule ${r.spec.id}?`}
-                  description="Scenarios keep their own rules; stored check runs keep their verdicts."
+                  description="Scenarios stop inheriting it; their overrides and opt-outs of it stay visible on their Rules panels. Verdicts judged with it are marked stale."
                   confirmLabel="Delete rule"
                   onConfirm={async () => {
                     const res = await send(`${url}/${r.id}`, "DELETE");

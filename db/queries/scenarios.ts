@@ -96,6 +96,18 @@ export async function getScenario({
   return { scenario: info(row), revision: { ...revision, content: { ...revision.content, name: row.name } }, role };
 }
 
+/** Each scenario's latest content, by name (anyone in the project): what the Rules page reads overrides from. */
+export async function latestScenarioContents({ userId, projectId }: { userId: string; projectId: string }): Promise<{ id: string; name: string; revisionNumber: number; content: Scenario }[]> {
+  await authorize({ userId, projectId, action: "scenario.read" });
+  const rows = await db
+    .select({ id: scenarios.id, name: scenarios.name, revisionNumber: scenarios.latestRevisionNumber, content: scenarioRevisions.content })
+    .from(scenarios)
+    .innerJoin(scenarioRevisions, eq(scenarioRevisions.id, scenarios.latestRevisionId))
+    .where(eq(scenarios.projectId, projectId))
+    .orderBy(asc(scenarios.name));
+  return rows.map((r) => ({ ...r, content: r.content as unknown as Scenario }));
+}
+
 /** Create a scenario from a template or from given content (revision 1). Engineers and owners. */
 export async function createScenario({
   actor,

@@ -3,15 +3,17 @@ import { db, type Executor } from "@/db/client";
 import { findCurrentRun } from "@/db/queries/check-runs";
 import { getPartTexts } from "@/db/queries/parts";
 import { projectRuleSpecs } from "@/db/queries/rules";
-import { getScenario } from "@/db/queries/scenarios";
+import { getScenario, latestScenarioContents } from "@/db/queries/scenarios";
 import { hashRuleSet } from "@/engine/bundle";
 import { effectiveRuleSet, type EffectiveRuleSet } from "@/engine/checks";
 import { parseScenario } from "@/engine/scenario";
 import { solveScenario } from "@/engine/system";
-import { EngineInputError, SingularSystemError, type Scenario } from "@/engine/types";
+import { EngineInputError, SingularSystemError, type RuleSpec, type Scenario } from "@/engine/types";
 import { ENGINE_VERSION } from "@/engine/version";
 import { AppError } from "@/lib/base/errors";
-import type { CheckRunView } from "@/lib/domain/checks/types";
+import type { CheckRunView, RevisionVerdict } from "@/lib/domain/checks/types";
+
+export type { RevisionVerdict };
 import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { getRunWithFreshness, runCheck } from "@/lib/server/check-runs";
@@ -36,20 +38,6 @@ export async function solveProblem({ projectId, content }: { projectId: string; 
     throw error;
   }
 }
-
-/** The verdict of a revision under its current rules, as the sign-off panel, compare and bundles show it. */
-export type RevisionVerdict = {
-  revisionId: string;
-  revisionNumber: number;
-  contentHash: string;
-  rulesHash: string;
-  engineVersion: string;
-  ruleSet: EffectiveRuleSet;
-  /** the stored "all rules" run that is current for (revision, rules, engine), or null when none is */
-  run: Extract<CheckRunView, { check: "all_rules" }> | null;
-  /** failing rule ids and failing built-in checks (names as in checks.json), when the run fails */
-  failing: string[];
-};
 
 /** Rule ids and built-in check names that fail in an "all rules" run: what a waiver must name. */
 export function failingItems(run: Extract<CheckRunView, { check: "all_rules" }>): string[] {
@@ -94,4 +82,26 @@ export async function revisionVerdict({
     run,
     failing: run && run.verdict === "fail" ? failingItems(run) : [],
   };
+}
+
+/** How the project's scenarios depart from one project rule: overrides (with their rule) and opt-outs (with reasons). */
+export type RuleUsage = {
+  overrides: { scenarioId: string; scenarioName: string; rule: RuleSpec; by?: string; at?: string }[];
+  optOuts: { scenarioId: string; scenarioName: string; reason: string; by?: string; at?: string }[];
+};
+
+/** For each project rule (by name), the scenarios whose latest revision overrides or opts out of it (anyone in the project). */
+export async function projectRuleUsage({ userId, projectId }: { userId: string; projectId: string }): Promise<Record<string, RuleUsage>> {
+  const specs = await projectRuleSpecs({ projectId });
+  const usage: Record<string, RuleUsage> = Object.fromEntries(specs.filter((r) => r.id).map((r) => [r.id!, { overrides: [], optOuts: [] }]));
+  for (const s of await latestScenarioContents({ userId, projectId })) {
+    const set = effectiveRuleSet(specs, s.content);
+    for (const r of set.rules) {
+      if (r.source === "scenario-override" && usage[r.id]) usage[r.id].overrides.push({ scenarioId: s.id, scenarioName: s.name, rule: r.rule, by: r.by, at: r.at });
+    }
+    for (const o of set.opted_out) {
+      if (usage[o.id]) usage[o.id].optOuts.push({ scenarioId: s.id, scenarioName: s.name, reason: o.reason, by: o.by, at: o.at });
+    }
+  }
+  return usage;
 }

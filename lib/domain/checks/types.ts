@@ -1,5 +1,5 @@
 import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult, Verdict } from "@/engine/checks";
-import type { RuleSource } from "@/engine/checks";
+import type { EffectiveRuleSet, RuleSource } from "@/engine/checks";
 import type { CheckName } from "./inputs";
 
 /** A rule left out of a run because the scenario lacks a system port it names. */
@@ -56,3 +56,17 @@ export type CheckRunSummary = {
 
 /** A run with its figures; `check` tells which result `figures.result` holds. */
 export type CheckRunView = { [K in CheckName]: Omit<CheckRunSummary, "check"> & { check: K; figures: CheckFigures<K> } }[CheckName];
+
+/** The verdict of a revision under its current rules (lib/server/verdicts.ts), as the sign-off panel, compare and overview show it. */
+export type RevisionVerdict = {
+  revisionId: string;
+  revisionNumber: number;
+  contentHash: string;
+  rulesHash: string;
+  engineVersion: string;
+  ruleSet: EffectiveRuleSet;
+  /** the stored "all rules" run that is current for (revision, rules, engine), or null when none is */
+  run: Extract<CheckRunView, { check: "all_rules" }> | null;
+  /** failing rule ids and failing built-in checks (names as in checks.json), when the run fails */
+  failing: string[];
+};
