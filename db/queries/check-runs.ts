@@ -102,6 +102,17 @@ export async function findCurrentRun({ scenarioId, revisionId, check, rulesHash,
   return row?.id ?? null;
 }
 
+/** The newest run of a check on a revision whatever its identity (the caller has authorised), for "stale" marks. */
+export async function newestRunOf({ scenarioId, revisionId, check }: { scenarioId: string; revisionId: string; check: CheckName }): Promise<{ id: string; verdict: Verdict; rulesHash: string | null; engineVersion: string | null; createdAt: Date } | null> {
+  const [row] = await db
+    .select({ id: checkRuns.id, verdict: checkRuns.verdict, rulesHash: checkRuns.rulesHash, engineVersion: checkRuns.engineVersion, createdAt: checkRuns.createdAt })
+    .from(checkRuns)
+    .where(and(eq(checkRuns.scenarioId, scenarioId), eq(checkRuns.revisionId, revisionId), eq(checkRuns.check, check)))
+    .orderBy(desc(checkRuns.createdAt), desc(sql`${checkRuns}.rowid`))
+    .limit(1);
+  return row ?? null;
+}
+
 /** One run with its figures (anyone in the project). */
 export async function getCheckRun({ userId, projectId, scenarioId, runId }: { userId: string; projectId: string; scenarioId: string; runId: string }): Promise<CheckRunView> {
   await authorize({ userId, projectId, action: "scenario.read" });

@@ -97,10 +97,16 @@ export async function getScenario({
 }
 
 /** Each scenario's latest content, by name (anyone in the project): what the Rules page reads overrides from. */
-export async function latestScenarioContents({ userId, projectId }: { userId: string; projectId: string }): Promise<{ id: string; name: string; revisionNumber: number; content: Scenario }[]> {
+export async function latestScenarioContents({
+  userId,
+  projectId,
+}: {
+  userId: string;
+  projectId: string;
+}): Promise<{ id: string; name: string; revisionId: string; revisionNumber: number; content: Scenario }[]> {
   await authorize({ userId, projectId, action: "scenario.read" });
   const rows = await db
-    .select({ id: scenarios.id, name: scenarios.name, revisionNumber: scenarios.latestRevisionNumber, content: scenarioRevisions.content })
+    .select({ id: scenarios.id, name: scenarios.name, revisionId: scenarioRevisions.id, revisionNumber: scenarios.latestRevisionNumber, content: scenarioRevisions.content })
     .from(scenarios)
     .innerJoin(scenarioRevisions, eq(scenarioRevisions.id, scenarios.latestRevisionId))
     .where(eq(scenarios.projectId, projectId))

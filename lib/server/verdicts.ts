@@ -1,6 +1,6 @@
 import "server-only";
 import { db, type Executor } from "@/db/client";
-import { findCurrentRun } from "@/db/queries/check-runs";
+import { findCurrentRun, newestRunOf } from "@/db/queries/check-runs";
 import { getPartTexts } from "@/db/queries/parts";
 import { projectRuleSpecs } from "@/db/queries/rules";
 import { getScenario, latestScenarioContents } from "@/db/queries/scenarios";
@@ -16,7 +16,7 @@ import type { CheckRunView, RevisionVerdict } from "@/lib/domain/checks/types";
 export type { RevisionVerdict };
 import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
 import type { SessionUser } from "@/lib/server/auth/session";
-import { getRunWithFreshness, runCheck } from "@/lib/server/check-runs";
+import { getRunWithFreshness, runCheck, staleReasons } from "@/lib/server/check-runs";
 
 /** A revision's effective rule set and its hash (docs/checks.md "Verdict identity"). */
 export type RevisionRules = { ruleSet: EffectiveRuleSet; rulesHash: string };
@@ -104,4 +104,37 @@ export async function projectRuleUsage({ userId, projectId }: { userId: string; 
     }
   }
   return usage;
+}
+
+/** A scenario's latest revision and its "all rules" verdict as the project overview lists it. */
+export type ScenarioVerdictRow = {
+  scenarioId: string;
+  scenarioName: string;
+  revisionNumber: number;
+  /** "current": judged by the current rules and engine; "stale": the newest verdict is not; "none": never judged */
+  state: "current" | "stale" | "none";
+  verdict: "pass" | "fail" | "warn" | null;
+  reasons: string[];
+  judgedAt: Date | null;
+};
+
+/** Each scenario's latest verdict, current or marked stale (anyone in the project). Runs nothing. */
+export async function projectVerdicts({ userId, projectId }: { userId: string; projectId: string }): Promise<ScenarioVerdictRow[]> {
+  const specs = await projectRuleSpecs({ projectId });
+  const rows: ScenarioVerdictRow[] = [];
+  for (const s of await latestScenarioContents({ userId, projectId })) {
+    const rulesHash = hashRuleSet(effectiveRuleSet(specs, s.content));
+    const run = await newestRunOf({ scenarioId: s.id, revisionId: s.revisionId, check: "all_rules" });
+    const reasons = run ? staleReasons({ check: "all_rules", rulesHash: run.rulesHash, engineVersion: run.engineVersion }, rulesHash) : [];
+    rows.push({
+      scenarioId: s.id,
+      scenarioName: s.name,
+      revisionNumber: s.revisionNumber,
+      state: !run ? "none" : reasons.length === 0 ? "current" : "stale",
+      verdict: run?.verdict ?? null,
+      reasons,
+      judgedAt: run?.createdAt ?? null,
+    });
+  }
+  return rows;
 }

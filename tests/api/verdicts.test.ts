@@ -29,7 +29,7 @@ import type { RuleResult } from "@/engine/checks";
 import type { Scenario } from "@/engine/types";
 import { createSessionForUser } from "@/lib/server/auth/session";
 import type { CheckRunSummary } from "@/lib/domain/checks/types";
-import type { RevisionVerdict } from "@/lib/server/verdicts";
+import { projectRuleUsage, projectVerdicts, type RevisionVerdict } from "@/lib/server/verdicts";
 
 let projectId: string;
 const cookies: Record<"owner" | "engineer" | "reviewer", string> = { owner: "", engineer: "", reviewer: "" };
@@ -117,6 +117,8 @@ describe("verdict identity and the effective rule set", () => {
     expect(latestRun.stale).toEqual(["the rules changed since it ran"]);
     expect(latestRun.latest).toBe(true);
     expect((await verdict(cookies.engineer, scenarioIds.Baseline, "GET")).body.verdict.run).toBeNull();
+    const overview = await projectVerdicts({ userId: ids.reviewer, projectId });
+    expect(overview.find((r) => r.scenarioName === "Baseline")).toMatchObject({ state: "stale", verdict: "pass", reasons: ["the rules changed since it ran"] });
     const { body } = await verdict(cookies.engineer, scenarioIds.Baseline, "POST");
     expect(body.verdict.run?.verdict).toBe("fail");
     expect(body.verdict.failing).toEqual(["tx-rx-isolation"]);
@@ -195,6 +197,11 @@ describe("verdict identity and the effective rule set", () => {
     const after = (await verdict(cookies.engineer, scenarioIds.Baseline, "POST")).body.verdict;
     expect(after.ruleSet.rules.map((r) => r.id)).toEqual(["tx-rx-isolation", "tx-ant-loss"]);
     expect(after.ruleSet.opted_out).toEqual([expect.objectContaining({ id: "tx-match", reason: "matched by the PA module, not this chain" })]);
+    // the project Rules page lists who departs from each rule
+    const usage = await projectRuleUsage({ userId: ids.reviewer, projectId });
+    expect(usage["tx-rx-isolation"].overrides).toEqual([expect.objectContaining({ scenarioName: "Baseline", rule: expect.objectContaining({ min_db: 30 }), by: "emil@portolan.example" })]);
+    expect(usage["tx-match"].optOuts).toEqual([expect.objectContaining({ scenarioName: "Baseline", reason: "matched by the PA module, not this chain" })]);
+    expect(usage["tx-ant-loss"]).toEqual({ overrides: [], optOuts: [] });
   });
 
   it("a revision that does not solve cannot be put up for sign-off (422 naming the problem)", async () => {
