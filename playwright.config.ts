@@ -2,9 +2,10 @@ import { defineConfig, devices } from "@playwright/test";
 
 // Browser tests run Debian's chromium (never a downloaded browser) against `next start` on a fresh
 // database. tests/run-all.sh builds the app first; run `npx next build` before `npx playwright test`.
-const PORT = 3210;
+// E2E_PORT lets several checkouts on one machine run their browser tests at once (each its own database).
+const PORT = Number(process.env.E2E_PORT ?? 3210);
 const BASE_URL = `http://127.0.0.1:${PORT}`;
-const E2E_DB = "data/e2e-playwright.db";
+const E2E_DB = PORT === 3210 ? "data/e2e-playwright.db" : `data/e2e-playwright-${PORT}.db`;
 const isCI = Boolean(process.env.CI);
 
 export default defineConfig({
@@ -56,7 +57,7 @@ export default defineConfig({
     env: {
       DATABASE_URL: `file:${E2E_DB}`,
       FAKE_SMTP: "1",
-      FAKE_SMTP_PORT: "2626",
+      FAKE_SMTP_PORT: String(process.env.E2E_SMTP_PORT ?? 2626),
       OUTBOX_ENABLED: "1",
       SEED_DEMO: "1",
       COOKIE_SECURE: "false",
