@@ -179,8 +179,9 @@ describe("verdict identity and the effective rule set", () => {
     expect(files.get("report.html")).toContain(reason);
   });
 
-  it("an override shows both limits and judges the scenario; an opt-out needs a reason and is listed with it", async () => {
-    const loose = { ...DEMO_RULES[0], id: "tx-rx-isolation", min_db: 30, by: "emil@portolan.example", at: "2026-12-04T00:00:00Z" };
+  it("an override shows both limits, who changed it (the server's record) and judges the scenario; an opt-out needs a reason", async () => {
+    // the client's `by` is not trusted: the saving user is recorded
+    const loose = { ...DEMO_RULES[0], id: "tx-rx-isolation", min_db: 30, by: "mallory@example.test", at: "2000-01-01T00:00:00Z" };
     await saveRevision(scenarioIds.Baseline, (s) => ({ ...s, rule_overrides: [loose] }));
     const { body } = await verdict(cookies.engineer, scenarioIds.Baseline, "POST");
     expect(body.verdict.run?.verdict).toBe("pass");
@@ -193,8 +194,11 @@ describe("verdict identity and the effective rule set", () => {
       { projectId, scenarioId: scenarioIds.Baseline },
     );
     expect(blank.status).toBe(400);
+    const stampedAt = body.verdict.ruleSet.rules[0].at;
+    expect(stampedAt).not.toBe("2000-01-01T00:00:00Z");
     await saveRevision(scenarioIds.Baseline, (s) => ({ ...s, rule_opt_outs: [{ id: "tx-match", reason: "matched by the PA module, not this chain" }] }));
     const after = (await verdict(cookies.engineer, scenarioIds.Baseline, "POST")).body.verdict;
+    expect(after.ruleSet.rules[0]).toMatchObject({ by: "emil@portolan.example", at: stampedAt }); // unchanged override keeps its record
     expect(after.ruleSet.rules.map((r) => r.id)).toEqual(["tx-rx-isolation", "tx-ant-loss"]);
     expect(after.ruleSet.opted_out).toEqual([expect.objectContaining({ id: "tx-match", reason: "matched by the PA module, not this chain" })]);
     // the project Rules page lists who departs from each rule
