@@ -6,7 +6,7 @@ import { defineConfig, devices } from "@playwright/test";
 const PORT = Number(process.env.E2E_PORT ?? 3210);
 const SMTP_PORT = process.env.E2E_SMTP_PORT ?? "2626";
 const BASE_URL = `http://127.0.0.1:${PORT}`;
-const E2E_DB = "data/e2e-playwright.db";
+const E2E_DB = PORT === 3210 ? "data/e2e-playwright.db" : `data/e2e-playwright-${PORT}.db`;
 const isCI = Boolean(process.env.CI);
 
 export default defineConfig({

@@ -291,6 +291,14 @@ export const checkRuns = sqliteTable(
     inputs: text("inputs", { mode: "json" }).$type<Record<string, unknown>>(),
     verdict: text("verdict", { enum: ["pass", "fail", "warn"] }).notNull(),
     figures: text("figures", { mode: "json" }).$type<CheckFigures>(),
+    /**
+     * What the verdict is of (docs/checks.md "Verdict identity"): the revision's content hash, the SHA-256
+     * of its effective rule set's canonical JSON, and the engine version. Null for runs stored before
+     * they were recorded: such runs are shown stale.
+     */
+    contentHash: text("content_hash"),
+    rulesHash: text("rules_hash"),
+    engineVersion: text("engine_version"),
     createdAt: createdAt(),
   },
   (table) => [index("check_runs_scenario_id_idx").on(table.scenarioId, table.createdAt)],
@@ -303,6 +311,12 @@ export type NewCheckRun = typeof checkRuns.$inferInsert;
 
 export const SIGNOFF_STATES = ["requested", "approved", "changes_requested"] as const;
 export type SignoffState = (typeof SIGNOFF_STATES)[number];
+
+/** A reviewer's waiver of failing rules, given to approve a revision whose verdict fails. */
+export type SignoffWaiver = { rules: { id: string; reason: string }[] };
+
+/** The evidence a decision was taken on: the verdict of (revision, rules hash, engine version). */
+export type SignoffEvidence = { verdict: "pass" | "fail" | "warn"; rulesHash: string; engineVersion: string; failing: string[]; checkRunId: string | null };
 
 /**
  * One reviewer's sign-off of one scenario revision. Bound to the revision's content hash: once the
@@ -331,6 +345,10 @@ export const signoffs = sqliteTable(
     /** the requester's note when asking, then the reviewer's comment when deciding */
     requestNote: text("request_note").notNull().default(""),
     comment: text("comment").notNull().default(""),
+    /** the failing rules the reviewer waived, each with a reason (only on approval of a failing verdict) */
+    waiver: text("waiver", { mode: "json" }).$type<SignoffWaiver>(),
+    /** the verdict the decision was taken on */
+    evidence: text("evidence", { mode: "json" }).$type<SignoffEvidence>(),
     createdAt: createdAt(),
     decidedAt: integer("decided_at", { mode: "timestamp_ms" }),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" })

@@ -143,7 +143,7 @@ export function kestrelScenario(name: string, trIsolationDb: number): Scenario {
       { name: "MON", at: "CPL:3" },
       { name: "ANT-A", at: "ASW:2" },
     ],
-    rules: DEMO_RULES,
+    // no `rules`: the demo scenarios are judged by the project's rules (DEMO_RULES), inherited
   };
 }
 

@@ -8,6 +8,7 @@
  * const solution = solveScenario(parseScenario(json));
  */
 export * from "./types";
+export * from "./version";
 export * from "./complex";
 export * from "./linalg";
 export * from "./renorm";

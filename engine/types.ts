@@ -7,7 +7,7 @@
  * `2 * ((k * n + i) * n + j)` and its imaginary part right after it.
  */
 import type { z } from "zod";
-import type { RuleSchema } from "./scenario/schema";
+import type { RuleOptOutSchema, RuleOverrideSchema, RuleSchema } from "./scenario/schema";
 
 /** S-parameters of an n-port at nf frequencies (see the layout above). Ports are 0-based here. */
 export type SData = {
@@ -88,6 +88,10 @@ export type SystemPortSpec = { name: string; at: PortRef; z0?: number };
 
 /** A rule of a scenario file, as its zod schema (engine/scenario/schema.ts `RuleSchema`) reads it. */
 export type RuleSpec = z.infer<typeof RuleSchema>;
+/** A scenario's replacement of a project rule of the same `id` (engine/scenario/schema.ts `RuleOverrideSchema`). */
+export type RuleOverride = z.infer<typeof RuleOverrideSchema>;
+/** A scenario's visible opt-out of a project rule, with its reason. */
+export type RuleOptOut = z.infer<typeof RuleOptOutSchema>;
 
 export type Scenario = {
   format: "portolan.scenario/1";
@@ -98,7 +102,12 @@ export type Scenario = {
   blocks: BlockSpec[];
   links: [PortRef, PortRef][];
   ports: SystemPortSpec[];
+  /** scenario-only rules */
   rules?: RuleSpec[];
+  /** replacements of project rules, by the project rule's id (the app's effective rule set reads them) */
+  rule_overrides?: RuleOverride[];
+  /** project rules this scenario does not answer to, each with a reason */
+  rule_opt_outs?: RuleOptOut[];
   /** allow hold-last extrapolation of part data outside its range (reported as a warning) */
   extrapolate?: "error" | "hold";
   /** project variables usable in parameter expressions (the web app resolves them before the engine) */

@@ -1,6 +1,7 @@
 "use client";
 
 import type { AllChecksResult } from "@/engine/checks";
+import type { RuleSource } from "@/engine/checks/rule-set";
 import { VerdictBadge } from "@/components/ui";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import type { CheckRunView as Run } from "@/lib/domain/checks/types";
@@ -40,7 +41,7 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: C
       {run.check === "drive" ? <DriveView result={run.figures.result} /> : null}
       {run.check === "state_sweep" ? <SweepTable result={run.figures.result} /> : null}
       {run.check === "stability" ? <StabilityView results={run.figures.result} /> : null}
-      {run.check === "all_rules" ? <AllRulesView result={run.figures.result} /> : null}
+      {run.check === "all_rules" ? <AllRulesView result={run.figures.result} sources={run.figures.ruleSources} /> : null}
       {run.figures.skipped && run.figures.skipped.length > 0 ? (
         <div className="text-sm">
           <h4 className="font-semibold">Rules not run on this scenario</h4>
@@ -57,11 +58,11 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: C
   );
 }
 
-function AllRulesView({ result }: { result: AllChecksResult }) {
+function AllRulesView({ result, sources }: { result: AllChecksResult; sources?: { id: string; source: RuleSource }[] }) {
   const others = result.checks.filter((c) => !c.name.startsWith("rule:"));
   return (
     <div className="flex flex-col gap-3">
-      {result.rules.length > 0 ? <RuleResultsTable results={result.rules} /> : <p className="text-sm text-muted">No rules apply to this scenario.</p>}
+      {result.rules.length > 0 ? <RuleResultsTable results={result.rules} sources={sources} /> : <p className="text-sm text-muted">No rules apply to this scenario.</p>}
       <SortableTable
         caption="Built-in checks"
         rows={others}

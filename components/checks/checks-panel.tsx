@@ -1,7 +1,7 @@
 "use client";
 
 import useSWR from "swr";
-import { Alert, Button, Spinner, VerdictBadge } from "@/components/ui";
+import { Alert, Badge, Button, Spinner, VerdictBadge } from "@/components/ui";
 import { cn } from "@/components/ui/cn";
 import { checkRunUrls, fetchJson } from "@/lib/browser/api-client";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
@@ -19,12 +19,22 @@ export type ChecksPanelProps = {
   onRunAll: () => void;
   highlightedPath: number | null;
   onHighlightPath: (rank: number | null) => void;
+  /** run a stored run's check again on the latest revision (the one action offered on a stale verdict) */
+  onRerun: (run: CheckRunSummary) => void;
 };
+
+/** Why a stored verdict is not the verdict of what is on screen now, in words (empty when it is). */
+export function staleNote(run: Pick<CheckRunSummary, "stale" | "latest" | "revisionNumber">): string {
+  const reasons = [...run.stale];
+  if (!run.latest) reasons.unshift(`it ran on r${run.revisionNumber ?? "?"}, not the latest revision`);
+  return reasons.join("; ");
+}
 
 /** The scenario page's checks: the selected run's results and the scenario's run history. */
 export function ChecksPanel(props: ChecksPanelProps) {
-  const { projectId, scenarioId, selectedRunId, onSelect, running, error, canRun, onRunAll } = props;
-  const { data: list } = useSWR<{ runs: CheckRunSummary[] }>(checkRunUrls.list(projectId, scenarioId), fetchJson);
+  const { projectId, scenarioId, selectedRunId, onSelect, running, error, canRun, onRunAll, onRerun } = props;
+  // revalidated on focus: a rule edited on the Rules page marks verdicts stale when one comes back
+  const { data: list } = useSWR<{ runs: CheckRunSummary[] }>(checkRunUrls.list(projectId, scenarioId), fetchJson, { revalidateOnFocus: true });
   const { data: one, error: oneError } = useSWR<{ run: Run }>(selectedRunId ? checkRunUrls.one(projectId, scenarioId, selectedRunId) : null, fetchJson);
   const runs = list?.runs ?? [];
   return (
@@ -53,7 +63,24 @@ export function ChecksPanel(props: ChecksPanelProps) {
       <div className="grid gap-3 xl:grid-cols-[minmax(0,1fr)_18rem]">
         <div className="min-w-0">
           {one?.run ? (
-            <CheckRunView run={one.run} highlightedPath={props.highlightedPath} onHighlightPath={props.onHighlightPath} />
+            <div className="flex flex-col gap-2">
+              {staleNote(one.run) ? (
+                <Alert
+                  tone="warn"
+                  title="Stale verdict"
+                  actions={
+                    canRun ? (
+                      <Button size="sm" onClick={() => onRerun(one.run)} loading={running === one.run.check}>
+                        Re-run on the latest revision
+                      </Button>
+                    ) : undefined
+                  }
+                >
+                  This verdict is not current: {staleNote(one.run)}.
+                </Alert>
+              ) : null}
+              <CheckRunView run={one.run} highlightedPath={props.highlightedPath} onHighlightPath={props.onHighlightPath} />
+            </div>
           ) : selectedRunId && !oneError ? (
             <Spinner />
           ) : oneError ? (
@@ -80,6 +107,11 @@ export function ChecksPanel(props: ChecksPanelProps) {
                       <VerdictBadge verdict={r.verdict} />
                       <span className="font-medium">{CHECK_TITLES[r.check]}</span>
                       <span className="text-muted">r{r.revisionNumber ?? "?"}</span>
+                      {staleNote(r) ? (
+                        <Badge tone="warn" title={staleNote(r)} data-testid="stale-mark">
+                          stale
+                        </Badge>
+                      ) : null}
                     </span>
                     <span className="truncate text-muted">{r.headline}</span>
                   </button>

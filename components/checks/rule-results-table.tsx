@@ -1,6 +1,7 @@
 "use client";
 
 import type { RuleResult } from "@/engine/checks/types";
+import { RULE_SOURCE_LABELS, type RuleSource } from "@/engine/checks/rule-set";
 import { VerdictBadge } from "@/components/ui";
 import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
 import { fmt, fmtHz, fmtMargin } from "./format";
@@ -18,12 +19,19 @@ const columns: SortColumn<RuleResult>[] = [
   { id: "margin", header: "Margin", numeric: true, value: (r) => r.margin, cell: (r) => `${fmtMargin(r.margin)} dB` },
 ];
 
-/** Rule verdicts with worst value, its frequency, the limit and the margin; sorted by margin, smallest first. */
-export function RuleResultsTable({ results, caption = "Rule verdicts" }: { results: RuleResult[]; caption?: string }) {
+/**
+ * Rule verdicts with worst value, its frequency, the limit and the margin; sorted by margin, smallest
+ * first. With `sources`, a column says where each rule comes from (project, scenario override, scenario only).
+ */
+export function RuleResultsTable({ results, caption = "Rule verdicts", sources }: { results: RuleResult[]; caption?: string; sources?: { id: string; source: RuleSource }[] }) {
+  const bySource = new Map((sources ?? []).map((s) => [s.id, s.source]));
+  const withSource: SortColumn<RuleResult>[] = sources
+    ? [...columns.slice(0, 2), { id: "source", header: "Source", value: (r) => RULE_SOURCE_LABELS[bySource.get(r.id) ?? "scenario"] }, ...columns.slice(2)]
+    : columns;
   return (
     <SortableTable
       caption={caption}
-      columns={columns}
+      columns={withSource}
       rows={results}
       rowKey={(r) => r.id}
       initialSort={{ id: "margin", desc: false }}

@@ -62,6 +62,11 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
   const [leak, setLeak] = useState<LeakTraceResult | null>(null);
   const box = useRef<HTMLDivElement>(null);
 
+  // a new revision (a save, a rule edit on the Rules panel) makes earlier runs verdicts of an older revision
+  useEffect(() => {
+    void mutate(checkRunUrls.list(projectId, scenarioId));
+  }, [mutate, projectId, scenarioId, revisionId]);
+
   useEffect(() => {
     const path = leak && pathRank !== null ? leak.paths.find((p) => p.rank === pathRank) : null;
     onHighlight(path ? highlightOfPath(path) : null);
@@ -169,6 +174,7 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
         onRunAll={() => void runCheck("all_rules", {})}
         highlightedPath={pathRank}
         onHighlightPath={setPathRank}
+        onRerun={(run) => void runCheck(run.check, run.inputs)}
       />
       {revisionNumber > 0 ? <p className="mt-1 text-xs text-muted">Checks run on the saved revision r{revisionNumber}; unsaved edits are not included.</p> : null}
       {readOnly && !can(role, "check.run") ? <Alert tone="info">Your role cannot run checks.</Alert> : null}

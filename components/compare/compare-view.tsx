@@ -4,36 +4,53 @@ import { useMemo, useState } from "react";
 import { usePathname, useRouter } from "next/navigation";
 import useSWR from "swr";
 import type { RuleResult } from "@/engine/checks";
-import type { Scenario } from "@/engine/types";
+import type { RuleSpec, Scenario } from "@/engine/types";
+import { RULE_SOURCE_LABELS } from "@/engine/checks";
 import { Alert, Badge, Field, Select, Spinner, VerdictBadge } from "@/components/ui";
-import { checkRunUrls, fetchJson, requestJson } from "@/lib/browser/api-client";
-import type { CheckRunOf, CheckRunSummary } from "@/lib/domain/checks/types";
+import { fetchJson, requestJson } from "@/lib/browser/api-client";
+import type { RevisionVerdict } from "@/lib/domain/checks/types";
+import { ruleText } from "@/lib/domain/rules/describe";
+import { verdictUrl } from "@/components/checks/revision-verdict";
 import { fmt, fmtMargin } from "@/components/checks/format";
 import { defaultPair } from "@/components/helm/commands";
-import { diffScenarios, type ScenarioDiff } from "@/lib/domain/scenarios/diff";
+import { changeText, diffScenarios, valueText, type ScenarioDiff } from "@/lib/domain/scenarios/diff";
 import { TraceOverlay } from "./trace-overlay";
 
 type Side = { scenarioId: string; revisionId: string };
 type Loaded = { revision: { id: string; number: number; content: Scenario } };
-type AllRulesRun = CheckRunOf<"all_rules">;
 type Solved = { frequencies: number[]; ports: string[]; s: [number, number][][][] };
 
-/** The latest stored "all rules" run of this revision, or a new one. */
-async function allRulesFor(projectId: string, scenarioId: string, revisionId: string): Promise<AllRulesRun> {
-  const { runs } = await requestJson<{ runs: CheckRunSummary[] }>(`${checkRunUrls.list(projectId, scenarioId)}?limit=200`);
-  const found = runs.find((r) => r.check === "all_rules" && r.revisionId === revisionId);
-  if (found) return (await requestJson<{ run: AllRulesRun }>(checkRunUrls.one(projectId, scenarioId, found.id))).run;
-  return (await requestJson<{ run: AllRulesRun }>(checkRunUrls.list(projectId, scenarioId), { method: "POST", json: { check: "all_rules", inputs: {}, revisionId } })).run;
+/**
+ * The revision's current verdict under its own current rules (POST …/verdict runs "all rules" when no
+ * stored run is current, so a verdict from before a rule edit is never shown as current).
+ */
+async function verdictFor(projectId: string, scenarioId: string, revisionId: string): Promise<RevisionVerdict> {
+  return (await requestJson<{ verdict: RevisionVerdict }>(verdictUrl(projectId, scenarioId), { method: "POST", json: { revisionId } })).verdict;
 }
 
-function useSide(projectId: string, side: Side) {
+const message = (e: unknown): string | null => (e ? (e instanceof Error ? e.message : String(e)) : null);
+
+function useSide(projectId: string, side: Side, canRun: boolean) {
   const base = `/api/projects/${projectId}/scenarios/${side.scenarioId}`;
   const revisions = useSWR<{ revisions: { id: string; number: number }[] }>(side.scenarioId ? `${base}/revisions` : null, fetchJson);
   const loaded = useSWR<Loaded>(side.scenarioId ? `${base}${side.revisionId ? `?revision=${encodeURIComponent(side.revisionId)}` : ""}` : null, fetchJson);
   const revisionId = loaded.data?.revision.id;
-  const rules = useSWR<AllRulesRun>(revisionId ? ["all-rules", side.scenarioId, revisionId] : null, () => allRulesFor(projectId, side.scenarioId, revisionId!));
-  const solved = useSWR<Solved>(revisionId ? `${base}/solve?format=json&revision=${encodeURIComponent(revisionId)}` : null, fetchJson);
-  return { revisions: revisions.data?.revisions ?? [], loaded: loaded.data, rules: rules.data, solved: solved.data, error: loaded.error ?? rules.error ?? solved.error };
+  const verdict = useSWR<RevisionVerdict>(
+    revisionId ? ["verdict", side.scenarioId, revisionId, canRun] : null,
+    () => (canRun ? verdictFor(projectId, side.scenarioId, revisionId!) : fetchJson<{ verdict: RevisionVerdict }>(verdictUrl(projectId, side.scenarioId, revisionId)).then((r) => r.verdict)),
+    { shouldRetryOnError: false, revalidateOnFocus: true },
+  );
+  const solved = useSWR<Solved>(revisionId ? `${base}/solve?format=json&revision=${encodeURIComponent(revisionId)}` : null, fetchJson, { shouldRetryOnError: false });
+  return {
+    revisions: revisions.data?.revisions ?? [],
+    loaded: loaded.data,
+    verdict: verdict.data,
+    /** why this side has no verdict (a draft that does not solve), in the engine's words */
+    verdictError: message(verdict.error),
+    solved: solved.data,
+    solveError: message(solved.error),
+    error: message(loaded.error),
+  };
 }
 
 function magDb(s: Solved, to: string, from: string): { hz: number[]; db: number[] } | null {
@@ -43,16 +60,22 @@ function magDb(s: Solved, to: string, from: string): { hz: number[]; db: number[
   return { hz: s.frequencies, db: s.s.map((m) => 10 * Math.log10(m[i][j][0] ** 2 + m[i][j][1] ** 2 || 1e-40)) };
 }
 
-export type CompareViewProps = { projectId: string; scenarios: { id: string; name: string }[]; initial: { a: Side; b: Side } };
+export type CompareViewProps = {
+  projectId: string;
+  scenarios: { id: string; name: string }[];
+  initial: { a: Side; b: Side };
+  /** the viewer may run checks (then stale verdicts are re-run on open) */
+  canRun?: boolean;
+};
 
 /** Two scenarios (or two revisions) side by side: rule verdicts and margins, an S_ij overlay, and the differences. */
-export function CompareView({ projectId, scenarios, initial }: CompareViewProps) {
+export function CompareView({ projectId, scenarios, initial, canRun = true }: CompareViewProps) {
   const router = useRouter();
   const pathname = usePathname() ?? "";
   const [a, setA] = useState<Side>(initial.a);
   const [b, setB] = useState<Side>(initial.b);
-  const A = useSide(projectId, a);
-  const Bs = useSide(projectId, b);
+  const A = useSide(projectId, a, canRun);
+  const Bs = useSide(projectId, b, canRun);
   const nameOf = (id: string) => scenarios.find((s) => s.id === id)?.name ?? "?";
   const labelA = A.loaded ? `${nameOf(a.scenarioId)} r${A.loaded.revision.number}` : nameOf(a.scenarioId);
   const labelB = Bs.loaded ? `${nameOf(b.scenarioId)} r${Bs.loaded.revision.number}` : nameOf(b.scenarioId);
@@ -77,9 +100,11 @@ export function CompareView({ projectId, scenarios, initial }: CompareViewProps)
   const to = pair?.to && ports.includes(pair.to) ? pair.to : defTo;
 
   const diff: ScenarioDiff | null = A.loaded && Bs.loaded ? diffScenarios(A.loaded.revision.content, Bs.loaded.revision.content) : null;
-  const rulesA = A.rules?.figures.result.rules ?? [];
-  const rulesB = Bs.rules?.figures.result.rules ?? [];
-  const ruleIds = [...new Set([...rulesA.map((r) => r.id), ...rulesB.map((r) => r.id)])];
+  const rulesA = A.verdict?.run?.figures.result.rules ?? [];
+  const rulesB = Bs.verdict?.run?.figures.result.rules ?? [];
+  const setIds = (v: RevisionVerdict | undefined) => [...(v?.ruleSet.rules.map((r) => r.id) ?? []), ...(v?.ruleSet.opted_out.map((o) => o.id) ?? [])];
+  const ruleIds = [...new Set([...setIds(A.verdict), ...setIds(Bs.verdict)])];
+  const sideReady = (side: typeof A) => Boolean(side.verdict) || Boolean(side.verdictError) || Boolean(side.error);
   const byId = (list: RuleResult[], id: string) => list.find((r) => r.id === id);
 
   const traceA = A.solved && from && to ? magDb(A.solved, to, from) : null;
@@ -118,17 +143,31 @@ export function CompareView({ projectId, scenarios, initial }: CompareViewProps)
       </div>
       {A.error || Bs.error ? (
         <Alert tone="error" title="Could not compare">
-          {String((A.error ?? Bs.error) instanceof Error ? (A.error ?? Bs.error).message : (A.error ?? Bs.error))}
+          {A.error ?? Bs.error}
         </Alert>
       ) : null}
+      {[
+        { label: labelA, side: A },
+        { label: labelB, side: Bs },
+      ].map(({ label, side }) =>
+        side.verdictError ? (
+          <Alert key={label} tone="warn" title={`${label} has no verdict`}>
+            {side.verdictError}
+          </Alert>
+        ) : side.verdict && !side.verdict.run ? (
+          <Alert key={label} tone="warn" title={`${label}: stale verdict`}>
+            No stored verdict of revision {side.verdict.revisionNumber} is current for its rules and engine, and your role cannot run checks.
+          </Alert>
+        ) : null,
+      )}
 
       <section aria-labelledby="cmp-rules" className="flex flex-col gap-2">
         <h2 id="cmp-rules" className="text-base font-semibold">
           Rule verdicts
         </h2>
-        {!A.rules || !Bs.rules ? (
+        {!sideReady(A) || !sideReady(Bs) ? (
           <p className="flex items-center gap-2 text-sm text-muted">
-            <Spinner size="sm" /> Running all rules on both…
+            <Spinner size="sm" /> Judging both by their own current rules…
           </p>
         ) : (
           <div className="overflow-x-auto rounded-card border border-rule bg-surface">
@@ -147,24 +186,33 @@ export function CompareView({ projectId, scenarios, initial }: CompareViewProps)
                   const ra = byId(rulesA, id);
                   const rb = byId(rulesB, id);
                   const differs = ra?.verdict !== rb?.verdict;
-                  const cell = (r: RuleResult | undefined) =>
-                    r ? (
-                      <span className="flex items-center gap-2">
-                        <VerdictBadge verdict={r.verdict} />
-                        <span className="figures">
-                          {fmt(r.worst)} {r.unit}, margin {fmtMargin(r.margin)}
+                  const cell = (r: RuleResult | undefined, side: typeof A) => {
+                    const entry = side.verdict?.ruleSet.rules.find((e) => e.id === id);
+                    const out = side.verdict?.ruleSet.opted_out.find((o) => o.id === id);
+                    const source = entry && entry.source !== "project" ? <span className="text-xs text-muted">({RULE_SOURCE_LABELS[entry.source]})</span> : null;
+                    if (r)
+                      return (
+                        <span className="flex flex-wrap items-center gap-2">
+                          <VerdictBadge verdict={r.verdict} />
+                          <span className="figures">
+                            {fmt(r.worst)} {r.unit}, margin {fmtMargin(r.margin)}
+                          </span>
+                          {source}
                         </span>
-                      </span>
-                    ) : (
-                      <span className="text-muted">not run</span>
-                    );
+                      );
+                    if (out) return <span className="text-muted">opted out: {out.reason}</span>;
+                    if (entry?.not_run) return <span className="text-muted">not run: {entry.not_run}</span>;
+                    if (side.verdictError) return <span className="text-muted">no verdict</span>;
+                    if (!entry) return <span className="text-muted">not a rule of this one</span>;
+                    return <span className="text-muted">stale</span>;
+                  };
                   return (
                     <tr key={id} className="border-t border-rule" data-rule={id} data-differs={differs ? "true" : undefined} aria-label={`Rule ${id}${differs ? ", verdict differs" : ""}`}>
                       <th scope="row" className="px-3 py-2 text-left font-mono font-normal">
                         {id} {differs ? <Badge tone="warn">verdict differs</Badge> : null}
                       </th>
-                      <td className="px-3 py-2">{cell(ra)}</td>
-                      <td className="px-3 py-2">{cell(rb)}</td>
+                      <td className="px-3 py-2">{cell(ra, A)}</td>
+                      <td className="px-3 py-2">{cell(rb, Bs)}</td>
                       <td className="figures px-3 py-2 text-right">{ra && rb ? `${fmtMargin(rb.margin - ra.margin)} dB` : "—"}</td>
                     </tr>
                   );
@@ -204,7 +252,13 @@ export function CompareView({ projectId, scenarios, initial }: CompareViewProps)
             ]}
           />
         ) : (
-          <p className="text-sm text-muted">{ports.length < 1 ? "The two scenarios share no system port." : "Solving…"}</p>
+          <p className="text-sm text-muted">
+            {A.solveError || Bs.solveError
+              ? `No traces: ${A.solveError ? `${labelA} does not solve (${A.solveError})` : ""}${A.solveError && Bs.solveError ? "; " : ""}${Bs.solveError ? `${labelB} does not solve (${Bs.solveError})` : ""}.`
+              : ports.length < 1
+                ? "The two scenarios share no system port."
+                : "Solving…"}
+          </p>
         )}
       </section>
 
@@ -224,13 +278,24 @@ export function CompareView({ projectId, scenarios, initial }: CompareViewProps)
                 {d.change === "changed" ? (
                   <span className="font-mono text-xs">
                     {" "}
-                    {[
-                      ...d.params.map((p) => `${p.name}: ${JSON.stringify(p.before)} → ${JSON.stringify(p.after)}`),
-                      ...d.fields.map((p) => `${p.name}: ${JSON.stringify(p.before)} → ${JSON.stringify(p.after)}`),
-                      ...(d.state ? [`switch state: ${d.state.before ?? 1} → ${d.state.after ?? 1}`] : []),
-                    ].join("; ")}
+                    {[...d.params.map(changeText), ...d.fields.map(changeText), ...(d.state ? [`switch state: throw ${d.state.before ?? 1} → throw ${d.state.after ?? 1}`] : [])].join("; ")}
                   </span>
                 ) : null}
+              </li>
+            ))}
+            {diff.rules.map((r) => (
+              <li key={`r-${r.entry}-${r.id}`}>
+                <Badge tone={r.change === "added" ? "pass" : r.change === "removed" ? "fail" : "info"}>{r.change}</Badge> {r.entry} <span className="font-mono">{r.id}</span>
+                {r.entry === "opt-out" ? (
+                  <span className="text-xs"> (reason: {String(r.after ?? r.before)})</span>
+                ) : (
+                  <span className="text-xs">
+                    {" "}
+                    {r.before ? ruleText(r.before as RuleSpec) : ""}
+                    {r.before && r.after ? " → " : ""}
+                    {r.after ? ruleText(r.after as RuleSpec) : ""}
+                  </span>
+                )}
               </li>
             ))}
             {diff.links.map((l) => (
@@ -241,12 +306,15 @@ export function CompareView({ projectId, scenarios, initial }: CompareViewProps)
             {diff.ports.map((p) => (
               <li key={`p-${p.change}-${p.name}`}>
                 <Badge tone="info">{p.change}</Badge> system port <span className="font-mono">{p.name}</span>{" "}
-                <span className="font-mono text-xs">{"at" in p ? p.at : `${String(p.before)} → ${String(p.after)}`}</span>
+                <span className="font-mono text-xs">{"at" in p ? p.at : p.change === "z0" ? `Z0 ${valueText("z0", p.before)} → ${valueText("z0", p.after)}` : `${p.before} → ${p.after}`}</span>
               </li>
             ))}
             {diff.settings.map((s) => (
               <li key={`s-${s.name}`}>
-                <Badge tone="info">changed</Badge> {s.name}: <span className="font-mono text-xs">{JSON.stringify(s.before)} → {JSON.stringify(s.after)}</span>
+                <Badge tone="info">changed</Badge> {s.name === "frequency" ? "frequency plan" : s.name === "z0" ? "system Z0" : s.name}:{" "}
+                <span className="font-mono text-xs">
+                  {valueText(s.name, s.before)} → {valueText(s.name, s.after)}
+                </span>
               </li>
             ))}
           </ul>

@@ -2,7 +2,7 @@ import type { RuleSpec, Scenario } from "@/engine/types";
 import { can, type Action, type Role } from "@/lib/base/permission-table";
 import { ADDABLE_KINDS, kindTitle } from "@/lib/browser/catalogue";
 import { nextSystemPortName, portCountOf, switchThrows, type PartSummary } from "@/lib/browser/scenario-model";
-import { mergeRules } from "@/lib/domain/rules/merge";
+import { effectiveRuleSet, judgingRules } from "@/engine/checks";
 import type { HelmScenarioActions } from "./helm-context";
 import { formatBand, parseBand, parseDb, parseFrequency, parseSources, type Parsed } from "./parse-input";
 
@@ -99,7 +99,7 @@ export function buildCommands(data: HelmData): HelmCommand[] {
   if (page && allowed("check.run")) {
     const scenario = page.scenario;
     const ports = scenario.ports.map((p) => p.name);
-    const rules = mergeRules(data.rules, scenario.rules ?? []).map((m) => m.spec);
+    const rules = judgingRules(effectiveRuleSet(data.rules, scenario));
     const limitStep = (kind: RuleKind, values: Record<string, unknown>, key: string, prompt: string, fallback: number): HelmStep => {
       const rule = ruleFor(rules, kind, values) as Record<string, unknown> | undefined;
       const value = typeof rule?.[key] === "number" ? (rule[key] as number) : fallback;

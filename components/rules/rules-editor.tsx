@@ -9,6 +9,7 @@ import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components
 import { ApiError, fetchJson, requestJson } from "@/lib/browser/api-client";
 import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
 import { formatBand } from "@/components/helm/parse-input";
+import { describeRule as describe } from "@/lib/domain/rules/describe";
 import { RULE_KIND_LABELS, RULE_KINDS } from "@/lib/domain/rules/schema";
 import { EMPTY_RULE_FORM, formFromSpec, ruleFormSchema, specFromForm, type RuleFormValues } from "./rule-form";
 
@@ -24,22 +25,39 @@ async function send(url: string, method: string, body?: unknown): Promise<{ ok: 
   }
 }
 
-function describe(spec: RuleSpec): { ports: string; band: string; limit: string } {
-  const band = "band" in spec && spec.band ? formatBand(spec.band) : "whole plan";
-  switch (spec.kind) {
-    case "isolation":
-      return { ports: `${spec.from} → ${spec.to}${spec.one_way ? " (one way)" : ""}`, band, limit: `≥ ${spec.min_db} dB` };
-    case "insertion_loss":
-      return { ports: `${spec.from} → ${spec.to}`, band, limit: `≤ ${spec.max_db} dB` };
-    case "match":
-      return { ports: spec.port, band, limit: spec.min_return_loss_db !== undefined ? `return loss ≥ ${spec.min_return_loss_db} dB` : `VSWR ≤ ${spec.max_vswr}` };
-    case "drive":
-      return { ports: spec.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", "), band, limit: spec.coherent ? "ratings, coherent sum" : "ratings" };
-  }
+/** A project's rules: a table for everyone; create, edit and delete for engineers and owners. */
+/** How scenarios depart from a rule (lib/server/verdicts.ts `projectRuleUsage`), by rule name. */
+export type RuleUsageItem = {
+  overrides: { scenarioId: string; scenarioName: string; rule: RuleSpec; by?: string }[];
+  optOuts: { scenarioId: string; scenarioName: string; reason: string; by?: string }[];
+};
+
+function UsageCell({ projectId, usage }: { projectId: string; usage: RuleUsageItem | undefined }) {
+  if (!usage || (usage.overrides.length === 0 && usage.optOuts.length === 0)) return <span className="text-muted">all inherit</span>;
+  return (
+    <ul className="flex flex-col gap-0.5 text-xs">
+      {usage.overrides.map((o) => (
+        <li key={`o:${o.scenarioId}`}>
+          <a className="underline underline-offset-2" href={`/projects/${projectId}/scenarios/${o.scenarioId}#scenario-rules`}>
+            {o.scenarioName}
+          </a>{" "}
+          overrides: {describe(o.rule).limit}
+          {o.by ? ` (${o.by})` : ""}
+        </li>
+      ))}
+      {usage.optOuts.map((o) => (
+        <li key={`x:${o.scenarioId}`}>
+          <a className="underline underline-offset-2" href={`/projects/${projectId}/scenarios/${o.scenarioId}#scenario-rules`}>
+            {o.scenarioName}
+          </a>{" "}
+          opts out: {o.reason}
+        </li>
+      ))}
+    </ul>
+  );
 }
 
-/** A project's rules: a table for everyone; create, edit and delete for engineers and owners. */
-export function RulesEditor({ projectId, initial, canEdit }: { projectId: string; initial: RuleItem[]; canEdit: boolean }) {
+export function RulesEditor({ projectId, initial, canEdit, usage = {} }: { projectId: string; initial: RuleItem[]; canEdit: boolean; usage?: Record<string, RuleUsageItem> }) {
   const url = `/api/projects/${projectId}/rules`;
   const { data, mutate } = useSWR<{ rules: RuleItem[] }>(url, fetchJson, { fallbackData: { rules: initial } });
   const rules = data?.rules ?? [];
@@ -52,6 +70,13 @@ export function RulesEditor({ projectId, initial, canEdit }: { projectId: string
     { id: "ports", header: "Ports", value: (r) => describe(r.spec).ports, cell: (r) => <span className="font-mono">{describe(r.spec).ports}</span> },
     { id: "band", header: "Band", value: (r) => ("band" in r.spec && r.spec.band ? r.spec.band[0] : 0), cell: (r) => describe(r.spec).band },
     { id: "limit", header: "Requirement", value: (r) => describe(r.spec).limit, sortable: false },
+    {
+      id: "scenarios",
+      header: "Scenarios",
+      sortable: false,
+      value: () => null,
+      cell: (r) => <UsageCell projectId={projectId} usage={r.spec.id ? usage[r.spec.id] : undefined} />,
+    },
     ...(canEdit
       ? [
           {
@@ -67,7 +92,7 @@ export function RulesEditor({ projectId, initial, canEdit }: { projectId: string
                 <ConfirmButton
                   buttonProps={{ size: "sm", "aria-label": `Delete rule ${r.spec.id}` }}
                   title={`Delete rule ${r.spec.id}?`}
-                  description="Scenarios keep their own rules; stored check runs keep their verdicts."
+                  description="Scenarios stop inheriting it; their overrides and opt-outs of it stay visible on their Rules panels. Verdicts judged with it are marked stale."
                   confirmLabel="Delete rule"
                   onConfirm={async () => {
                     const res = await send(`${url}/${r.id}`, "DELETE");
@@ -117,15 +142,20 @@ export function RulesEditor({ projectId, initial, canEdit }: { projectId: string
   );
 }
 
-function RuleFormPanel({
+export function RuleFormPanel({
   initial,
   title,
   onCancel,
   onSubmit,
+  fixedName = false,
+  submitLabel = "Save rule",
 }: {
   initial: RuleFormValues;
   title: string;
   onCancel: () => void;
+  /** the name and kind stay as given (a scenario's override of a project rule keeps its name) */
+  fixedName?: boolean;
+  submitLabel?: string;
   onSubmit: (spec: RuleSpec) => Promise<{ ok: true } | { ok: false; message: string; fields?: Record<string, string> }>;
 }) {
   const form = useForm<RuleFormValues>({ resolver: zodResolver(ruleFormSchema), defaultValues: initial, mode: "onSubmit" });
@@ -156,18 +186,24 @@ function RuleFormPanel({
       <h3 className="text-base font-semibold">{title}</h3>
       {serverError ? <Alert tone="error">{serverError}</Alert> : null}
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field label="Name" error={err("id")} hint="Letters, digits, dots, dashes; shown in verdicts." required>
-          <Input {...register("id")} autoComplete="off" />
+        <Field label="Name" error={err("id")} hint={fixedName ? "The project rule's name." : "Letters, digits, dots, dashes; shown in verdicts."} required>
+          <Input {...register("id")} autoComplete="off" readOnly={fixedName} />
         </Field>
-        <Field label="Kind" error={err("kind")}>
-          <Select {...register("kind")}>
-            {RULE_KINDS.map((k) => (
-              <option key={k} value={k}>
-                {RULE_KIND_LABELS[k]}
-              </option>
-            ))}
-          </Select>
-        </Field>
+        {fixedName ? (
+          <Field label="Kind">
+            <Input value={RULE_KIND_LABELS[initial.kind]} readOnly />
+          </Field>
+        ) : (
+          <Field label="Kind" error={err("kind")}>
+            <Select {...register("kind")}>
+              {RULE_KINDS.map((k) => (
+                <option key={k} value={k}>
+                  {RULE_KIND_LABELS[k]}
+                </option>
+              ))}
+            </Select>
+          </Field>
+        )}
         {kind === "isolation" || kind === "insertion_loss" ? (
           <>
             <Field label="From port" error={err("from")} required>
@@ -216,7 +252,7 @@ function RuleFormPanel({
       </div>
       <div className="flex gap-2">
         <Button type="submit" loading={formState.isSubmitting}>
-          Save rule
+          {submitLabel}
         </Button>
         <Button type="button" variant="secondary" onClick={onCancel}>
           Cancel

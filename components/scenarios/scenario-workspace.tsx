@@ -9,6 +9,7 @@ import { Workspace } from "@/components/scenario-editor";
 import type { PartSummary } from "@/lib/browser/scenario-model";
 import { Alert, Button } from "@/components/ui";
 import { ScenarioChecks } from "@/components/checks/scenario-checks";
+import { ScenarioRulesPanel } from "@/components/rules/scenario-rules-panel";
 import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
 import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
@@ -152,6 +153,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
       <div className="min-h-[680px] 2xl:h-[calc(100vh-13rem)]">
         <Workspace key={generation} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} />
       </div>
+      <ScenarioRulesPanel projectId={projectId} scenario={draft} onChange={onChange} readOnly={readOnly} />
       <ScenarioChecks
         projectId={projectId}
         scenarioId={info.id}

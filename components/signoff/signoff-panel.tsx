@@ -1,11 +1,13 @@
 "use client";
 
-import { useState } from "react";
+import { useCallback, useState } from "react";
 import useSWR from "swr";
 import { Download } from "lucide-react";
 import { ApiError, fetchJson, requestJson } from "@/lib/browser/api-client";
 import { Alert, Button, Card, CardBody, CardDescription, CardHeader, CardTitle, Field, Textarea, buttonClassName } from "@/components/ui";
 import { can, type Role } from "@/lib/base/permission-table";
+import { RevisionVerdictCard } from "@/components/checks/revision-verdict";
+import type { RevisionVerdict } from "@/lib/domain/checks/types";
 import { SignoffStateBadge } from "./signoff-state-badge";
 import { signoffUrls, type SignoffItem } from "./types";
 import { formatDate } from "@/lib/base/dates";
@@ -21,15 +23,39 @@ export type SignoffPanelProps = {
   role: Role;
 };
 
-function DecisionForm({ projectId, signoff, onDone }: { projectId: string; signoff: SignoffItem; onDone: () => void }) {
+
+/**
+ * The decision on an open request, shown only once the current verdict of the revision under review is
+ * known (run on open when needed). Approving a failing revision takes a waiver: a reason for each failing
+ * rule; "Request changes" is then the primary button.
+ */
+function ReviewOnEvidence({ projectId, scenarioId, signoff, canRun, onDone }: { projectId: string; scenarioId: string; signoff: SignoffItem; canRun: boolean; onDone: () => void }) {
+  const [verdict, setVerdict] = useState<RevisionVerdict | null | undefined>(undefined);
+  const onVerdict = useCallback((v: RevisionVerdict | null) => setVerdict(v), []);
+  return (
+    <div className="mt-2 flex flex-col gap-2">
+      <RevisionVerdictCard projectId={projectId} scenarioId={scenarioId} revisionId={signoff.revisionId} mode="open" canRun={canRun} onVerdict={onVerdict} title={`Current verdict of revision ${signoff.revisionNumber}`} />
+      {verdict?.run ? <DecisionForm key={verdict.run.id} projectId={projectId} signoff={signoff} failing={verdict.failing} onDone={onDone} /> : null}
+    </div>
+  );
+}
+
+function DecisionForm({ projectId, signoff, failing, onDone }: { projectId: string; signoff: SignoffItem; failing: string[]; onDone: () => void }) {
   const [comment, setComment] = useState("");
+  const [reasons, setReasons] = useState<Record<string, string>>({});
   const [busy, setBusy] = useState<null | "approved" | "changes_requested">(null);
   const [error, setError] = useState<string | null>(null);
+  const fails = failing.length > 0;
   const send = async (decision: "approved" | "changes_requested") => {
+    if (decision === "approved" && fails && failing.some((id) => !(reasons[id] ?? "").trim())) {
+      setError(`Give a reason for waiving each failing rule: ${failing.filter((id) => !(reasons[id] ?? "").trim()).join(", ")}.`);
+      return;
+    }
     setBusy(decision);
     setError(null);
     try {
-      await requestJson(signoffUrls.decide(projectId, signoff.id), { method: "POST", json: { decision, comment } });
+      const waiver = decision === "approved" && fails ? failing.map((id) => ({ id, reason: reasons[id].trim() })) : undefined;
+      await requestJson(signoffUrls.decide(projectId, signoff.id), { method: "POST", json: { decision, comment, ...(waiver ? { waiver } : {}) } });
       onDone();
     } catch (e) {
       setError(e instanceof ApiError ? e.message : "The decision could not be saved.");
@@ -39,24 +65,47 @@ function DecisionForm({ projectId, signoff, onDone }: { projectId: string; signo
   };
   return (
     <form
-      className="mt-2 flex flex-col gap-2"
+      className="flex flex-col gap-2"
       aria-label={`Decide sign-off of revision ${signoff.revisionNumber}`}
       onSubmit={(e) => {
         e.preventDefault();
-        void send("approved");
+        void send(fails ? "changes_requested" : "approved");
       }}
     >
+      {fails ? (
+        <fieldset className="flex flex-col gap-2 rounded-md border border-fail/50 p-2">
+          <legend className="px-1 text-sm font-medium">Waiver: to approve although {failing.join(", ")} fail{failing.length === 1 ? "s" : ""}, give a reason for each</legend>
+          {failing.map((id) => (
+            <Field key={id} label={`Reason for waiving ${id}`}>
+              <Textarea value={reasons[id] ?? ""} onChange={(e) => setReasons((r) => ({ ...r, [id]: e.target.value }))} rows={2} maxLength={2000} />
+            </Field>
+          ))}
+        </fieldset>
+      ) : null}
       <Field label="Comment" hint="Recorded with your decision and e-mailed to the requester.">
         <Textarea value={comment} onChange={(e) => setComment(e.target.value)} rows={3} maxLength={4000} />
       </Field>
       {error ? <Alert tone="error">{error}</Alert> : null}
       <div className="flex flex-wrap gap-2">
-        <Button type="submit" loading={busy === "approved"} disabled={busy !== null}>
-          Approve
-        </Button>
-        <Button type="button" variant="secondary" loading={busy === "changes_requested"} disabled={busy !== null} onClick={() => void send("changes_requested")}>
-          Request changes
-        </Button>
+        {fails ? (
+          <>
+            <Button type="submit" loading={busy === "changes_requested"} disabled={busy !== null}>
+              Request changes
+            </Button>
+            <Button type="button" variant="secondary" loading={busy === "approved"} disabled={busy !== null} onClick={() => void send("approved")}>
+              Approve with waiver
+            </Button>
+          </>
+        ) : (
+          <>
+            <Button type="submit" loading={busy === "approved"} disabled={busy !== null}>
+              Approve
+            </Button>
+            <Button type="button" variant="secondary" loading={busy === "changes_requested"} disabled={busy !== null} onClick={() => void send("changes_requested")}>
+              Request changes
+            </Button>
+          </>
+        )}
       </div>
     </form>
   );
@@ -173,7 +222,26 @@ export function SignoffPanel({ projectId, scenarioId, userId, role }: SignoffPan
               </p>
               {s.requestNote ? <p className="mt-1 text-sm">Note: {s.requestNote}</p> : null}
               {s.comment ? <p className="mt-1 text-sm">Comment: {s.comment}</p> : null}
-              {mayDecide && s.reviewer.id === userId && s.state === "requested" && !s.stale ? <DecisionForm projectId={projectId} signoff={s} onDone={() => void mutate()} /> : null}
+              {s.evidence ? (
+                <p className="mt-1 text-xs text-muted">
+                  Decided on the verdict {s.evidence.verdict.toUpperCase()} (rule set <span className="font-mono">{s.evidence.rulesHash.slice(0, 12)}</span>, engine {s.evidence.engineVersion}).
+                </p>
+              ) : null}
+              {s.waiver ? (
+                <div className="mt-1 text-sm" data-testid="signoff-waiver">
+                  <strong>Approved with a waiver:</strong>
+                  <ul className="list-disc pl-5">
+                    {s.waiver.rules.map((w) => (
+                      <li key={w.id}>
+                        <span className="font-mono">{w.id}</span>: {w.reason}
+                      </li>
+                    ))}
+                  </ul>
+                </div>
+              ) : null}
+              {mayDecide && s.reviewer.id === userId && s.state === "requested" && !s.stale ? (
+                <ReviewOnEvidence projectId={projectId} scenarioId={scenarioId} signoff={s} canRun={can(role, "check.run")} onDone={() => void mutate()} />
+              ) : null}
             </li>
           ))}
         </ul>

@@ -13,6 +13,10 @@ export type SignoffItem = {
   displayState: "requested" | "approved" | "changes_requested" | "stale";
   requestNote: string;
   comment: string;
+  /** failing rules waived on approval, each with a reason */
+  waiver: { rules: { id: string; reason: string }[] } | null;
+  /** the verdict the decision was taken on */
+  evidence: { verdict: "pass" | "fail" | "warn"; rulesHash: string; engineVersion: string; failing: string[] } | null;
   requestedBy: { id: string; name: string; email: string } | null;
   reviewer: { id: string; name: string; email: string };
   createdAt: string;

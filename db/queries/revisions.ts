@@ -11,9 +11,10 @@ import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
 import { authorize } from "@/lib/server/permissions";
 import type { DraftScenario } from "@/lib/base/validation/scenarios";
+import { stampRuleChanges } from "@/lib/domain/rules/stamp";
 import { getPartTexts } from "./parts";
 
-export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed" | "import";
+export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed" | "import" | "migrate";
 
 /** A revision as the API returns it. */
 export type RevisionDetail = {
@@ -161,7 +162,10 @@ export async function saveRevision({
       const current = await loadRevision(tx, { scenarioId, revisionId: row.latestRevisionId ?? "" });
       throw new StaleRevisionError({ revisionId: current.id, number: current.number, authorName: current.authorName, createdAt: current.createdAt });
     }
-    const revision = await insertRevision(tx, { scenarioId, projectId, content, authorId: actor.id, origin: "save" });
+    // who changed an override or opt-out is the saving user, not what the client wrote
+    const base = await loadRevision(tx, { scenarioId, revisionId: baseRevisionId });
+    const stamped = stampRuleChanges(base.content, content, actor.email, new Date());
+    const revision = await insertRevision(tx, { scenarioId, projectId, content: stamped, authorId: actor.id, origin: "save" });
     await recordAudit(tx, { actor, projectId, action: "scenario.save", target: revision.content.name, detail: { scenarioId, revision: revision.number } });
     return revision;
   });

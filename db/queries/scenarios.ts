@@ -6,6 +6,7 @@ import { scenarioRevisions, scenarios, users, type Role } from "@/db/schema";
 import { scenarioFromTemplate } from "@/lib/domain/scenarios/templates";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
+import type { Scenario } from "@/engine/types";
 import { allow, authorize, resolveAccess, type ProjectAccess } from "@/lib/server/permissions";
 import type { DraftScenario, ScenarioTemplate } from "@/lib/base/validation/scenarios";
 import { insertRevision, loadRevision, requireScenarioRow, type RevisionDetail } from "./revisions";
@@ -100,6 +101,24 @@ export async function loadScenario(
   const row = await requireScenarioRow(db, { projectId: access.projectId, scenarioId });
   const revision = await loadRevision(db, { scenarioId, revisionId: revisionId ?? row.latestRevisionId ?? "" });
   return { scenario: info(row), revision: { ...revision, content: { ...revision.content, name: row.name } }, role };
+}
+
+/** Each scenario's latest content, by name (anyone in the project): what the Rules page reads overrides from. */
+export async function latestScenarioContents({
+  userId,
+  projectId,
+}: {
+  userId: string;
+  projectId: string;
+}): Promise<{ id: string; name: string; revisionId: string; revisionNumber: number; content: Scenario }[]> {
+  await authorize({ userId, projectId, action: "scenario.read" });
+  const rows = await db
+    .select({ id: scenarios.id, name: scenarios.name, revisionId: scenarioRevisions.id, revisionNumber: scenarios.latestRevisionNumber, content: scenarioRevisions.content })
+    .from(scenarios)
+    .innerJoin(scenarioRevisions, eq(scenarioRevisions.id, scenarios.latestRevisionId))
+    .where(eq(scenarios.projectId, projectId))
+    .orderBy(asc(scenarios.name));
+  return rows.map((r) => ({ ...r, content: r.content as unknown as Scenario }));
 }
 
 /** Create a scenario from a template or from given content (revision 1). Engineers and owners. */

@@ -3,7 +3,7 @@ import { randomUUID } from "node:crypto";
 import { and, desc, eq, inArray, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { db, runInTransaction } from "@/db/client";
-import { memberships, projects, scenarioRevisions, scenarios, signoffs, users, type SignoffState } from "@/db/schema";
+import { memberships, projects, scenarioRevisions, scenarios, signoffs, users, type SignoffEvidence, type SignoffState, type SignoffWaiver } from "@/db/schema";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
@@ -30,6 +30,10 @@ export type SignoffView = {
   displayState: SignoffState | "stale";
   requestNote: string;
   comment: string;
+  /** failing rules the reviewer waived on approval, each with a reason */
+  waiver: SignoffWaiver | null;
+  /** the verdict the decision was taken on */
+  evidence: SignoffEvidence | null;
   requestedBy: { id: string; name: string; email: string } | null;
   reviewer: { id: string; name: string; email: string };
   createdAt: Date;
@@ -55,6 +59,8 @@ function baseQuery() {
       state: signoffs.state,
       requestNote: signoffs.requestNote,
       comment: signoffs.comment,
+      waiver: signoffs.waiver,
+      evidence: signoffs.evidence,
       requesterId: requester.id,
       requesterName: requester.name,
       requesterEmail: requester.email,
@@ -91,6 +97,8 @@ function toView(row: Row): SignoffView {
     displayState: stale ? "stale" : row.state,
     requestNote: row.requestNote,
     comment: row.comment,
+    waiver: row.waiver ?? null,
+    evidence: row.evidence ?? null,
     requestedBy: row.requesterId ? { id: row.requesterId, name: row.requesterName ?? "", email: row.requesterEmail ?? "" } : null,
     reviewer: { id: row.reviewerId, name: row.reviewerName, email: row.reviewerEmail },
     createdAt: row.createdAt,
@@ -219,12 +227,17 @@ export async function decideSignoff({
   signoffId,
   decision,
   comment,
+  waiver = null,
+  evidence = null,
 }: {
   actor: SessionUser;
   projectId: string;
   signoffId: string;
   decision: "approved" | "changes_requested";
   comment: string;
+  /** checked against the verdict by lib/server/signoffs/evidence.ts */
+  waiver?: SignoffWaiver | null;
+  evidence?: SignoffEvidence | null;
 }): Promise<DecidedSignoff> {
   const result = await runInTransaction(async (tx) => {
     await authorize({ userId: actor.id, projectId, action: "signoff.decide", executor: tx });
@@ -241,13 +254,20 @@ export async function decideSignoff({
       throw new AppError("conflict", 409, "The scenario changed after this sign-off was requested, so the request is stale. Ask for a sign-off of the latest revision.");
     }
     const now = new Date();
-    await tx.update(signoffs).set({ state: decision, comment, decidedAt: now, updatedAt: now }).where(eq(signoffs.id, signoffId));
+    await tx.update(signoffs).set({ state: decision, comment, waiver, evidence, decidedAt: now, updatedAt: now }).where(eq(signoffs.id, signoffId));
     await recordAudit(tx, {
       actor,
       projectId,
-      action: decision === "approved" ? "signoff.approve" : "signoff.request_changes",
+      action: decision === "approved" ? (waiver ? "signoff.approve_with_waiver" : "signoff.approve") : "signoff.request_changes",
       target: scenario?.name ?? null,
-      detail: { signoffId, scenarioId: row.scenarioId, contentHash: row.contentHash, comment },
+      detail: {
+        signoffId,
+        scenarioId: row.scenarioId,
+        contentHash: row.contentHash,
+        comment,
+        ...(evidence ? { verdict: evidence.verdict, rulesHash: evidence.rulesHash, engineVersion: evidence.engineVersion, failing: evidence.failing } : {}),
+        ...(waiver ? { waiver: waiver.rules } : {}),
+      },
     });
     let requesterRow: SignoffRecipient | null = null;
     if (row.requestedBy) {
@@ -258,6 +278,27 @@ export async function decideSignoff({
     return { requester: requesterRow, projectName: project?.name ?? "" };
   });
   return { signoff: await loadView(signoffId), ...result };
+}
+
+/** Which revision a sign-off is of and who must decide it (the caller authorises). */
+export async function signoffTarget({ projectId, signoffId }: { projectId: string; signoffId: string }): Promise<{ scenarioId: string; revisionId: string; reviewerId: string; state: SignoffState }> {
+  const [row] = await db
+    .select({ scenarioId: signoffs.scenarioId, revisionId: signoffs.revisionId, reviewerId: signoffs.reviewerId, state: signoffs.state })
+    .from(signoffs)
+    .where(and(eq(signoffs.id, signoffId), eq(signoffs.projectId, projectId)));
+  if (!row) throw new AppError("not_found", 404, "Sign-off not found.");
+  return row;
+}
+
+/** Waivers given on approval of a revision (by content hash), oldest first: what its later bundles carry. */
+export async function waiversOfRevision({ scenarioId, contentHash }: { scenarioId: string; contentHash: string }): Promise<{ reviewer: string; decidedAt: Date | null; comment: string; rules: { id: string; reason: string }[] }[]> {
+  const rows = await db
+    .select({ waiver: signoffs.waiver, decidedAt: signoffs.decidedAt, comment: signoffs.comment, name: users.name, email: users.email })
+    .from(signoffs)
+    .innerJoin(users, eq(users.id, signoffs.reviewerId))
+    .where(and(eq(signoffs.scenarioId, scenarioId), eq(signoffs.contentHash, contentHash), eq(signoffs.state, "approved")))
+    .orderBy(signoffs.decidedAt);
+  return rows.filter((r) => r.waiver && r.waiver.rules.length > 0).map((r) => ({ reviewer: `${r.name} <${r.email}>`, decidedAt: r.decidedAt, comment: r.comment, rules: r.waiver!.rules }));
 }
 
 /** Turn sign-off e-mails on or off for one's own account. */

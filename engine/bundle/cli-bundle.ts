@@ -15,8 +15,9 @@ export const EXIT_NOT_REPRODUCED = 3;
 export const BUNDLE_CHECK_USAGE = [
   "portolan check <bundle.zip> [--json]",
   "  Verifies a review bundle exported by Portolan: every file against the SHA-256 in manifest.json,",
-  "  then solves scenario.json with the bundle's parts/ and re-runs every check, comparing the verdicts",
-  "  and figures with results/checks.json and the composite with results/composite.sNp.",
+  "  then solves scenario.json with the bundle's parts/ and re-runs every check, judging by the effective",
+  "  rule set recorded in results/checks.json (project rules, scenario overrides, scenario-only rules),",
+  "  comparing the verdicts and figures with results/checks.json and the composite with results/composite.sNp.",
   "  --json         print the comparison as JSON instead",
   "  Exit codes: 0 verified, reproduced and all pass (warnings allowed); 1 verified and reproduced but a",
   "  check fails; 2 the file cannot be read or is refused (not a zip, no manifest, unsafe entries, limits);",
@@ -36,6 +37,7 @@ export function formatReproduction(file: string, bundle: ReturnType<typeof openB
     r.contentHashMatches
       ? `  scenario.json is the revision's content (SHA-256 ${m.revision.content_hash.slice(0, 12)}…, the hash sign-offs bind to)`
       : `  note: scenario.json does not hash to the revision's content hash ${m.revision.content_hash.slice(0, 12)}… (renamed since it was saved?)`,
+    `  judged by ${r.ruleSet === "bundle" ? "the effective rule set recorded in the bundle" : "the scenario file's own rules (the bundle records no rule set)"}`,
     "",
   ];
   if (r.error) lines.push(`NOT REPRODUCED: ${r.error}`);
@@ -45,6 +47,7 @@ export function formatReproduction(file: string, bundle: ReturnType<typeof openB
   }
   lines.push("");
   lines.push(r.reproduced ? `REPRODUCED: the stored verdicts and figures come out the same; verdict ${r.verdict.toUpperCase()}` : "NOT REPRODUCED: the stored results differ from a re-run of the bundle's own scenario and parts");
+  if (r.failingRules.length > 0) lines.push(`FAILING RULES: ${r.failingRules.join(", ")}`);
   return `${lines.join("\n")}\n`;
 }
 

@@ -3,21 +3,51 @@
  * Touchstone and the check results (JSON and CSV), all computed by the same engine functions as the app
  * and the CLI.
  */
-import { leakTrace, runAllChecks, type AllChecksResult, type LeakTraceResult } from "../checks";
+import { effectiveRuleSet, judgingRules, leakTrace, runAllChecks, type AllChecksResult, type EffectiveRuleSet, type LeakTraceResult, type RuleSource } from "../checks";
 import { parseScenario } from "../scenario";
 import { solveScenario } from "../system";
 import { writeCompositeTouchstone } from "../touchstone";
 import { EngineInputError, type Scenario, type Solution } from "../types";
-import { BUNDLE_PATHS, BundleError, checkEntryName } from "./format";
+import { ENGINE_VERSION } from "../version";
+import { BUNDLE_PATHS, BundleError, checkEntryName, hashRuleSet } from "./format";
 
 /** Format name of results/checks.json. */
 export const CHECKS_FORMAT = "portolan.checks/1";
 
-/** results/checks.json: every rule and built-in check, and the leak trace of every isolation rule. */
+/** One rule of the effective set with its verdict on the revision ("not run" when it names a missing port). */
+export type RuleVerdict = {
+  id: string;
+  source: RuleSource;
+  verdict: AllChecksResult["verdict"] | "not run";
+  quantity?: string;
+  unit?: string;
+  worst?: number;
+  worst_hz?: number;
+  limit?: number;
+  margin?: number;
+  /** for an override: the project rule's limit beside the scenario's */
+  project_limit?: number;
+  message: string;
+};
+
+/** A reviewer's waiver of failing rules on this revision, carried from the sign-off. */
+export type BundleWaiver = { reviewer: string; decided_at: string; comment: string; rules: { id: string; reason: string }[] };
+
+/** The effective rule set a bundle was judged by, with its hash (docs/checks.md "Verdict identity"). */
+export type BundleRuleSet = EffectiveRuleSet & { sha256: string };
+
+/**
+ * results/checks.json: the effective rule set (each rule with its source), every rule's verdict, the
+ * built-in checks, the leak trace of every isolation rule, and any waiver given on sign-off.
+ */
 export type ChecksDocument = {
   format: typeof CHECKS_FORMAT;
   scenario: string;
   verdict: AllChecksResult["verdict"];
+  engine_version: string;
+  rule_set: BundleRuleSet;
+  rules: RuleVerdict[];
+  waivers: BundleWaiver[];
   results: AllChecksResult;
   /** leak trace of each isolation rule at the worst frequency of its band (null when it cannot be traced) */
   leaks: { rule: string; from: string; to: string; trace: LeakTraceResult | null; error?: string }[];
@@ -75,21 +105,55 @@ export function usedPartFiles(scenario: { blocks?: unknown }): string[] {
   return [...files].sort();
 }
 
+function ruleVerdicts(ruleSet: EffectiveRuleSet, results: AllChecksResult): RuleVerdict[] {
+  const byId = new Map(results.rules.map((r) => [r.id, r]));
+  const limitOf = (rule: EffectiveRuleSet["rules"][number]["project_rule"]): number | undefined => {
+    if (!rule) return undefined;
+    if (rule.kind === "isolation") return rule.min_db;
+    if (rule.kind === "insertion_loss") return rule.max_db;
+    if (rule.kind === "match") return rule.min_return_loss_db;
+    return undefined;
+  };
+  return ruleSet.rules.map((entry) => {
+    const r = byId.get(entry.id);
+    if (entry.not_run || !r) return { id: entry.id, source: entry.source, verdict: "not run", message: entry.not_run ?? "not evaluated" };
+    return {
+      id: entry.id,
+      source: entry.source,
+      verdict: r.verdict,
+      quantity: r.quantity,
+      unit: r.unit,
+      worst: r.worst,
+      worst_hz: r.worstHz,
+      limit: r.limit,
+      margin: r.margin,
+      ...(entry.project_rule ? { project_limit: limitOf(entry.project_rule) } : {}),
+      message: r.messages[0] ?? "",
+    };
+  });
+}
+
 /**
- * Solves a scenario from its file and parts and runs every check, as the bundle records them.
+ * Solves a scenario from its file and parts and runs every check, as the bundle records them: the rules
+ * judged are those of the effective rule set given (the app passes the revision's: project rules,
+ * overrides, scenario-only rules); without one, the scenario file's own (a file read alone).
  *
  * @param content - the scenario file (JSON value; workspace fields allowed)
  * @param parts - Touchstone texts keyed as blocks name them ("parts/x.s2p")
+ * @param ruleSet - the effective rule set to judge by (default: the file's own rules and overrides)
+ * @param waivers - waivers given on sign-off of this revision, carried into checks.json
  * @returns parsed scenario, solution and the checks document
  * @throws EngineInputError / SingularSystemError when the scenario cannot be solved
  * @example computeBundleResults(JSON.parse(readFileSync("scenario.json", "utf8")), { "parts/ant.s1p": text }).checks.verdict
  */
-export function computeBundleResults(content: unknown, parts: Record<string, string>): BundleResults {
+export function computeBundleResults(content: unknown, parts: Record<string, string>, ruleSet?: EffectiveRuleSet, waivers: BundleWaiver[] = []): BundleResults {
   const scenario = parseScenario(engineScenario(content), { parts });
   const solution = solveScenario(scenario, { parts });
-  const results = runAllChecks(scenario, solution.system, solution);
+  const set = ruleSet ?? effectiveRuleSet([], scenario);
+  const rules = judgingRules(set);
+  const results = runAllChecks({ ...scenario, rules }, solution.system, solution);
   const leaks: ChecksDocument["leaks"] = [];
-  for (const [i, rule] of (scenario.rules ?? []).entries()) {
+  for (const [i, rule] of rules.entries()) {
     if (rule.kind !== "isolation") continue;
     const name = rule.id ?? `rules[${i}]`;
     try {
@@ -99,7 +163,12 @@ export function computeBundleResults(content: unknown, parts: Record<string, str
       leaks.push({ rule: name, from: rule.from, to: rule.to, trace: null, error: err.message });
     }
   }
-  return { scenario, solution, checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, results, leaks } };
+  const rule_set: BundleRuleSet = { sha256: hashRuleSet(set), rules: set.rules, opted_out: set.opted_out };
+  return {
+    scenario,
+    solution,
+    checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, engine_version: ENGINE_VERSION, rule_set, rules: ruleVerdicts(set, results), waivers, results, leaks },
+  };
 }
 
 /**
@@ -121,20 +190,28 @@ function csvCell(value: unknown): string {
 }
 
 /**
- * results/checks.csv: one row per check with its verdict, and for rules the worst value, where, the limit
- * and the margin (RFC 4180 quoting).
+ * results/checks.csv: one row per check with its verdict, and for rules their source (project, scenario
+ * override, scenario only), the worst value, where, the limit and the margin; rules that could not run
+ * and opted-out project rules follow with their reason; the overall verdict is the last row (RFC 4180
+ * quoting).
  *
  * @param doc - the checks document
  * @returns CSV text with a header row
- * @example checksCsv(results.checks).split("\n")[0] // "check,title,verdict,quantity,unit,worst,worst_hz,limit,margin,message"
+ * @example checksCsv(results.checks).split("\n")[0] // "check,source,title,verdict,quantity,unit,worst,worst_hz,limit,margin,message"
  */
 export function checksCsv(doc: ChecksDocument): string {
-  const rows: unknown[][] = [["check", "title", "verdict", "quantity", "unit", "worst", "worst_hz", "limit", "margin", "message"]];
+  const rows: unknown[][] = [["check", "source", "title", "verdict", "quantity", "unit", "worst", "worst_hz", "limit", "margin", "message"]];
   const rules = new Map(doc.results.rules.map((r) => [`rule:${r.id}`, r]));
+  const sources = new Map((doc.rule_set?.rules ?? []).map((r) => [`rule:${r.id}`, r.source]));
   for (const c of doc.results.checks) {
     const r = rules.get(c.name);
-    rows.push([c.name, c.title, c.verdict, r?.quantity ?? "", r?.unit ?? "", r?.worst, r?.worstHz, r?.limit, r?.margin, c.messages[0] ?? ""]);
+    rows.push([c.name, sources.get(c.name) ?? (r ? "scenario" : "built-in"), c.title, c.verdict, r?.quantity ?? "", r?.unit ?? "", r?.worst, r?.worstHz, r?.limit, r?.margin, c.messages[0] ?? ""]);
   }
+  for (const r of doc.rules ?? []) {
+    if (r.verdict === "not run") rows.push([`rule:${r.id}`, r.source, "", "not run", "", "", "", "", "", "", r.message]);
+  }
+  for (const o of doc.rule_set?.opted_out ?? []) rows.push([`rule:${o.id}`, "project", "", "opted out", "", "", "", "", "", "", o.reason]);
+  rows.push(["overall", "", "all rules and built-in checks", doc.verdict, "", "", "", "", "", "", ""]);
   return `${rows.map((row) => row.map(csvCell).join(",")).join("\r\n")}\r\n`;
 }
 

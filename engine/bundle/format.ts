@@ -4,6 +4,7 @@
  */
 import { createHash } from "node:crypto";
 import { z } from "zod";
+import { ruleSetHashInput, type EffectiveRuleSet } from "../checks/rule-set";
 
 /** Format name written into every manifest. */
 export const BUNDLE_FORMAT = "portolan.bundle/1";
@@ -109,4 +110,17 @@ export function checkEntryName(name: string): void {
 }
 
 // The bundle's canonical JSON is the engine's one (RFC 8785), the same the app hashes revisions with.
-export { canonicalJson } from "../canonical-json";
+import { canonicalJson } from "../canonical-json";
+
+export { canonicalJson };
+
+/**
+ * The identity of an effective rule set: SHA-256 (hex) of the canonical JSON of what judges
+ * (ruleSetHashInput: ids, sources, rules, opt-outs). Equal for equal rules whatever their key order;
+ * different for any change of a limit, band, port or source. Stored with every check run and bundle.
+ *
+ * @example hashRuleSet(effectiveRuleSet(projectRules, scenario)) // "3f0c…"
+ */
+export function hashRuleSet(set: EffectiveRuleSet): string {
+  return sha256(canonicalJson(ruleSetHashInput(set)));
+}

@@ -1,6 +1,6 @@
 /** Review bundles: writing, opening within limits, verifying and re-running (server and CLI). */
-export { BUNDLE_FORMAT, BUNDLE_PATHS, DEFAULT_BUNDLE_LIMITS, BundleError, BundleManifestSchema, checkEntryName, canonicalJson, sha256, type BundleLimits, type BundleManifest, type BundleIdentity, type BundleErrorKind } from "./format";
+export { BUNDLE_FORMAT, BUNDLE_PATHS, DEFAULT_BUNDLE_LIMITS, BundleError, BundleManifestSchema, checkEntryName, canonicalJson, sha256, hashRuleSet, type BundleLimits, type BundleManifest, type BundleIdentity, type BundleErrorKind } from "./format";
 export { listZipEntries, inflateEntry, readZipSafely, type ZipEntryInfo } from "./zip-read";
 export { makeManifest, writeBundleZip, openBundle, BundleIntegrityError, type OpenedBundle } from "./bundle-zip";
-export { computeBundleResults, compositeFile, checksCsv, bundleFiles, usedPartFiles, engineScenario, CHECKS_FORMAT, type ChecksDocument, type BundleResults } from "./contents";
+export { computeBundleResults, compositeFile, checksCsv, bundleFiles, usedPartFiles, engineScenario, CHECKS_FORMAT, type ChecksDocument, type BundleResults, type RuleVerdict, type BundleWaiver, type BundleRuleSet } from "./contents";
 export { reproduceBundle, FIGURE_TOLERANCE_DB, COMPOSITE_TOLERANCE, type ReproduceResult, type ReproducedItem } from "./reproduce";

@@ -2,11 +2,12 @@
  * Re-running a bundle from its own files (scenario.json and parts/) and comparing with what it records
  * (results/checks.json and the composite Touchstone): the check a reviewer runs on another machine.
  */
+import { EffectiveRuleSetSchema, type EffectiveRuleSet } from "../checks";
 import { parseTouchstone } from "../touchstone";
 import { EngineInputError, SingularSystemError } from "../types";
 import { computeBundleResults, CHECKS_FORMAT, type ChecksDocument } from "./contents";
 import { CanonicalJsonError } from "../canonical-json";
-import { BUNDLE_PATHS, canonicalJson, sha256 } from "./format";
+import { BUNDLE_PATHS, canonicalJson, hashRuleSet, sha256 } from "./format";
 import type { OpenedBundle } from "./bundle-zip";
 
 /** Largest difference of a rule figure (dB or dBm) still counted as the same result. */
@@ -32,6 +33,10 @@ export type ReproduceResult = {
    * sign-off binds to). Informational: a scenario renamed after the revision was saved exports its new name.
    */
   contentHashMatches: boolean;
+  /** the rules re-judged by: checks.json's effective rule set, or the scenario file's own rules for a bundle written before it carried one */
+  ruleSet: "bundle" | "scenario file";
+  /** rules that fail in the re-run (ids) */
+  failingRules: string[];
 };
 
 function figure(x: unknown): number | null {
@@ -46,8 +51,9 @@ function sameFigure(a: unknown, b: unknown, tol: number): boolean {
 }
 
 /**
- * Re-runs the checks of an opened bundle from scenario.json and parts/ alone and compares every verdict
- * (overall and per check), every rule's worst value, its frequency and margin, and the composite S.
+ * Re-runs the checks of an opened bundle from scenario.json and parts/ alone, judged by the effective rule
+ * set recorded in results/checks.json (its SHA-256 checked), and compares every verdict (overall and per
+ * check), every rule's worst value, its frequency and margin, and the composite S.
  *
  * @param bundle - from openBundle (hashes already verified)
  * @returns what reproduced and what did not
@@ -69,18 +75,33 @@ export function reproduceBundle(bundle: OpenedBundle): ReproduceResult {
   } catch {
     stored = null;
   }
+  // the rules it was judged by: checks.json's rule set, which must hash to the hash it records
+  let ruleSet: EffectiveRuleSet | undefined;
+  const recorded = stored?.rule_set;
+  if (recorded !== undefined) {
+    const parsed = EffectiveRuleSetSchema.safeParse(recorded);
+    if (!parsed.success) {
+      items.push({ name: "rule set", stored: "(unreadable)", rerun: "(none)", same: false, note: `${BUNDLE_PATHS.checksJson} rule_set: ${parsed.error.issues[0]?.message ?? "invalid"}` });
+    } else {
+      ruleSet = parsed.data as EffectiveRuleSet;
+      const hash = hashRuleSet(ruleSet);
+      items.push({ name: "rule set", stored: `sha256 ${String(recorded.sha256).slice(0, 12)}…`, rerun: `sha256 ${hash.slice(0, 12)}…`, same: hash === recorded.sha256 });
+    }
+  }
+  const basis: ReproduceResult["ruleSet"] = ruleSet ? "bundle" : "scenario file";
   let rerun;
   try {
-    rerun = computeBundleResults(bundle.scenario, bundle.parts);
+    rerun = computeBundleResults(bundle.scenario, bundle.parts, ruleSet);
   } catch (err) {
     if (err instanceof EngineInputError || err instanceof SingularSystemError) {
-      return { reproduced: false, verdict: "fail", items, compositeMaxDiff: null, error: `scenario.json cannot be solved: ${err.message}`, contentHashMatches };
+      return { reproduced: false, verdict: "fail", items, compositeMaxDiff: null, error: `scenario.json cannot be solved: ${err.message}`, contentHashMatches, ruleSet: basis, failingRules: [] };
     }
     throw err;
   }
   const now = rerun.checks;
+  const failingRules = now.results.rules.filter((r) => r.verdict === "fail").map((r) => r.id);
   if (!stored) {
-    return { reproduced: false, verdict: now.verdict, items, compositeMaxDiff: null, error: `${BUNDLE_PATHS.checksJson} is missing or not a ${CHECKS_FORMAT} document`, contentHashMatches };
+    return { reproduced: false, verdict: now.verdict, items, compositeMaxDiff: null, error: `${BUNDLE_PATHS.checksJson} is missing or not a ${CHECKS_FORMAT} document`, contentHashMatches, ruleSet: basis, failingRules };
   }
   items.push({ name: "overall verdict", stored: stored.verdict, rerun: now.verdict, same: stored.verdict === now.verdict });
   const storedChecks = new Map(stored.results.checks.map((c) => [c.name, c]));
@@ -131,5 +152,5 @@ export function reproduceBundle(bundle: OpenedBundle): ReproduceResult {
       items.push({ name: "composite", stored: path, rerun: "(unreadable)", same: false, note: err instanceof Error ? err.message : String(err) });
     }
   }
-  return { reproduced: items.every((i) => i.same), verdict: now.verdict, items, compositeMaxDiff, error: null, contentHashMatches };
+  return { reproduced: items.every((i) => i.same), verdict: now.verdict, items, compositeMaxDiff, error: null, contentHashMatches, ruleSet: basis, failingRules };
 }

@@ -13,3 +13,19 @@ export { stateSweep, sweepSwitches, switchStates, combinationStates, countCombin
 export { driveCheck, defaultDriveSources, DRIVE_CAUTIONS, type DriveResult, type DriveOptions, type DriveSource, type DrivePortResult, type DriveBlockResult } from "./drive";
 export { stabilityOf, stabilityOfStack, stabilityCheck, PAIR_POINTS_PORT_LIMIT, type StabilityPoint, type StabilityResult } from "./stability";
 export { runAllChecks, worstVerdict, type AllChecksResult } from "./run-all";
+export {
+  effectiveRuleSet,
+  normaliseScenarioRules,
+  judgingRules,
+  ruleSetHashInput,
+  rulePorts,
+  overrideRule,
+  EffectiveRuleSetSchema,
+  RULE_SOURCES,
+  RULE_SOURCE_LABELS,
+  type RuleSource,
+  type NamedRule,
+  type EffectiveRule,
+  type EffectiveRuleSet,
+  type OptedOutRule,
+} from "./rule-set";

@@ -8,6 +8,8 @@ export {
   BlockSchema,
   SystemPortSchema,
   RuleSchema,
+  RuleOverrideSchema,
+  RuleOptOutSchema,
   IsolationRuleSchema,
   MatchRuleSchema,
   InsertionLossRuleSchema,

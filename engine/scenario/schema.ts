@@ -119,6 +119,29 @@ export const DriveRuleSchema = z.object({
 
 export const RuleSchema = z.discriminatedUnion("kind", [IsolationRuleSchema, MatchRuleSchema, InsertionLossRuleSchema, DriveRuleSchema]);
 
+/** Who changed a rule and when (ISO 8601), shown beside overrides and opt-outs. */
+const changedBy = { by: z.string().max(200).optional(), at: z.string().max(40).optional() };
+const namedRule = { id: z.string().min(1).max(64) };
+
+/**
+ * A scenario's replacement of a project rule (docs/scenario-format.md "Rules"): the whole rule, named
+ * by the project rule's `id`, with who changed it. The engine itself ignores overrides: the app's
+ * effective rule set (lib/domain/rules/effective.ts) decides which rules judge a revision.
+ */
+export const RuleOverrideSchema = z.discriminatedUnion("kind", [
+  IsolationRuleSchema.extend({ ...namedRule, ...changedBy }),
+  MatchRuleSchema.extend({ ...namedRule, ...changedBy }),
+  InsertionLossRuleSchema.extend({ ...namedRule, ...changedBy }),
+  DriveRuleSchema.extend({ ...namedRule, ...changedBy }),
+]);
+
+/** A scenario's visible opt-out of a project rule: the rule's `id` and why. */
+export const RuleOptOutSchema = z.object({
+  id: z.string().min(1).max(64),
+  reason: z.string().trim().min(1, { error: "give the reason for opting out" }).max(2000),
+  ...changedBy,
+});
+
 export const ScenarioSchema = z.object({
   format: z.literal("portolan.scenario/1"),
   name: z.string().min(1).max(200),
@@ -128,7 +151,10 @@ export const ScenarioSchema = z.object({
   blocks: z.array(BlockSchema).min(1),
   links: z.array(z.tuple([PortRefSchema, PortRefSchema])),
   ports: z.array(SystemPortSchema).min(1),
+  /** scenario-only rules (a project rule of the same id is overridden only through `rule_overrides`) */
   rules: z.array(RuleSchema).optional(),
+  rule_overrides: z.array(RuleOverrideSchema).max(200).optional(),
+  rule_opt_outs: z.array(RuleOptOutSchema).max(200).optional(),
   extrapolate: z.enum(["error", "hold"]).optional(),
   variables: z.record(z.string(), z.union([z.string(), finite])).optional(),
 });

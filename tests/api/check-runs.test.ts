@@ -15,6 +15,7 @@ import * as rulesRoute from "@/app/api/projects/[projectId]/rules/route";
 import { db } from "@/db/client";
 import { checkRuns, scenarioRevisions, scenarios, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
+import { DEMO_RULES } from "@/db/seed-scenarios";
 import { getPartTexts } from "@/db/queries/parts";
 import { createSessionForUser } from "@/lib/server/auth/session";
 import type { CheckRunSummary, CheckRunView } from "@/lib/domain/checks/types";
@@ -73,7 +74,8 @@ describe("running checks", () => {
     expect(run.verdict).toBe("fail");
     const result = run.figures.result as RuleResult;
     const [revision] = await db.select().from(scenarioRevisions).where(eq(scenarioRevisions.id, latest.latestRevisionId!));
-    const cli = cliCheck(revision.content, await getPartTexts({ projectId }));
+    // the CLI on the scenario file with the project rule written into it (the stored file inherits it)
+    const cli = cliCheck({ ...(revision.content as object), rules: DEMO_RULES }, await getPartTexts({ projectId }));
     const reference = cli.rules.find((r) => r.id === "tx-rx-isolation")!;
     // same rule, same band, same data: the CLI's worst isolation and its frequency, to rounding
     expect(result.worst).toBeCloseTo(reference.worst, 9);

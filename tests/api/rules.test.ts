@@ -10,7 +10,7 @@ import { auditEvents, rules, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
 import { createSessionForUser } from "@/lib/server/auth/session";
 import type { RuleView } from "@/db/queries/rules";
-import { mergeRules } from "@/lib/domain/rules/merge";
+import { effectiveRuleSet } from "@/engine/checks";
 import type { RuleSpec } from "@/engine/types";
 
 let projectId: string;
@@ -98,27 +98,41 @@ describe("project rules", () => {
   });
 });
 
-describe("mergeRules (project rules with a scenario's own)", () => {
+describe("effectiveRuleSet (project rules, overrides, opt-outs and a scenario's own rules)", () => {
   const iso: RuleSpec = { kind: "isolation", id: "iso", from: "TX", to: "RX", band: [2.4e9, 2.48e9], min_db: 30 };
   const loss: RuleSpec = { kind: "insertion_loss", id: "loss", from: "TX", to: "ANT", band: [2.4e9, 2.48e9], max_db: 3 };
+  const ports = [{ name: "TX" }, { name: "RX" }, { name: "ANT" }];
 
-  it("keeps project rules first and drops a scenario rule identical to one of them", () => {
-    expect(mergeRules([iso, loss], [{ ...iso }])).toEqual([
-      { spec: iso, source: "project" },
-      { spec: loss, source: "project" },
+  it("inherits the project rules in order and drops a hidden identical copy", () => {
+    const set = effectiveRuleSet([iso, loss], { ports, rules: [{ ...iso }] });
+    expect(set.rules.map((r) => [r.id, r.source])).toEqual([
+      ["iso", "project"],
+      ["loss", "project"],
     ]);
   });
 
-  it("lets a scenario rule with the same name replace the project rule in place", () => {
-    const stricter = { ...iso, min_db: 40 };
-    expect(mergeRules([iso, loss], [stricter])).toEqual([
-      { spec: stricter, source: "scenario-override" },
-      { spec: loss, source: "project" },
-    ]);
+  it("shows an override with both limits and who changed it; a hidden different copy reads as an override", () => {
+    const over = effectiveRuleSet([iso, loss], { ports, rule_overrides: [{ ...iso, id: "iso", min_db: 40, by: "emil@portolan.example", at: "2026-12-01T10:00:00Z" }] });
+    expect(over.rules[0]).toMatchObject({ id: "iso", source: "scenario-override", rule: { min_db: 40 }, project_rule: { min_db: 30 }, by: "emil@portolan.example" });
+    expect(over.rules[0].rule).not.toHaveProperty("by");
+    const legacy = effectiveRuleSet([iso, loss], { ports, rules: [{ ...iso, min_db: 40 }] });
+    expect(legacy.rules[0]).toMatchObject({ id: "iso", source: "scenario-override", rule: { min_db: 40 }, project_rule: { min_db: 30 } });
   });
 
-  it("appends the scenario's other rules, unnamed ones included once", () => {
-    const unnamed: RuleSpec = { kind: "match", port: "TX", band: [2.4e9, 2.48e9], max_vswr: 2 };
-    expect(mergeRules([iso], [unnamed, unnamed, loss]).map((m) => m.source)).toEqual(["project", "scenario", "scenario"]);
+  it("lists an opted-out project rule with its reason and does not judge by it", () => {
+    const set = effectiveRuleSet([iso, loss], { ports, rule_opt_outs: [{ id: "loss", reason: "ANT is a test fixture here", by: "emil" }] });
+    expect(set.rules.map((r) => r.id)).toEqual(["iso"]);
+    expect(set.opted_out).toEqual([{ id: "loss", reason: "ANT is a test fixture here", by: "emil", at: undefined, project_rule: loss }]);
+  });
+
+  it("appends scenario-only rules (unnamed ones named by place) and lists rules naming missing ports as not run", () => {
+    const unnamed: RuleSpec = { kind: "match", port: "LNA", band: [2.4e9, 2.48e9], max_vswr: 2 };
+    const set = effectiveRuleSet([iso], { ports, rules: [unnamed] });
+    expect(set.rules.map((r) => [r.id, r.source])).toEqual([
+      ["iso", "project"],
+      ["rules[0]", "scenario"],
+    ]);
+    expect(set.rules[1].not_run).toBe('the scenario has no system port "LNA"');
+    expect(set.rules[0].not_run).toBeUndefined();
   });
 });

@@ -1,8 +1,9 @@
-// The demo project's scenarios: seeded once, and the portolan CLI's check agrees with the story the demo
-// tells ("Baseline" meets the rules, "Cheaper switch" fails TX→RX isolation).
+// The demo project's scenarios: seeded once, judged by the project's rules (no hidden copies in the
+// scenario files), and the portolan CLI's check of their bundles agrees with the story the demo tells
+// ("Baseline" meets the rules, "Cheaper switch" fails TX→RX isolation).
 import { beforeAll, describe, expect, it } from "vitest";
 import { spawnSync } from "node:child_process";
-import { mkdirSync, mkdtempSync, writeFileSync } from "node:fs";
+import { mkdtempSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { eq } from "drizzle-orm";
@@ -11,8 +12,10 @@ import { db, runInTransaction } from "@/db/client";
 import { seedDemoScenarios } from "@/db/seed-scenarios";
 import { parts, rules, scenarioRevisions, scenarios, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
-import { getPartTexts, listParts } from "@/db/queries/parts";
+import { listParts } from "@/db/queries/parts";
 import { getScenario, listScenarios } from "@/db/queries/scenarios";
+import { exportBundle } from "@/lib/server/bundle/export";
+import { resolveAccess } from "@/lib/server/permissions";
 
 let projectId: string;
 let engineerId: string;
@@ -26,13 +29,14 @@ beforeAll(async () => {
   engineerId = engineer.id;
 });
 
-/** Export a scenario's latest revision and the project's parts as files, then run `portolan check --json`. */
-function runCheck(content: unknown, partTexts: Record<string, string>): { status: number | null; result: { verdict: string; rules: { id: string; verdict: string; worst: number }[] } } {
+/** Export a scenario's latest revision as a bundle, then run `portolan check bundle.zip --json` on it. */
+async function runBundleCheck(scenarioId: string): Promise<{ status: number | null; result: { verdict: string; failingRules: string[]; items: { name: string; rerun: string }[] } }> {
+  const [row] = await db.select().from(users).where(eq(users.id, engineerId));
+  const actor = { id: row.id, email: row.email, name: row.name, isSiteAdmin: row.isSiteAdmin };
+  const bundle = await exportBundle({ actor, access: await resolveAccess({ userId: engineerId, projectId }), scenarioId });
   const dir = mkdtempSync(path.join(os.tmpdir(), "portolan-demo-"));
-  mkdirSync(path.join(dir, "parts"));
-  for (const [file, text] of Object.entries(partTexts)) writeFileSync(path.join(dir, file), text);
-  writeFileSync(path.join(dir, "scenario.json"), JSON.stringify(content));
-  const run = spawnSync(process.execPath, [path.resolve("node_modules/tsx/dist/cli.mjs"), path.resolve("engine/cli.ts"), "check", "scenario.json", "--json"], { cwd: dir, encoding: "utf8" });
+  writeFileSync(path.join(dir, "bundle.zip"), bundle.bytes);
+  const run = spawnSync(process.execPath, [path.resolve("node_modules/tsx/dist/cli.mjs"), path.resolve("engine/cli.ts"), "check", "bundle.zip", "--json"], { cwd: dir, encoding: "utf8" });
   if (run.status === 2 || run.stdout.trim() === "") throw new Error(run.stderr);
   return { status: run.status, result: JSON.parse(run.stdout) };
 }
@@ -51,14 +55,21 @@ describe("demo scenarios", () => {
     expect(ruleRows.map((r) => r.kind).sort()).toEqual(["insertion_loss", "isolation", "match"]);
   });
 
-  it("`portolan check` passes Baseline and fails Cheaper switch on TX→RX isolation only", async () => {
-    const texts = await getPartTexts({ projectId });
+  it("the demo scenario files carry no copies of the project rules: they inherit them", async () => {
+    for (const item of await listScenarios({ userId: engineerId, projectId })) {
+      const { revision } = await getScenario({ userId: engineerId, projectId, scenarioId: item.id });
+      expect(revision.content.rules ?? []).toEqual([]);
+      expect(revision.content.rule_overrides ?? []).toEqual([]);
+    }
+  });
+
+  it("`portolan check` of their bundles passes Baseline and fails Cheaper switch on TX→RX isolation only", async () => {
     const list = await listScenarios({ userId: engineerId, projectId });
     const verdicts: Record<string, { status: number | null; rules: Record<string, string> }> = {};
     for (const item of list) {
-      const { revision } = await getScenario({ userId: engineerId, projectId, scenarioId: item.id });
-      const { status, result } = runCheck(revision.content, texts);
-      verdicts[item.name] = { status, rules: Object.fromEntries(result.rules.map((r) => [r.id, r.verdict])) };
+      const { status, result } = await runBundleCheck(item.id);
+      const rules = result.items.filter((i) => i.name.startsWith("rule:")).map((i) => [i.name.slice(5), i.rerun]);
+      verdicts[item.name] = { status, rules: Object.fromEntries(rules) };
     }
     expect(verdicts.Baseline).toEqual({ status: 0, rules: { "tx-rx-isolation": "pass", "tx-match": "pass", "tx-ant-loss": "pass" } });
     expect(verdicts["Cheaper switch"]).toEqual({ status: 1, rules: { "tx-rx-isolation": "fail", "tx-match": "pass", "tx-ant-loss": "pass" } });

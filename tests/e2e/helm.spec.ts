@@ -109,7 +109,7 @@ test("keyboard only: comparing the two demo scenarios shows the isolation rule t
   await expect(page.getByRole("row", { name: "Rule tx-match" })).toBeVisible();
   await expect(page.getByRole("row", { name: /verdict differs/ })).toHaveCount(1);
   // and the difference is the T/R switch's isolation
-  await expect(page.getByRole("list", { name: "Differences" })).toContainText("isolation_db: 45 → 25");
+  await expect(page.getByRole("list", { name: "Differences" })).toContainText("isolation_db: 45 dB → 25 dB");
 });
 
 test("a reviewer's helm lists checks but no editing actions", async ({ page }) => {

@@ -17,6 +17,7 @@ import {
   sha256,
   writeBundleZip,
   type BundleIdentity,
+  type ChecksDocument,
 } from "@/engine/bundle";
 import { runPythonJson } from "./reference/python";
 import { writeRawZip, type RawEntry } from "./bundle-zip-helpers";
@@ -140,6 +141,24 @@ describe("portolan check <bundle.zip>", () => {
     expect(r.code).toBe(3);
     expect(r.out).toMatch(/DIFFERS\s+overall verdict\s+stored pass, re-run fail/);
     expect(r.out).toContain("NOT REPRODUCED");
+  });
+
+  it("re-judges with the rule set the bundle records: a loosened limit whose hash no longer matches is not reproduced (exit 3)", async () => {
+    const files = readZipSafely(zip);
+    const doc = JSON.parse(new TextDecoder().decode(files.get("results/checks.json"))) as ChecksDocument;
+    expect(doc.rule_set.sha256).toMatch(/^[0-9a-f]{64}$/);
+    expect(doc.rule_set.rules.length).toBeGreaterThan(0);
+    expect(doc.rule_set.rules.every((r) => r.source === "scenario")).toBe(true); // a file read alone: its own rules
+    // someone loosens a rule in checks.json (and rebuilds the manifest) to turn a verdict around
+    const first = doc.rule_set.rules[0].rule as Record<string, unknown>;
+    for (const key of ["min_db", "max_db", "min_return_loss_db"]) if (typeof first[key] === "number") first[key] = key === "max_db" ? 1e6 : -1e6;
+    const forged = new Map<string, string>();
+    for (const [name, data] of files) if (name !== "manifest.json") forged.set(name, name === "results/checks.json" ? JSON.stringify(doc) : new TextDecoder().decode(data));
+    const p = path.join(dir, "loosened.zip");
+    writeFileSync(p, await writeBundleZip(identity, forged));
+    const r = runCli(["check", p]);
+    expect(r.code).toBe(3);
+    expect(r.out).toMatch(/DIFFERS\s+rule set\s+stored sha256/);
   });
 
   it("--help documents the exit codes of a bundle check", () => {

@@ -1,7 +1,7 @@
 // diffScenarios: what differs between two scenarios in what the engine reads. Expected values are worked
 // out by hand from the two inputs of each case (the diff is set arithmetic on ids, link pairs and fields).
 import { describe, expect, it } from "vitest";
-import { diffScenarios } from "@/lib/domain/scenarios/diff";
+import { changeText, diffScenarios } from "@/lib/domain/scenarios/diff";
 import type { Scenario } from "@/engine/types";
 
 const base: Scenario = {
@@ -89,5 +89,19 @@ describe("diffScenarios", () => {
     expect(d.blocks).toEqual([{ change: "changed", id: "F", kind: "touchstone", params: [], fields: [{ name: "file", before: "parts/a.s2p", after: "parts/b.s2p" }], state: null }]);
     expect(d.ports).toEqual([{ change: "moved", name: "RX", before: "SW:3", after: "SW:2" }]);
     expect(d.settings.map((s) => s.name)).toEqual(["frequency"]);
+  });
+});
+
+describe("differences in words and units", () => {
+  it("writes values with the unit their parameter names carry, and 'not set' instead of undefined", () => {
+    expect(changeText({ name: "isolation_db", before: 45, after: 25 })).toBe("isolation_db: 45 dB → 25 dB");
+    expect(changeText({ name: "center_hz", before: undefined, after: 2.44e9 })).toBe("center_hz: not set → 2.44 GHz");
+    expect(changeText({ name: "rating_dbm", before: 10, after: undefined })).toBe("rating_dbm: 10 dBm → not set");
+  });
+
+  it("writes a frequency plan as a range and point count, not as JSON", () => {
+    const text = changeText({ name: "frequency", before: { start: 2.3e9, stop: 2.6e9, points: 301 }, after: { list: [1e9, 2e9, 3e9] } });
+    expect(text).toBe("frequency: 2.3 GHz to 2.6 GHz, 301 points → 3 frequencies, 1 GHz to 3 GHz");
+    expect(text).not.toMatch(/[{}"]|undefined/);
   });
 });

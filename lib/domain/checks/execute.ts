@@ -9,13 +9,14 @@ import {
   stabilityCheck,
   stateSweep,
   worstVerdict,
+  judgingRules,
+  type EffectiveRuleSet,
+  type RuleSource,
   type RuleResult,
   type Verdict,
 } from "@/engine/checks";
-import type { RuleSpec, Scenario, Solution } from "@/engine/types";
+import type { RuleSpec, Solution } from "@/engine/types";
 import { AppError } from "@/lib/base/errors";
-import { mergeRules, type RuleSource } from "@/lib/domain/rules/merge";
-import { rulePorts } from "@/lib/domain/rules/schema";
 import type { CheckRunRequest } from "./inputs";
 import type { CheckOutcome, SkippedRule } from "./types";
 
@@ -32,32 +33,23 @@ function ruleOutcome(solution: Solution, rule: RuleSpec): { verdict: Verdict; fi
   return { verdict: result.verdict, figures: { headline: ruleHeadline(result), result } };
 }
 
-/** The merged rules (project + scenario) that can run on this scenario, and those that cannot. */
-function applicableRules(projectRules: RuleSpec[], scenario: Scenario): { rules: RuleSpec[]; sources: { id: string; source: RuleSource }[]; skipped: SkippedRule[] } {
-  const ports = new Set(scenario.ports.map((p) => p.name));
-  const rules: RuleSpec[] = [];
-  const sources: { id: string; source: RuleSource }[] = [];
-  const skipped: SkippedRule[] = [];
-  mergeRules(projectRules, scenario.rules ?? []).forEach(({ spec, source }, i) => {
-    const id = spec.id ?? `rules[${i}]`;
-    const missing = rulePorts(spec).filter((p) => !ports.has(p));
-    if (missing.length > 0) {
-      skipped.push({ id, source, reason: `the scenario has no system port ${missing.map((p) => `"${p}"`).join(", ")}` });
-      return;
-    }
-    rules.push({ ...spec, id });
-    sources.push({ id, source });
-  });
-  return { rules, sources, skipped };
+/** The rules of the effective set that can run, where each came from, and those that cannot run. */
+function applicableRules(ruleSet: EffectiveRuleSet): { rules: RuleSpec[]; sources: { id: string; source: RuleSource }[]; skipped: SkippedRule[] } {
+  return {
+    rules: judgingRules(ruleSet),
+    sources: ruleSet.rules.filter((r) => !r.not_run).map((r) => ({ id: r.id, source: r.source })),
+    skipped: ruleSet.rules.filter((r) => r.not_run).map((r) => ({ id: r.id, source: r.source, reason: r.not_run! })),
+  };
 }
 
 /**
  * Runs one check on a solved scenario (docs/checks.md). Verdicts: rule checks as evaluateRule; leak
  * trace "fail" when `min_db` is given and the traced isolation is below it, "warn" when the listed
  * paths leave more than 1 dB unexplained, else "pass"; state sweep "pass" when every combination
- * passes, "fail" when none does, else "warn"; stability and all rules the worst of their verdicts.
+ * passes, "fail" when none does, else "warn"; stability and all rules the worst of their verdicts. The
+ * state sweep and "all rules" judge by the revision's effective rule set (engine/checks/rule-set.ts).
  */
-export function executeCheck(request: CheckRunRequest, solution: Solution, projectRules: RuleSpec[]): CheckOutcome {
+export function executeCheck(request: CheckRunRequest, solution: Solution, ruleSet: EffectiveRuleSet): CheckOutcome {
   const scenario = solution.system.scenario;
   switch (request.check) {
     case "isolation":
@@ -90,7 +82,7 @@ export function executeCheck(request: CheckRunRequest, solution: Solution, proje
       return { check: request.check, verdict: result.verdict, figures: { headline, result } };
     }
     case "state_sweep": {
-      const { rules, sources, skipped } = applicableRules(projectRules, scenario);
+      const { rules, sources, skipped } = applicableRules(ruleSet);
       const result = stateSweep(solution.system, rules);
       const verdict: Verdict = result.rows.length === 0 || result.failing === 0 ? "pass" : result.passing === 0 ? "fail" : "warn";
       const headline = `${result.combinations} combination${result.combinations === 1 ? "" : "s"} × ${rules.length} rule${rules.length === 1 ? "" : "s"}: ${result.passing} pass, ${result.failing} fail`;
@@ -103,7 +95,7 @@ export function executeCheck(request: CheckRunRequest, solution: Solution, proje
       return { check: request.check, verdict, figures: { headline, result } };
     }
     case "all_rules": {
-      const { rules, sources, skipped } = applicableRules(projectRules, scenario);
+      const { rules, sources, skipped } = applicableRules(ruleSet);
       const result = runAllChecks({ ...scenario, rules }, solution.system, solution);
       const failing = result.rules.filter((r) => r.verdict === "fail").map((r) => r.id);
       const headline = `${result.rules.length} rule${result.rules.length === 1 ? "" : "s"}, ${result.checks.length} checks: ${failing.length === 0 ? "no rule fails" : `failing ${failing.join(", ")}`}`;

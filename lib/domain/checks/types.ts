@@ -1,5 +1,5 @@
 import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult, Verdict } from "@/engine/checks";
-import type { RuleSource } from "@/lib/domain/rules/merge";
+import type { EffectiveRuleSet, RuleSource } from "@/engine/checks";
 import type { CheckName } from "./inputs";
 
 /** A rule left out of a run because the scenario lacks a system port it names. */
@@ -42,6 +42,14 @@ export type CheckRunSummary = {
   inputs: Record<string, unknown>;
   verdict: Verdict;
   headline: string;
+  /** what the verdict is of: the revision's content hash, the effective rule set's hash, the engine version (null for older runs) */
+  contentHash: string | null;
+  rulesHash: string | null;
+  engineVersion: string | null;
+  /** why the verdict is no longer current for its revision (rules changed, engine updated…); empty when current */
+  stale: string[];
+  /** the run is of the scenario's latest revision */
+  latest: boolean;
   userName: string | null;
   createdAt: string | Date;
 };
@@ -51,3 +59,17 @@ export type CheckRunView = { [K in CheckName]: Omit<CheckRunSummary, "check"> & 
 
 /** A run of one named check. */
 export type CheckRunOf<K extends CheckName> = Extract<CheckRunView, { check: K }>;
+
+/** The verdict of a revision under its current rules (lib/server/verdicts.ts), as the sign-off panel, compare and overview show it. */
+export type RevisionVerdict = {
+  revisionId: string;
+  revisionNumber: number;
+  contentHash: string;
+  rulesHash: string;
+  engineVersion: string;
+  ruleSet: EffectiveRuleSet;
+  /** the stored "all rules" run that is current for (revision, rules, engine), or null when none is */
+  run: Extract<CheckRunView, { check: "all_rules" }> | null;
+  /** failing rule ids and failing built-in checks (names as in checks.json), when the run fails */
+  failing: string[];
+};

@@ -57,14 +57,8 @@ export const ruleSpecSchema = z.discriminatedUnion("kind", [
   }).strict(),
 ]);
 
-/** The system ports a rule names. */
-export function rulePorts(rule: RuleSpec): string[] {
-  switch (rule.kind) {
-    case "match":
-      return [rule.port];
-    case "drive":
-      return rule.sources.map((s) => s.port);
-    default:
-      return [rule.from, rule.to];
-  }
-}
+/** A project rule: the scenario file's rule with its name required. */
+export type NamedRuleSpec = z.infer<typeof ruleSpecSchema>;
+
+/** The system ports a rule names (one definition, beside the effective rule set). */
+export { rulePorts } from "@/engine/checks/rule-set";

@@ -1,3 +1,4 @@
+import { formatHz } from "@/engine/checks/band";
 import type { BlockSpec, PortRef, Scenario } from "@/engine/types";
 
 /** A changed parameter (or another field of a block): its value before and after; undefined = not set. */
@@ -15,8 +16,13 @@ export type PortDiff =
   | { change: "moved"; name: string; before: PortRef; after: PortRef }
   | { change: "z0"; name: string; before: number | undefined; after: number | undefined };
 
+/** A change of the scenario's own rule entries (overrides, opt-outs, scenario-only rules), by rule name. */
+export type RuleEntryDiff = { change: "added" | "removed" | "changed"; entry: "override" | "opt-out" | "scenario rule"; id: string; before?: unknown; after?: unknown };
+
 export type ScenarioDiff = {
   blocks: BlockDiff[];
+  /** the scenario's rule entries that differ (project rules are the same for both scenarios of a project) */
+  rules: RuleEntryDiff[];
   links: LinkDiff[];
   ports: PortDiff[];
   /** scenario-level fields that differ: z0, frequency plan */
@@ -102,5 +108,69 @@ export function diffScenarios(a: Scenario, b: Scenario): ScenarioDiff {
   if (a.z0 !== b.z0) settings.push({ name: "z0", before: a.z0, after: b.z0 });
   if (!equal(a.frequency, b.frequency)) settings.push({ name: "frequency", before: a.frequency, after: b.frequency });
 
-  return { blocks, links, ports, settings, same: blocks.length + links.length + ports.length + settings.length === 0 };
+  const rules: RuleEntryDiff[] = [];
+  const entries = (sc: Scenario) => ({
+    override: new Map((sc.rule_overrides ?? []).map((o) => { const { by: _b, at: _a, ...r } = o; void _b; void _a; return [o.id, r as unknown]; })),
+    "opt-out": new Map((sc.rule_opt_outs ?? []).map((o) => [o.id, o.reason as unknown])),
+    "scenario rule": new Map((sc.rules ?? []).map((r, i) => [r.id ?? `rules[${i}]`, r as unknown])),
+  });
+  const ea = entries(a);
+  const eb = entries(b);
+  for (const entry of ["override", "opt-out", "scenario rule"] as const) {
+    for (const [id, before] of ea[entry]) {
+      if (!eb[entry].has(id)) rules.push({ change: "removed", entry, id, before });
+      else if (!equal(before, eb[entry].get(id))) rules.push({ change: "changed", entry, id, before, after: eb[entry].get(id) });
+    }
+    for (const [id, after] of eb[entry]) if (!ea[entry].has(id)) rules.push({ change: "added", entry, id, after });
+  }
+
+  return { blocks, rules, links, ports, settings, same: blocks.length + rules.length + links.length + ports.length + settings.length === 0 };
+}
+
+/** Units read from a parameter's name suffix (docs/blocks.md names parameters with their unit). */
+const UNIT_SUFFIXES: [RegExp, (x: number) => string][] = [
+  [/_hz$/, (x) => formatHz(x)],
+  [/_dbm$/, (x) => `${x} dBm`],
+  [/_db$/, (x) => `${x} dB`],
+  [/_deg$/, (x) => `${x}°`],
+  [/_(ohm|ohms)$/, (x) => `${x} Ω`],
+  [/^z0$/, (x) => `${x} Ω`],
+];
+
+/** A frequency plan in words: "2.3 GHz to 2.6 GHz, 301 points" or "3 frequencies, 1 GHz to 3 GHz". */
+export function planText(plan: unknown): string {
+  const p = plan as { start?: number; stop?: number; points?: number; list?: number[] } | undefined;
+  if (!p || typeof p !== "object") return "not set";
+  if (Array.isArray(p.list)) {
+    const lo = Math.min(...p.list);
+    const hi = Math.max(...p.list);
+    return p.list.length === 1 ? `1 frequency, ${formatHz(lo)}` : `${p.list.length} frequencies, ${formatHz(lo)} to ${formatHz(hi)}`;
+  }
+  if (typeof p.start === "number" && typeof p.stop === "number") return `${formatHz(p.start)} to ${formatHz(p.stop)}, ${p.points ?? "?"} point${p.points === 1 ? "" : "s"}`;
+  return "not set";
+}
+
+/**
+ * A value of a changed field in words with its unit, never `undefined` or raw JSON: "45 dB", "2.44 GHz",
+ * "not set", "parts/x.s2p", a frequency plan as planText.
+ * @example valueText("isolation_db", 45) // "45 dB"
+ */
+export function valueText(name: string, value: unknown): string {
+  if (value === undefined || value === null) return "not set";
+  if (name === "frequency") return planText(value);
+  if (typeof value === "number") {
+    const unit = UNIT_SUFFIXES.find(([re]) => re.test(name));
+    return unit ? unit[1](value) : String(value);
+  }
+  if (typeof value === "string") return value;
+  if (typeof value === "boolean") return value ? "yes" : "no";
+  if (Array.isArray(value)) return value.map((v) => valueText(name, v)).join(", ");
+  return Object.entries(value as Record<string, unknown>)
+    .map(([k, v]) => `${k} ${valueText(k, v)}`)
+    .join(", ");
+}
+
+/** "isolation_db: 45 dB → 25 dB" */
+export function changeText(c: FieldChange): string {
+  return `${c.name}: ${valueText(c.name, c.before)} → ${valueText(c.name, c.after)}`;
 }

@@ -1,6 +1,7 @@
 // report.html of a bundle: one self-contained, printable page (inline CSS and SVG, system fonts, no
 // scripts, no external requests) with the verdicts, |S| traces, leak traces, power ledgers and cautions.
-import { DRIVE_CAUTIONS, formatHz } from "@/engine/checks";
+import { DRIVE_CAUTIONS, formatHz, RULE_SOURCE_LABELS } from "@/engine/checks";
+import { ruleText } from "@/lib/domain/rules/describe";
 import type { BundleManifest, BundleResults } from "@/engine/bundle";
 import { escapeHtml, svgPlot, type PlotTrace } from "./svg-plot";
 
@@ -58,10 +59,10 @@ function tracesSection(results: BundleResults): string {
   const x = f.map((v) => v / scale);
   // one shaded band per distinct range (rules often share a band), labelled with every rule on it
   const byRange = new Map<string, { from: number; to: number; label: string }>();
-  (results.scenario.rules ?? []).forEach((r, i) => {
-    if (!r.band) return;
+  results.checks.rule_set.rules.forEach(({ rule: r, not_run }) => {
+    if (!r.band || not_run) return;
     const key = `${r.band[0]}-${r.band[1]}`;
-    const label = `${r.id ?? `rules[${i}]`} (${r.kind})`;
+    const label = `${r.id} (${r.kind})`;
     const seen = byRange.get(key);
     if (seen) seen.label += `, ${label}`;
     else byRange.set(key, { from: r.band[0] / scale, to: r.band[1] / scale, label });
@@ -96,6 +97,42 @@ function verdictTable(results: BundleResults): string {
     return `<tr><td>${verdictCell(c.verdict)}</td><td class="mono">${escapeHtml(c.name)}</td><td>${escapeHtml(c.title)}</td><td class="mono small">${figures}${messages}</td></tr>`;
   });
   return `<table><thead><tr><th>Verdict</th><th>Check</th><th>What</th><th>Figures</th></tr></thead><tbody>${rows.join("")}</tbody></table>`;
+}
+
+/** The effective rule set the verdicts were judged by: each rule with its source and verdict; opt-outs with their reasons. */
+function ruleSetSection(results: BundleResults): string {
+  const doc = results.checks;
+  const verdicts = new Map(doc.rules.map((r) => [r.id, r]));
+  const rows = doc.rule_set.rules.map((entry) => {
+    const v = verdicts.get(entry.id);
+    const verdict = !v || v.verdict === "not run" ? `<span class="muted">NOT RUN</span>` : verdictCell(v.verdict);
+    const override = entry.project_rule
+      ? `<div class="small muted">overrides the project's ${escapeHtml(ruleText(entry.project_rule))}${entry.by ? `; changed by ${escapeHtml(entry.by)}` : ""}${entry.at ? ` on ${escapeHtml(entry.at)}` : ""}</div>`
+      : "";
+    const note = entry.not_run ?? entry.note;
+    return `<tr><td>${verdict}</td><td class="mono">${escapeHtml(entry.id)}</td><td>${escapeHtml(RULE_SOURCE_LABELS[entry.source])}</td><td>${escapeHtml(ruleText(entry.rule))}${override}${note ? `<div class="small muted">${escapeHtml(note)}</div>` : ""}</td></tr>`;
+  });
+  for (const o of doc.rule_set.opted_out) {
+    rows.push(`<tr><td><span class="muted">OPTED OUT</span></td><td class="mono">${escapeHtml(o.id)}</td><td>project</td><td>${o.project_rule ? escapeHtml(ruleText(o.project_rule)) : "(no longer a project rule)"}<div class="small">reason: ${escapeHtml(o.reason)}${o.by ? ` (${escapeHtml(o.by)}${o.at ? `, ${escapeHtml(o.at)}` : ""})` : ""}</div></td></tr>`);
+  }
+  if (rows.length === 0) return `<p class="muted">No rules: the project has none and the scenario adds none.</p>`;
+  return `<table><thead><tr><th>Verdict</th><th>Rule</th><th>Source</th><th>Requirement</th></tr></thead><tbody>${rows.join("")}</tbody></table>
+<p class="small muted">Rule set SHA-256 <span class="mono">${escapeHtml(doc.rule_set.sha256)}</span>, engine ${escapeHtml(doc.engine_version)}.</p>`;
+}
+
+/** Waivers given by reviewers who approved this revision although rules failed. */
+function waiverSection(results: BundleResults): string {
+  const waivers = results.checks.waivers;
+  if (waivers.length === 0) return "";
+  const items = waivers
+    .map(
+      (w) =>
+        `<h3>Approved with a waiver by ${escapeHtml(w.reviewer)} on ${escapeHtml(w.decided_at)}</h3><table><thead><tr><th>Failing rule waived</th><th>Reason</th></tr></thead><tbody>${w.rules
+          .map((r) => `<tr><td class="mono">${escapeHtml(r.id)}</td><td>${escapeHtml(r.reason)}</td></tr>`)
+          .join("")}</tbody></table>${w.comment ? `<p class="small">Comment: ${escapeHtml(w.comment)}</p>` : ""}`,
+    )
+    .join("\n");
+  return `<h2>Waivers</h2>${items}`;
 }
 
 function leakSection(results: BundleResults): string {
@@ -160,6 +197,9 @@ export function renderReportHtml({ identity, results, files }: ReportInput): str
 <dt>Plan</dt><dd>${sol.frequencies.length} points, ${escapeHtml(formatHz(sol.frequencies[0]))} – ${escapeHtml(formatHz(sol.frequencies[sol.frequencies.length - 1]))}</dd>
 </dl>
 <div class="caution" role="note"><strong>Cautions</strong><ul>${DRIVE_CAUTIONS.map((c) => `<li>${escapeHtml(c)}</li>`).join("")}</ul></div>
+<h2>Rules judged by</h2>
+${ruleSetSection(results)}
+${waiverSection(results)}
 <h2>Verdicts</h2>
 ${verdictTable(results)}
 ${warnings}

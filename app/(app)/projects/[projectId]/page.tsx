@@ -1,6 +1,9 @@
 import type { Metadata } from "next";
 import { Card, CardBody, CardDescription, CardHeader, CardTitle } from "@/components/ui/card";
 import { can } from "@/lib/base/permission-table";
+import { ProjectVerdicts, type ScenarioVerdictItem } from "@/components/checks/project-verdicts";
+import { serialiseDates } from "@/lib/domain/serialised";
+import { projectVerdicts } from "@/lib/server/verdicts";
 import { loadProject } from "./load-project";
 import { DeleteProjectButton } from "./delete-project-button";
 import { ProjectSettingsForm } from "./project-settings-form";
@@ -13,7 +16,8 @@ export async function generateMetadata({ params }: { params: Promise<{ projectId
 
 export default async function ProjectOverviewPage({ params }: { params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
-  const { project } = await loadProject(projectId);
+  const { user, project } = await loadProject(projectId);
+  const verdicts = serialiseDates(await projectVerdicts({ userId: user.id, projectId })) as unknown as ScenarioVerdictItem[];
   const canRename = can(project.role, "project.rename");
   const canDelete = can(project.role, "project.delete");
   return (
@@ -29,6 +33,11 @@ export default async function ProjectOverviewPage({ params }: { params: Promise<
           <dt className="text-muted">Last changed</dt>
           <dd className="figures">{formatDate(project.updatedAt)}</dd>
         </dl>
+        <h2 id="verdicts-heading" className="mt-2 text-lg font-semibold">
+          Verdicts
+        </h2>
+        <p className="max-w-prose text-sm text-muted">Each scenario&apos;s latest revision judged by all its rules, current for today&apos;s rules and engine or marked stale.</p>
+        <ProjectVerdicts projectId={project.id} rows={verdicts} canRun={can(project.role, "check.run")} />
       </section>
       {canRename || canDelete ? (
         <div className="flex flex-col gap-6">

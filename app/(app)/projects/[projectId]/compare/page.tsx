@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { listScenarios } from "@/db/queries/scenarios";
 import { CompareView } from "@/components/compare/compare-view";
+import { can } from "@/lib/base/permission-table";
 import { loadProject } from "../load-project";
 
 export const metadata: Metadata = { title: "Compare" };
@@ -22,8 +23,9 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
           Compare
         </h2>
         <p className="max-w-prose text-sm text-muted">
-          Two scenarios, or two revisions of one, side by side: every rule’s verdict and margin (from a stored “all rules” run of each revision, run now if there is none), a
-          transmission of your choice overlaid, and what differs in blocks, links and system ports.
+          Two scenarios, or two revisions of one, side by side: every rule’s verdict and margin, each side judged by its own current rules (a stored “all rules” run that is
+          current for the revision, its rules and the engine, run now if there is none), a transmission of your choice overlaid, and what differs in blocks, rules, links and
+          system ports.
         </p>
       </div>
       {!a || !b ? (
@@ -32,6 +34,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
         <CompareView
           projectId={project.id}
           scenarios={scenarios}
+          canRun={can(project.role, "check.run")}
           initial={{ a: { scenarioId: a, revisionId: search.ra ?? "" }, b: { scenarioId: b, revisionId: search.rb ?? "" } }}
         />
       )}

@@ -3,6 +3,7 @@ import { listRules } from "@/db/queries/rules";
 import { RulesEditor, type RuleItem } from "@/components/rules/rules-editor";
 import { serialiseDates } from "@/lib/domain/serialised";
 import { can } from "@/lib/base/permission-table";
+import { projectRuleUsage } from "@/lib/server/verdicts";
 import { loadProject } from "../load-project";
 
 export const metadata: Metadata = { title: "Rules" };
@@ -11,6 +12,7 @@ export default async function RulesPage({ params }: { params: Promise<{ projectI
   const { projectId } = await params;
   const { user, project } = await loadProject(projectId);
   const rules: RuleItem[] = serialiseDates(await listRules({ userId: user.id, projectId }));
+  const usage = await projectRuleUsage({ userId: user.id, projectId });
   return (
     <section aria-labelledby="rules-heading" className="flex flex-col gap-4">
       <div>
@@ -18,11 +20,12 @@ export default async function RulesPage({ params }: { params: Promise<{ projectI
           Rules
         </h2>
         <p className="max-w-prose text-sm text-muted">
-          Requirements every scenario of this project is held to. “Run all rules” on a scenario evaluates these together with the scenario’s own rules: a scenario rule with the same
-          name replaces the project rule, an identical one is not repeated, and rules naming a system port the scenario lacks are listed as not run.
+          Requirements every scenario of this project is held to. A scenario inherits them all; on its Rules panel it may override one (both limits are shown, with who changed
+          it), opt out of one with a reason, or add its own. Rules naming a system port a scenario lacks are listed there as not run. Changing a rule here marks the verdicts
+          judged by the old rule as stale.
         </p>
       </div>
-      <RulesEditor projectId={project.id} initial={rules} canEdit={can(project.role, "rule.edit")} />
+      <RulesEditor projectId={project.id} initial={rules} canEdit={can(project.role, "rule.edit")} usage={usage} />
     </section>
   );
 }

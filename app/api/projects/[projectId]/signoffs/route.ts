@@ -1,4 +1,5 @@
-import { listSignoffs, requestSignoff } from "@/db/queries/signoffs";
+import { listSignoffs } from "@/db/queries/signoffs";
+import { requestSignoffOnEvidence } from "@/lib/server/signoffs/evidence";
 import { apiRoute, json, parseWith } from "@/lib/server/api";
 import { notifySignoffRequested } from "@/lib/server/signoffs/notify";
 import { idSchema } from "@/lib/base/validation/common";
@@ -16,12 +17,12 @@ export const GET = apiRoute<Params>(async (ctx) => {
 
 /**
  * POST …/signoffs { scenarioId, revisionId?, reviewerIds, note? } → 201 { signoffs, mail: { sent, skipped, failed } }
- * (engineers, owners). Each reviewer gets an e-mail with a link to the scenario unless they turned them off.
+ * (engineers, owners); 422 naming the problem when the revision does not solve. Each reviewer gets an e-mail with a link to the scenario unless they turned them off.
  */
 export const POST = apiRoute<Params>(async (ctx) => {
   const input = await ctx.body(requestSignoffSchema);
   const user = await ctx.requireUser();
-  const requested = await requestSignoff({ actor: user, projectId: ctx.params.projectId, scenarioId: input.scenarioId, revisionId: input.revisionId, reviewerIds: input.reviewerIds, note: input.note ?? "" });
+  const requested = await requestSignoffOnEvidence({ actor: user, projectId: ctx.params.projectId, scenarioId: input.scenarioId, revisionId: input.revisionId, reviewerIds: input.reviewerIds, note: input.note ?? "" });
   const mail = await notifySignoffRequested(requested);
   return json({ signoffs: requested.signoffs, mail }, { status: 201 });
 });

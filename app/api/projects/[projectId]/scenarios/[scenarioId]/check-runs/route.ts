@@ -1,5 +1,4 @@
-import { listCheckRuns } from "@/db/queries/check-runs";
-import { runCheck } from "@/lib/server/check-runs";
+import { listRunsWithFreshness, runCheck } from "@/lib/server/check-runs";
 import { checkRunRequestSchema } from "@/lib/domain/checks/inputs";
 import { apiRoute, json, parseWith } from "@/lib/server/api";
 import { resolveAccess } from "@/lib/server/permissions";
@@ -9,13 +8,13 @@ type Params = { projectId: string; scenarioId: string };
 
 const limitSchema = z.coerce.number().int().min(1).max(200).default(50);
 
-/** GET …/check-runs[?limit=n] → { runs } newest first, without figures (anyone in the project). */
+/** GET …/check-runs[?limit=n] → { runs } newest first, without figures, each with `stale` reasons and `latest` (anyone in the project). */
 export const GET = apiRoute<Params>(async (ctx) => {
   const raw = new URL(ctx.request.url).searchParams.get("limit");
   const limit = parseWith(limitSchema, raw ?? undefined);
   const user = await ctx.requireUser();
   const access = await resolveAccess({ userId: user.id, projectId: ctx.params.projectId });
-  return json({ runs: await listCheckRuns({ access, scenarioId: ctx.params.scenarioId, limit }) });
+  return json({ runs: await listRunsWithFreshness({ access, scenarioId: ctx.params.scenarioId, limit }) });
 });
 
 /**
