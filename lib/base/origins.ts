@@ -108,6 +108,9 @@ export function safeRedirectPath(value: string | null | undefined, appOrigin: st
     return fallback;
   }
   if (parsed.origin !== new URL(appOrigin).origin) return fallback;
+  // dot segments can leave a path that starts with "//" ("/.//evil.example" → "//evil.example"), which a
+  // browser reads as another host: refuse it rather than hand back a protocol-relative URL
+  if (parsed.pathname.startsWith("//")) return fallback;
   return `${parsed.pathname}${parsed.search}${parsed.hash}`;
 }
 

@@ -18,6 +18,8 @@ describe("safeRedirectPath", () => {
     ["\\\\evil.example", "two backslashes"],
     ["//evil.example", "protocol-relative"],
     ["///evil.example", "three slashes"],
+    ["/.//evil.example", "dot segment before two slashes (found by the property below)"],
+    ["/x/..//evil.example", "parent segment before two slashes"],
     ["https://evil.example/projects", "absolute elsewhere"],
     [`${APP}/projects`, "absolute here (not a path)"],
     ["javascript:alert(1)", "script URL"],
