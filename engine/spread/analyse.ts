@@ -150,7 +150,7 @@ const nextTurn = (): Promise<void> => new Promise((resolve) => setTimeout(resolv
  * The scenario is prepared once (prepareSystem) and its join plan built by the nominal solve; each
  * sample draws every spread parameter in a fixed order (blocks in scenario order, each block's spread
  * in its object's order) from one xoshiro128** stream seeded by `seed`, re-evaluates only the blocks
- * that have spreads, and solves through the same plan (solveSystem with `replace`, no wave maps). Every
+ * that have spreads, and solves through the same plan (solveSystem with `replace`; wave maps only when a drive rule needs them). Every
  * rule is evaluated on every sample: passes (margin ≥ 0), margins and the rule's trace in dB over its
  * band. Samples run in batches of at most `batchMs` milliseconds; between batches the progress callback is called, the abort
  * signal checked and the event loop given a turn (so that a worker can receive Cancel).
@@ -168,13 +168,15 @@ export async function runSpread(scenario: Scenario, opts: SpreadOptions): Promis
   const batchMs = Math.max(1, opts.batchMs ?? 50);
   opts.signal?.throwIfAborted();
 
-  const sys = prepareSystem(scenario, { readFile: opts.readFile, parts: opts.parts, maxBytes: opts.maxBytes, waves: false });
+  // drive rules read internal waves, which need the wave maps; the other rules read the composite alone
+  const waves = (opts.rules ?? scenario.rules ?? []).some((r) => r.kind === "drive") || (scenario.rule_overrides ?? []).some((r) => r.kind === "drive");
+  const sys = prepareSystem(scenario, { readFile: opts.readFile, parts: opts.parts, maxBytes: opts.maxBytes, waves });
   const params = scenarioSpreadParams(sys.scenario.blocks);
   if (params.length === 0) throw new EngineInputError("blocks", "no block has a spread: give at least one block a `spread` object (docs/scenario-format.md \"Spreads\")");
   const rules = opts.rules ?? judgingRules(effectiveRuleSet([], sys.scenario));
   if (rules.length === 0) throw new EngineInputError("rules", "the scenario has no rules to judge: a spread analysis needs at least one rule");
 
-  const nominalSolution = solveSystem(sys, { waves: false });
+  const nominalSolution = solveSystem(sys, { waves });
   const nominal = rules.map((rule, i) => evaluateRule(nominalSolution, rule, i));
   const points = nominal.map((r) => r.values.length);
   const traceBytes = points.reduce((a, b) => a + b, 0) * N * 8;
@@ -200,7 +202,7 @@ export async function runSpread(scenario: Scenario, opts: SpreadOptions): Promis
       for (let c = 0; c < P; c++) row[c] = drawValue(params[c], random.uniform, random.normal);
       values.set(row, s * P);
       for (const v of varied) replace[v.id] = variedS(v, sys, row);
-      const sol = solveSystem(sys, { replace, waves: false });
+      const sol = solveSystem(sys, { replace, waves });
       rules.forEach((rule, i) => {
         const r = evaluateRule(sol, rule, i);
         margins[i][s] = r.margin;

@@ -22,7 +22,8 @@ export function wilsonInterval(passed: number, total: number, z = Z95): { low: n
   const denom = 1 + z2 / total;
   const centre = (p + z2 / (2 * total)) / denom;
   const half = (z / denom) * Math.sqrt((p * (1 - p)) / total + z2 / (4 * total * total));
-  return { low: Math.max(0, centre - half), high: Math.min(1, centre + half) };
+  // at 0 or n passes the bound is exactly 0 or 1; rounding would leave 1 − 2⁻⁵² there
+  return { low: passed === 0 ? 0 : Math.max(0, centre - half), high: passed === total ? 1 : Math.min(1, centre + half) };
 }
 
 /**

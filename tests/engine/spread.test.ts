@@ -245,6 +245,35 @@ describe("runSpread", () => {
     expect(env.p50[0]).toBeCloseTo(il0 + 10 * Math.log10(1 + rho * rho), 2);
   });
 
+  it("drive and match rules through a pad of spread loss: closed-form margins and yields", async () => {
+    // 7 dBm into a pad of loss L (uniform 2…4 dB) ending in a load of 20 dB return loss rated 5 dBm:
+    // incident power at the load 7 − L dBm, margin 5 − (7 − L) = L − 2 ≥ 0 always (yield 1); the return
+    // loss seen at A is 20 + 2L dB (the reflection crosses the pad twice), ≥ 26 dB iff L ≥ 3: yield 0.5
+    // (common practice: matched pad, definition of return loss).
+    const scenario = parseScenario({
+      ...padScenario(),
+      blocks: [
+        { id: "PAD", kind: "attenuator", params: { loss_db: 3 }, spread: { loss_db: { plus_minus: 1 } } },
+        { id: "LD", kind: "load", params: { return_loss_db: 20 }, rating_dbm: 5 },
+      ],
+      links: [["PAD:2", "LD:1"]],
+      ports: [{ name: "A", at: "PAD:1" }],
+      rules: [
+        { kind: "drive", id: "drive", sources: [{ port: "A", dbm: 7 }] },
+        { kind: "match", id: "match", port: "A", band: [1e9, 2e9], min_return_loss_db: 26 },
+      ],
+    });
+    const r = await runSpread(scenario, { samples: 20000, seed: 3 });
+    const [drive, match] = r.rules;
+    expect(drive).toMatchObject({ passed: 20000, yield: 1, high: 1 });
+    expect(drive.worst!.margin).toBeCloseTo(drive.worst!.values["PAD.loss_db"] - 2, 9);
+    expect(match.low).toBeLessThanOrEqual(0.5);
+    expect(match.high).toBeGreaterThanOrEqual(0.5);
+    expect(match.worst!.margin).toBeCloseTo(20 + 2 * match.worst!.values["PAD.loss_db"] - 26, 9);
+    // the drive rule has no band trace: one envelope, the match rule's
+    expect(r.envelopes.map((e) => e.rule)).toEqual(["match"]);
+  });
+
   it("same seed, same result; another seed, other samples", async () => {
     const scenario = padScenario({ loss_db: { sigma: 0.4 } });
     const a = await runSpread(scenario, { samples: 300, seed: 42 });
