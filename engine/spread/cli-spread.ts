@@ -1,7 +1,10 @@
 // `portolan spread <scenario.json> --samples N --seed S [--min-yield Y] [--json]`: the spread analysis of a
 // scenario's rules (docs/checks.md "Spread analysis").
+import { mkdirSync, writeFileSync } from "node:fs";
+import { join, resolve } from "node:path";
 import { CliUsageError, MAX_MEMORY_USAGE, readScenarioFile, takeMaxMemory, takeOption, withInputErrors, type CliCommand, type CliIO } from "../cli-support";
-import { runSpread, MAX_SPREAD_SAMPLES, type SpreadResult } from "./analyse";
+import { prepareSystem } from "../system/prepare-system";
+import { runSpread, sampleScenario, MAX_SPREAD_SAMPLES, type SpreadResult } from "./analyse";
 
 export const SPREAD_USAGE = [
   "portolan spread <scenario.json> --samples N --seed S [--min-yield Y] [--json] [--max-memory SIZE]",
@@ -14,6 +17,7 @@ export const SPREAD_USAGE = [
   "  --json         JSON: { samples, seed, rules: [{ id, passed, total, yield, low, high, nominal_margin,",
   "                 worst, sensitivity }], envelopes: [{ rule, quantity, frequencies, nominal, p5, p50, p95 }]",
   "                 (dB), parameters, warnings }",
+  "  --save-worst DIR  write each rule's worst sample as a scenario, DIR/worst-<rule id>.json (part data inline)",
   MAX_MEMORY_USAGE,
   "  Exit codes: 0 every rule's lower bound meets --min-yield (always without it), 1 some rule's does not,",
   "  2 bad input (message on stderr), 70 internal error.",
@@ -78,7 +82,8 @@ export async function runSpreadCommand(argv: string[], io: CliIO): Promise<numbe
   const { maxBytes, rest: a1 } = takeMaxMemory(argv);
   const { value: samplesText, rest: a2 } = takeOption(a1, "--samples");
   const { value: seedText, rest: a3 } = takeOption(a2, "--seed");
-  const { value: minYieldText, rest: args } = takeOption(a3, "--min-yield");
+  const { value: minYieldText, rest: a4 } = takeOption(a3, "--min-yield");
+  const { value: saveWorst, rest: args } = takeOption(a4, "--save-worst");
   let json = false;
   const positional: string[] = [];
   for (const arg of args) {
@@ -105,6 +110,17 @@ export async function runSpreadCommand(argv: string[], io: CliIO): Promise<numbe
       throw err;
     });
     throw err;
+  }
+  if (saveWorst !== undefined) {
+    const dir = resolve(io.cwd, saveWorst);
+    const system = withInputErrors(path, () => prepareSystem(scenario, { readFile, maxBytes }));
+    mkdirSync(dir, { recursive: true });
+    for (const rule of result.rules) {
+      if (!rule.worst) continue;
+      // rule ids are free text ("rules[0]", "tx iso"): keep letters, digits, dot, dash and underscore
+      const file = join(dir, `worst-${rule.id.replace(/[^A-Za-z0-9._-]+/g, "_")}.json`);
+      writeFileSync(file, `${JSON.stringify(sampleScenario(system, rule.worst.values), null, 2)}\n`);
+    }
   }
   io.out(json ? `${JSON.stringify(result)}\n` : formatSpreadTable(result, minYield));
   return minYield !== undefined && result.rules.some((x) => x.low < minYield) ? 1 : 0;

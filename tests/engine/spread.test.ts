@@ -7,7 +7,7 @@
  * Kolmogorov–Smirnov tests of the generator).
  */
 import { spawnSync } from "node:child_process";
-import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -333,6 +333,16 @@ describe("portolan spread", () => {
     expect(Object.keys(out.envelopes[0])).toEqual(expect.arrayContaining(["frequencies", "p5", "p50", "p95"]));
     // 0.75 is far above 0.7 and far below 0.8 for 4000 samples (interval ≈ ±0.013)
     expect(cli(file, "--samples", "4000", "--seed", "9", "--min-yield", "0.8").code).toBe(1);
+  });
+
+  it("writes each rule's worst sample as a scenario that solves to its margin", () => {
+    const dir = join(work, "worst");
+    const r = cli(file, "--samples", "300", "--seed", "4", "--json", "--save-worst", dir);
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    const worst = parseScenario(JSON.parse(readFileSync(join(dir, "worst-il.json"), "utf8")));
+    expect(worst.blocks[0].params).toEqual({ loss_db: out.rules[0].worst.values["PAD.loss_db"] });
+    expect(evaluateRule(solveScenario(worst), IL_RULE, 0).margin).toBeCloseTo(out.rules[0].worst.margin, 9);
   });
 
   it("prints a table, and exits 2 on bad input", () => {
