@@ -8,7 +8,7 @@ import { effectiveRuleSet, judgingRules, type NamedRule } from "../checks/rule-s
 import { solveSystem } from "../network";
 import { prepareSystem } from "../system/prepare-system";
 import type { PartSource } from "../system/parts";
-import { EngineInputError, type BlockSpec, type PreparedSystem, type SData, type Scenario } from "../types";
+import { EngineInputError, SingularSystemError, type BlockSpec, type PreparedSystem, type SData, type Scenario } from "../types";
 import { writeTouchstone } from "../touchstone";
 import { createRandom } from "./random";
 import { scenarioSpreadParams, type SpreadParam } from "./spec";
@@ -142,6 +142,17 @@ function groupVaried(sys: PreparedSystem, params: SpreadParam[]): Varied[] {
   return [...byBlock.values()];
 }
 
+/**
+ * A sample that cannot be solved (a sampled value a model refuses, a singular interconnection at some
+ * sampled phase) stops the analysis with an input error naming the sample and its values, so that the
+ * spread (or the design) can be corrected; a bug stays what it is.
+ */
+function sampleError(err: unknown, sample: number, params: SpreadParam[], row: Float64Array): unknown {
+  if (!(err instanceof EngineInputError) && !(err instanceof SingularSystemError)) return err;
+  const values = params.map((p, c) => `${p.name} = ${Number(row[c].toPrecision(8))}`).join(", ");
+  return new EngineInputError("spread", `sample ${sample} (${values}) cannot be solved: ${err.message}`);
+}
+
 const nextTurn = (): Promise<void> => new Promise((resolve) => setTimeout(resolve, 0));
 
 /**
@@ -201,14 +212,18 @@ export async function runSpread(scenario: Scenario, opts: SpreadOptions): Promis
     do {
       for (let c = 0; c < P; c++) row[c] = drawValue(params[c], random.uniform, random.normal);
       values.set(row, s * P);
-      for (const v of varied) replace[v.id] = variedS(v, sys, row);
-      const sol = solveSystem(sys, { replace, waves });
-      rules.forEach((rule, i) => {
-        const r = evaluateRule(sol, rule, i);
-        margins[i][s] = r.margin;
-        if (r.verdict !== "fail") passed[i]++;
-        traces[i].set(r.values, s * points[i]);
-      });
+      try {
+        for (const v of varied) replace[v.id] = variedS(v, sys, row);
+        const sol = solveSystem(sys, { replace, waves });
+        rules.forEach((rule, i) => {
+          const r = evaluateRule(sol, rule, i);
+          margins[i][s] = r.margin;
+          if (r.verdict !== "fail") passed[i]++;
+          traces[i].set(r.values, s * points[i]);
+        });
+      } catch (err) {
+        throw sampleError(err, s, params, row);
+      }
       s++;
     } while (s < N && performance.now() - started < batchMs);
     opts.onProgress?.(s / N);
