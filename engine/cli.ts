@@ -3,13 +3,14 @@
  * is a module exporting a CliCommand and one line in the table.
  * Exit codes: 0 success, 2 bad input or a scenario over --max-memory (one message on stderr), 70 an
  * internal error (EX_SOFTWARE); commands document their own further codes (check: 1 a failing check,
- * 3 a bundle tampered or not reproduced). 1 never means a crash.
+ * 3 a bundle tampered or not reproduced; spread: 1 a yield below --min-yield). 1 never means a crash.
  */
 import { realpathSync } from "node:fs";
 import { resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 import { checkCommand } from "./bundle/cli-bundle";
 import { CliUsageError, EXIT_BAD_INPUT, EXIT_INTERNAL, type CliCommand, type CliIO } from "./cli-support";
+import { spreadCommand } from "./spread/cli-spread";
 import { solveCommand } from "./system/cli-solve";
 import { EngineInputError } from "./types";
 
@@ -20,6 +21,7 @@ export const COMMANDS: Readonly<Record<string, CliCommand>> = {
   solve: solveCommand,
   // scenarios and review bundles (.zip)
   check: checkCommand,
+  spread: spreadCommand,
 };
 
 function realPath(path: string): string {
@@ -34,7 +36,7 @@ function usageText(): string {
   const lines = ["Usage: portolan <command> [options]", "", "Commands:"];
   for (const [name, command] of Object.entries(COMMANDS)) lines.push(`  ${name.padEnd(8)} ${command.summary}`);
   lines.push("", "Run `portolan <command> --help` for a command's options.");
-  lines.push("Exit codes: 0 success, 2 bad input or over --max-memory, 70 internal error; check adds 1 (a check fails) and 3 (bundle not reproduced).");
+  lines.push("Exit codes: 0 success, 2 bad input or over --max-memory, 70 internal error; check adds 1 (a check fails) and 3 (bundle not reproduced); spread adds 1 (a yield below --min-yield).");
   for (const command of Object.values(COMMANDS)) lines.push("", command.usage);
   return `${lines.join("\n")}\n`;
 }

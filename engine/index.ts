@@ -19,6 +19,7 @@ export * from "./network";
 export * from "./scenario";
 export * from "./system";
 export * from "./checks";
+export * from "./spread";
 // the interpolation and the checks both export a hertz formatter; the checks' one is the public one
 export { formatHz } from "./checks";
 export * from "./canonical-json";

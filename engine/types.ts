@@ -79,7 +79,15 @@ export type BlockSpec = {
   label?: string;
   /** expressions typed for params (e.g. { loss_db: "0.12 dB/m * L_feed" }); evaluated by the web app, ignored by the engine */
   expr?: Record<string, string>;
+  /**
+   * spreads for the spread analysis, by parameter name (touchstone parts: "mag_db" and "phase_deg"), in the
+   * parameter's own unit; ignored by solve and check (docs/scenario-format.md "Spreads")
+   */
+  spread?: Record<string, SpreadSpec>;
 };
+
+/** One parameter's spread: uniform in nominal ± plus_minus, or normal with standard deviation sigma. */
+export type SpreadSpec = { plus_minus: number } | { sigma: number };
 
 /** "BLOCK:PORT", PORT 1-based */
 export type PortRef = string;

@@ -3,6 +3,7 @@
  * (block ids, link endpoints, system ports, rules), each error with the JSON path where it was found.
  */
 import { evaluateBlock } from "../blocks";
+import { blockSpreadParams } from "../spread/spec";
 import { loadPart, type PartSource } from "../system/parts";
 import { EngineInputError, type BlockSpec, type FrequencyPlanSpec, type Scenario } from "../types";
 import { frequencyPlan } from "./frequency-plan";
@@ -90,6 +91,7 @@ function checkBlocks(scenario: Scenario, source: PartSource): Map<string, { inde
       throw new EngineInputError(`${where}.state`, `only switch blocks have a state; this block is a ${block.kind}`);
     }
     const ports = portCountOf(block, where, source);
+    blockSpreadParams(block, i);
     if (block.kind === "switch" && block.state !== undefined && ports !== undefined && block.state > ports - 1) {
       throw new EngineInputError(`${where}.state`, `expected a throw from 1 to ${ports - 1}, got ${block.state}`);
     }
@@ -175,7 +177,7 @@ function checkReferences(scenario: Scenario, byId: Map<string, { index: number; 
  * plan, block ids unique, block parameters (each built-in model evaluated at one probe frequency, so
  * that its own checks of names, types, ranges and combinations apply), switch states, link
  * endpoints ("ID:PORT" naming an existing block and one of its ports; no port linked twice), system
- * ports (names unique; each at a free block port, used once) and rules (naming existing system ports).
+ * ports (names unique; each at a free block port, used once), spreads (engine/spread/spec.ts) and rules (naming existing system ports).
  * Port counts of touchstone parts come from their data when it can be read (inline `data`, `parts`,
  * `readFile`), otherwise from `ports` or the ".sNp" name; prepareSystem checks again once it has the data.
  *

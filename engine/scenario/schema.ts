@@ -66,6 +66,8 @@ export const BlockSchema = z.object({
   label: z.string().optional(),
   /** the expressions the user typed for params (the web app evaluates them; the engine ignores them) */
   expr: z.record(z.string(), z.string().max(500)).optional(),
+  // checked by parseScenario (engine/spread/spec.ts), so that the message names the block's parameters
+  spread: z.record(z.string(), z.unknown()).optional(),
 });
 
 export const SystemPortSchema = z.object({

@@ -1,0 +1,2 @@
+// The spread analysis's benchmark row (see tests/bench/spread-bench.ts).
+export { benchRows } from "../spread-bench";
