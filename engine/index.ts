@@ -17,6 +17,7 @@ export * from "./blocks";
 export * from "./network";
 export * from "./scenario";
 export * from "./system";
+export * from "./noise";
 export * from "./checks";
 // the interpolation and the checks both export a hertz formatter; the checks' one is the public one
 export { formatHz } from "./checks";

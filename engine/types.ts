@@ -67,6 +67,12 @@ export type BlockSpec = {
   ports?: number;
   /** the most power any port of the block may take, dBm */
   rating_dbm?: number;
+  /** physical temperature for the block's thermal noise, K (default: the scenario's `temperature_k`) */
+  temperature_k?: number;
+  /** output power at 1 dB gain compression, dBm (line-up, drive check) */
+  p1db_out_dbm?: number;
+  /** output third-order intercept point, dBm (line-up) */
+  oip3_dbm?: number;
   /** chart position; ignored by the engine */
   position?: { x: number; y: number };
   /** free text label; ignored by the engine */
@@ -93,6 +99,8 @@ export type Scenario = {
   links: [PortRef, PortRef][];
   ports: SystemPortSpec[];
   rules?: RuleSpec[];
+  /** physical temperature of the passive blocks for their thermal noise, K (default 290) */
+  temperature_k?: number;
   /** allow hold-last extrapolation of part data outside its range (reported as a warning) */
   extrapolate?: "error" | "hold";
   /** project variables usable in parameter expressions (the web app resolves them before the engine) */
@@ -122,6 +130,11 @@ export type EvaluatedBlock = {
   s: SData;
   traits: BlockTraits;
   rating_dbm?: number;
+  /**
+   * touchstone parts with a noise section: its chain correlation matrix on the plan ([k][2][2] interleaved,
+   * W/Hz; engine/noise/noise-parameters.ts), interpolated linearly between noise frequencies
+   */
+  noiseChain?: Float64Array;
   /** messages such as extrapolation used, passivity clipped */
   warnings: string[];
 };

@@ -60,6 +60,9 @@ export const BlockSchema = z.object({
   data: z.string().min(1).optional(),
   ports: z.number().int().min(1).max(1024).optional(),
   rating_dbm: finite.optional(),
+  temperature_k: z.number().nonnegative().max(1e6).optional(),
+  p1db_out_dbm: finite.optional(),
+  oip3_dbm: finite.optional(),
   position: z.object({ x: finite, y: finite }).optional(),
   label: z.string().optional(),
   /** the expressions the user typed for params (the web app evaluates them; the engine ignores them) */
@@ -128,5 +131,6 @@ export const ScenarioSchema = z.object({
   ports: z.array(SystemPortSchema).min(1),
   rules: z.array(RuleSchema).optional(),
   extrapolate: z.enum(["error", "hold"]).optional(),
+  temperature_k: z.number().nonnegative().max(1e6).optional(),
   variables: z.record(z.string(), z.union([z.string(), finite])).optional(),
 });
