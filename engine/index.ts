@@ -18,6 +18,7 @@ export * from "./network";
 export * from "./scenario";
 export * from "./system";
 export * from "./noise";
+export * from "./lineup";
 export * from "./checks";
 // the interpolation and the checks both export a hertz formatter; the checks' one is the public one
 export { formatHz } from "./checks";
