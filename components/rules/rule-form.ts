@@ -6,7 +6,7 @@ import { RULE_KINDS, ruleSpecSchema } from "@/lib/domain/rules/schema";
 /** The rules form as typed: text fields, with units allowed in bands ("2.4 GHz to 2.48 GHz") and powers. */
 export type RuleFormValues = {
   id: string;
-  kind: RuleSpec["kind"];
+  kind: (typeof RULE_KINDS)[number];
   from: string;
   to: string;
   port: string;
@@ -33,8 +33,8 @@ export const EMPTY_RULE_FORM: RuleFormValues = {
   coherent: false,
 };
 
-/** The form values that show an existing rule. */
-export function formFromSpec(spec: RuleSpec): RuleFormValues {
+/** The form values that show an existing rule (of a kind the form edits). */
+export function formFromSpec(spec: Extract<RuleSpec, { kind: RuleFormValues["kind"] }>): RuleFormValues {
   const v: RuleFormValues = { ...EMPTY_RULE_FORM, id: spec.id ?? "", kind: spec.kind };
   if ("band" in spec && spec.band) v.band = formatBand(spec.band);
   switch (spec.kind) {

@@ -37,7 +37,18 @@ function describe(spec: RuleSpec): { ports: string; band: string; limit: string 
       return { ports: spec.port, band, limit: spec.min_return_loss_db !== undefined ? `return loss ≥ ${spec.min_return_loss_db} dB` : `VSWR ≤ ${spec.max_vswr}` };
     case "drive":
       return { ports: spec.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", "), band, limit: spec.coherent ? "ratings, coherent sum" : "ratings" };
+    case "noise_figure":
+      return { ports: `${spec.from} → ${spec.to}`, band, limit: `NF ≤ ${spec.max_db} dB` };
+    case "gain":
+      return { ports: `${spec.from} → ${spec.to}`, band, limit: [spec.min_db !== undefined ? `≥ ${spec.min_db} dB` : "", spec.max_db !== undefined ? `≤ ${spec.max_db} dB` : ""].filter(Boolean).join(", ") };
+    case "headroom":
+      return { ports: `${spec.from} → ${spec.to}, ${spec.input_dbm} dBm in`, band, limit: `headroom ≥ ${spec.min_db} dB` };
   }
+}
+
+/** Whether the rule form edits this kind (project rules hold only those; see RULE_KINDS). */
+function formEdits(spec: RuleSpec): spec is Extract<RuleSpec, { kind: RuleFormValues["kind"] }> {
+  return (RULE_KINDS as readonly string[]).includes(spec.kind);
 }
 
 /** A project's rules: a table for everyone; create, edit and delete for engineers and owners. */
@@ -102,7 +113,7 @@ export function RulesEditor({ projectId, initial, canEdit }: { projectId: string
       {canEdit && editing !== null ? (
         <RuleFormPanel
           key={editing === "new" ? "new" : editing.id}
-          initial={editing === "new" ? EMPTY_RULE_FORM : formFromSpec(editing.spec)}
+          initial={editing === "new" || !formEdits(editing.spec) ? EMPTY_RULE_FORM : formFromSpec(editing.spec)}
           title={editing === "new" ? "New rule" : `Edit rule ${editing.spec.id}`}
           onCancel={() => setEditing(null)}
           onSubmit={async (spec) => {

@@ -20,6 +20,8 @@ export type LineupOptions = {
   frequencyHz?: number;
   /** block id → S used instead (a switch state) */
   replace?: Record<string, SData>;
+  /** compute the noise figures (default true); a headroom rule needs only levels */
+  noise?: boolean;
 };
 
 export type LineupStage = {
@@ -55,7 +57,7 @@ export type LineupResult = {
   frequencies: number[];
   /** transducer gain |S_to,from|², dB */
   gainDb: number[];
-  /** noise figure from `from` to `to` (docs/scenario-format.md#noise), dB */
+  /** noise figure from `from` to `to` (docs/scenario-format.md#noise), dB (NaN when `noise: false`) */
   nfDb: number[];
   inputDbm: number | null;
   /** how the path was chosen, and where */
@@ -114,10 +116,11 @@ export function lineup(sys: PreparedSystem, opts: LineupOptions): LineupResult {
   const P = sys.blockPorts.length;
   const power = (w: Float64Array, k: number, p: number) => w[2 * (k * P + p)] ** 2 + w[2 * (k * P + p) + 1] ** 2;
 
-  const noise = systemNoise(sys, { outputs: [j], replace: opts.replace });
-  warnings.push(...noise.warnings.filter((w) => !sys.warnings.includes(w)));
-  const nfTo = noiseFigure(noise, i, j);
-  const s = noise.s.data;
+  const withNoise = opts.noise !== false;
+  const noise = withNoise ? systemNoise(sys, { outputs: [j], replace: opts.replace }) : null;
+  if (noise) warnings.push(...noise.warnings.filter((w) => !sys.warnings.includes(w)));
+  const nfTo = noise ? noiseFigure(noise, i, j) : new Float64Array(nf).fill(NaN);
+  const s = sol.s.data;
   const gainDb = Array.from({ length: nf }, (_, k) => db10(s[2 * ((k * E + j) * E + i)] ** 2 + s[2 * ((k * E + j) * E + i) + 1] ** 2));
 
   const stages: LineupStage[] = [];
@@ -131,7 +134,7 @@ export function lineup(sys: PreparedSystem, opts: LineupOptions): LineupResult {
     const pin = off + st.inPort - 1;
     const pout = off + st.outPort - 1;
     const last = x === path.length - 1 && pout === sys.systemPorts[j].at;
-    const cumNf = last ? nfTo : cutNoiseFigure(sys, i, pout, opts.replace);
+    const cumNf = last || !withNoise ? nfTo : cutNoiseFigure(sys, i, pout, opts.replace);
     const p1 = typeof spec?.p1db_out_dbm === "number" ? spec.p1db_out_dbm : null;
     const ip3 = typeof spec?.oip3_dbm === "number" ? spec.oip3_dbm : null;
     const stage: LineupStage = {

@@ -78,7 +78,7 @@ export const SystemPortSchema = z.object({
 const band = z.tuple([positiveHz, positiveHz]);
 
 /**
- * The four rule kinds of a scenario file, each its own object so that the web app's rule forms and
+ * The rule kinds of a scenario file, each its own object so that the web app's rule forms and
  * check inputs extend them instead of restating them. `RuleSpec` in engine/types.ts
  * is inferred from `RuleSchema`.
  */
@@ -118,7 +118,47 @@ export const DriveRuleSchema = z.object({
   coherent: z.boolean().optional(),
 });
 
-export const RuleSchema = z.discriminatedUnion("kind", [IsolationRuleSchema, MatchRuleSchema, InsertionLossRuleSchema, DriveRuleSchema]);
+/** Noise figure from one system port to another (docs/scenario-format.md#noise) at most max_db over the band. */
+export const NoiseFigureRuleSchema = z.object({
+  kind: z.literal("noise_figure"),
+  id: z.string().optional(),
+  from: z.string().min(1),
+  to: z.string().min(1),
+  band,
+  max_db: finite,
+});
+
+/** Transducer gain 20·log10|S_to,from| within [min_db, max_db] over the band (at least one limit). */
+export const GainRuleSchema = z.object({
+  kind: z.literal("gain"),
+  id: z.string().optional(),
+  from: z.string().min(1),
+  to: z.string().min(1),
+  band,
+  min_db: finite.optional(),
+  max_db: finite.optional(),
+});
+
+/** Line-up headroom to every stated P1dB along the path from→to for input_dbm at `from`, at least min_db. */
+export const HeadroomRuleSchema = z.object({
+  kind: z.literal("headroom"),
+  id: z.string().optional(),
+  from: z.string().min(1),
+  to: z.string().min(1),
+  input_dbm: finite,
+  min_db: finite,
+  band: band.optional(),
+});
+
+export const RuleSchema = z.discriminatedUnion("kind", [
+  IsolationRuleSchema,
+  MatchRuleSchema,
+  InsertionLossRuleSchema,
+  DriveRuleSchema,
+  NoiseFigureRuleSchema,
+  GainRuleSchema,
+  HeadroomRuleSchema,
+]);
 
 export const ScenarioSchema = z.object({
   format: z.literal("portolan.scenario/1"),

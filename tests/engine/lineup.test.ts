@@ -1,7 +1,7 @@
 // Line-up along a path (engine/lineup): cascade gain, noise figure, compression and intercept points on
 // matched stages against hand values (common practice), and the actual waves on a mismatched chain.
 import { describe, expect, it } from "vitest";
-import { driveCheck, lineup, prepareSystem, solveSystem, type Scenario } from "@/engine";
+import { driveCheck, evaluateRules, lineup, noiseFigure, prepareSystem, runAllChecks, solveSystem, stateSweep, systemNoise, type Scenario } from "@/engine";
 
 const lin = (d: number): number => 10 ** (d / 10);
 
@@ -100,5 +100,65 @@ describe("line-up", () => {
     expect(hot.compression.find((c) => c.block === "A2")!.marginDb).toBeCloseTo(24 - 32, 9);
     expect(hot.compression.find((c) => c.block === "A1")!.marginDb).toBeCloseTo(18 - 15, 9);
     expect(hot.messages.filter((m) => m.includes("past its P1dB"))).toEqual([expect.stringMatching(/^A2:2 puts out 32\.00 dBm .* past its P1dB \(24 dBm\) by 8\.00 dB/)]);
+  });
+
+  it("rules: noise_figure, gain (min and max) and headroom on the chain, and in run-all", () => {
+    const sc = chain({
+      rules: [
+        { kind: "noise_figure", id: "nf", from: "IN", to: "OUT", band: [1e9, 2e9], max_db: 2.5 },
+        { kind: "gain", id: "g-lo", from: "IN", to: "OUT", band: [1e9, 2e9], min_db: 30 },
+        { kind: "gain", id: "g-hi", from: "IN", to: "OUT", band: [1e9, 2e9], min_db: 25, max_db: 31 },
+        { kind: "headroom", id: "hr", from: "IN", to: "OUT", input_dbm: -20, min_db: 10 },
+      ],
+    });
+    const sys = prepareSystem(sc);
+    const sol = solveSystem(sys);
+    const [nf, gLo, gHi, hr] = evaluateRules(sol);
+    const F = 10 * Math.log10(lin(1.5) + (lin(3) - 1) / lin(15) + (lin(6) - 1) / lin(12));
+    expect(nf.worst).toBeCloseTo(F, 9);
+    expect(nf.margin).toBeCloseTo(2.5 - F, 9);
+    expect(nf.verdict).toBe("pass");
+    expect([gLo.verdict, gLo.margin]).toEqual(["pass", expect.closeTo(2, 9)]);
+    expect([gHi.verdict, gHi.limit, gHi.margin]).toEqual(["fail", 31, expect.closeTo(-1, 9)]);
+    // −20 dBm in: A1 puts out −5 dBm (18 dBm P1dB: 23 dB), A2 12 dBm (24 dBm: 12 dB)
+    expect([hr.verdict, hr.direction, hr.worst, hr.margin]).toEqual(["pass", "A2", expect.closeTo(12, 9), expect.closeTo(2, 9)]);
+    const all = runAllChecks(sc, sys, sol);
+    expect(all.checks.filter((c) => c.name.startsWith("rule:")).map((c) => [c.name, c.verdict])).toEqual([
+      ["rule:nf", "pass"],
+      ["rule:g-lo", "pass"],
+      ["rule:g-hi", "fail"],
+      ["rule:hr", "pass"],
+    ]);
+  });
+
+  it("state sweep: a noise-figure rule follows each switch combination (against preparing each state from the scenario)", () => {
+    const sw = (id: string) => ({ id, kind: "switch" as const, params: { throws: 2, insertion_loss_db: 0.5, isolation_db: 40 } });
+    const sc: Scenario = {
+      format: "portolan.scenario/1",
+      name: "sweep",
+      z0: 50,
+      frequency: { list: [1e9, 2e9] },
+      blocks: [sw("SW1"), { id: "PAD", kind: "attenuator", params: { loss_db: 6 } }, sw("SW2"), { id: "LNA", kind: "amplifier", params: { gain_db: 20, reverse_isolation_db: 30, noise_figure_db: 1 } }],
+      links: [
+        ["SW1:2", "SW2:2"],
+        ["SW1:3", "PAD:1"],
+        ["PAD:2", "SW2:3"],
+        ["SW2:1", "LNA:1"],
+      ],
+      ports: [
+        { name: "IN", at: "SW1:1" },
+        { name: "OUT", at: "LNA:2" },
+      ],
+      rules: [{ kind: "noise_figure", id: "nf", from: "IN", to: "OUT", band: [1e9, 2e9], max_db: 3 }],
+    };
+    const sweep = stateSweep(prepareSystem(sc));
+    expect(sweep.rows.map((r) => r.verdict)).toEqual(["pass", "fail", "fail", "fail"]);
+    for (const row of sweep.rows) {
+      const fixed = { ...sc, blocks: sc.blocks.map((b) => (b.id === "SW1" ? { ...b, state: row.states[0] } : b.id === "SW2" ? { ...b, state: row.states[1] } : b)) };
+      const f = noiseFigure(systemNoise(prepareSystem(fixed)), 0, 1).map((x) => 10 * Math.log10(x));
+      expect(row.cells[0].worst).toBeCloseTo(Math.max(...f), 9);
+    }
+    // matched absorptive switches at 290 K: 0.5 dB + 0.5 dB of loss before a 1 dB amplifier (F = L1·L2·F)
+    expect(sweep.rows[0].cells[0].worst).toBeCloseTo(2, 1);
   });
 });

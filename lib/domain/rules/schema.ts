@@ -9,6 +9,9 @@ export const RULE_KIND_LABELS: Record<RuleSpec["kind"], string> = {
   match: "Match",
   insertion_loss: "Insertion loss",
   drive: "Drive",
+  noise_figure: "Noise figure",
+  gain: "Gain",
+  headroom: "Headroom",
 };
 
 const hz = z.number({ error: "Enter a frequency." }).finite().positive({ error: "A frequency must be above 0 Hz." });
