@@ -10,6 +10,7 @@ import { resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 import { checkCommand } from "./bundle/cli-bundle";
 import { CliUsageError, EXIT_BAD_INPUT, EXIT_INTERNAL, type CliCommand, type CliIO } from "./cli-support";
+import { lineupCommand } from "./lineup/cli-lineup";
 import { solveCommand } from "./system/cli-solve";
 import { EngineInputError } from "./types";
 
@@ -20,6 +21,7 @@ export const COMMANDS: Readonly<Record<string, CliCommand>> = {
   solve: solveCommand,
   // scenarios and review bundles (.zip)
   check: checkCommand,
+  lineup: lineupCommand,
 };
 
 function realPath(path: string): string {
