@@ -39,28 +39,60 @@ export type BlockNoise = {
  * @example const { c } = blockNoise(sys, sys.blocks.map((b) => b.s));
  */
 export function blockNoise(sys: PreparedSystem, blockS: SData[]): BlockNoise {
+  const terms = blockNoiseTerms(sys, blockS);
+  const nf = sys.frequencies.length;
+  const c = terms.blocks.map((t, i) => {
+    const s = blockS[i];
+    const n = s.n;
+    const out = t.explicit ? t.explicit.slice() : new Float64Array(2 * nf * n * n);
+    if (t.thermal > 0) addThermal(out, s.data, n, nf, t.thermal, t.thermalAt);
+    for (const col of t.columns) addColumnOuter(out, s.data, n, nf, col.port, col.power);
+    return { n, nf, data: out };
+  });
+  return { c, models: terms.models, temperatures: terms.temperatures, notes: terms.notes };
+}
+
+/**
+ * A block's noise as the terms its correlation matrix is the sum of, so that the system's noise can be
+ * formed from t·S products without building every block's matrix:
+ * C = thermal·(I − S·Sᴴ) (at the frequencies of `thermalAt`, all when null) + Σ power·S·e_port·e_portᴴ·Sᴴ
+ * over `columns` + `explicit` (W/Hz).
+ */
+export type BlockNoiseTerms = {
+  thermal: number;
+  thermalAt: Uint8Array | null;
+  columns: { port: number; power: number }[];
+  explicit: Float64Array | null;
+};
+
+/**
+ * The terms of every block's noise-wave correlation matrix (see blockNoise for the models).
+ *
+ * @example blockNoiseTerms(sys, sys.blocks.map((b) => b.s)).blocks[0].thermal // kT of the first block
+ */
+export function blockNoiseTerms(sys: PreparedSystem, blockS: SData[]): { blocks: BlockNoiseTerms[]; models: BlockNoiseModel[]; temperatures: number[]; notes: string[] } {
   const scenarioT = sys.scenario.temperature_k ?? DEFAULT_TEMPERATURE_K;
   const nf = sys.frequencies.length;
   const unterminated = new Set(sys.unterminated);
   const notes: string[] = [];
   const models: BlockNoiseModel[] = [];
   const temperatures: number[] = [];
-  const c = sys.blocks.map((blk, i) => {
+  const blocks = sys.blocks.map((blk, i): BlockNoiseTerms => {
     // blocks are in scenario order; a system built without a scenario's blocks has none of their fields
     const spec: Partial<BlockSpec> = sys.scenario.blocks[i]?.id === blk.id ? sys.scenario.blocks[i] : {};
     const s = blockS[i];
     const n = s.n;
     const d = s.data;
-    const out = new Float64Array(2 * nf * n * n);
     const T = spec.temperature_k ?? scenarioT;
     temperatures.push(T);
     const params = (spec.params ?? {}) as Record<string, unknown>;
+    const t: BlockNoiseTerms = { thermal: 0, thermalAt: null, columns: [], explicit: null };
     let model: BlockNoiseModel;
     if (blk.kind === "amplifier") {
       const nfDb = params.noise_figure_db;
       if (typeof nfDb === "number") {
         model = "amplifier";
-        addColumnOuter(out, d, n, nf, 0, BOLTZMANN * T0 * (10 ** (nfDb / 10) - 1));
+        t.columns.push({ port: 0, power: BOLTZMANN * T0 * (10 ** (nfDb / 10) - 1) });
       } else {
         model = "noiseless";
         notes.push(`block ${blk.id}: amplifier without noise_figure_db, counted noiseless`);
@@ -68,14 +100,13 @@ export function blockNoise(sys: PreparedSystem, blockS: SData[]): BlockNoise {
     } else if (blk.kind === "antenna") {
       model = "antenna";
       const Ta = typeof params.noise_temperature_k === "number" ? params.noise_temperature_k : DEFAULT_TEMPERATURE_K;
-      addThermal(out, d, n, nf, BOLTZMANN * Ta, null);
+      t.thermal = BOLTZMANN * Ta;
     } else if (blk.kind === "touchstone") {
       if (blk.noiseChain && n === 2) {
         model = "noise-data";
-        for (let k = 0; k < nf; k++) {
-          const w = waveFromChain(blk.noiseChain.subarray(8 * k, 8 * k + 8), d.subarray(8 * k, 8 * k + 8), sys.z0);
-          out.set(w, 8 * k);
-        }
+        const out = new Float64Array(8 * nf);
+        for (let k = 0; k < nf; k++) out.set(waveFromChain(blk.noiseChain.subarray(8 * k, 8 * k + 8), d.subarray(8 * k, 8 * k + 8), sys.z0), 8 * k);
+        t.explicit = out;
       } else {
         model = "thermal";
         const passive = new Uint8Array(nf);
@@ -85,22 +116,23 @@ export function blockNoise(sys: PreparedSystem, blockS: SData[]): BlockNoise {
           if (!passive[k]) active++;
         }
         if (active > 0) notes.push(`block ${blk.id}: part data with gain and no noise section: noiseless at ${active} of ${nf} frequencies`);
-        addThermal(out, d, n, nf, BOLTZMANN * T, passive);
+        t.thermal = BOLTZMANN * T;
+        t.thermalAt = active > 0 ? passive : null;
       }
     } else if (blk.traits.passive) {
       model = "thermal";
-      addThermal(out, d, n, nf, BOLTZMANN * T, null);
+      t.thermal = BOLTZMANN * T;
     } else {
       model = "noiseless";
     }
     models.push(model);
-    // matched loads on the block's unlinked ports (Bosma already counts them for thermal blocks at T, but
-    // C = kT(I − SSᴴ) is the noise of the block alone, with the loads' noise entering from outside)
+    // matched loads on the block's unlinked ports: C = kT(I − SSᴴ) is the noise of the block alone, the
+    // loads' noise enters from outside
     const off = sys.blockOffset[i];
-    for (let r = 0; r < n; r++) if (unterminated.has(off + r)) addColumnOuter(out, d, n, nf, r, BOLTZMANN * T);
-    return { n, nf, data: out };
+    for (let r = 0; r < n; r++) if (unterminated.has(off + r)) t.columns.push({ port: r, power: BOLTZMANN * T });
+    return t;
   });
-  return { c, models, temperatures, notes };
+  return { blocks, models, temperatures, notes };
 }
 
 /** out += kT·(I − S·Sᴴ) at the frequencies where `only` is 1 (all when null). */

@@ -13,7 +13,7 @@
 
 import { internalWavesMany, solveSystem } from "../network";
 import { EngineInputError, type PreparedSystem, type SData } from "../types";
-import { blockNoise, type BlockNoise } from "./block-noise";
+import { blockNoiseTerms, type BlockNoiseModel } from "./block-noise";
 import { BOLTZMANN, T0 } from "./noise-parameters";
 
 export type NoiseOptions = {
@@ -29,13 +29,19 @@ export type SystemNoise = {
   ports: string[];
   /** composite S, each port referenced to its own Z0 */
   s: SData;
-  /** composite noise-wave correlation matrix, W/Hz, E×E per frequency; rows/columns outside `outputs` are 0 */
+  /**
+   * composite noise-wave correlation matrix, W/Hz, between the system ports of `outputs` (in that order;
+   * all system ports in their order by default), per frequency
+   */
   c: SData;
   /** the system ports whose rows and columns of `c` were computed */
   outputs: number[];
-  blocks: BlockNoise;
+  /** each block's noise model and temperature (K), and notes such as amplifiers counted noiseless */
+  blocks: { models: BlockNoiseModel[]; temperatures: number[]; notes: string[] };
   warnings: string[];
 };
+
+const workFor = new WeakMap<PreparedSystem, { key: string; nf: number; incidents: Float64Array[]; waves: { a: Float64Array; b: Float64Array }[] }>();
 
 // Transposed block S, kept per block data array (block data is not modified once handed to the engine).
 const transposed = new WeakMap<SData, { data: Float64Array; t: SData }>();
@@ -81,69 +87,118 @@ export function systemNoise(sys: PreparedSystem, opts: NoiseOptions = {}): Syste
   sys.blocks.forEach((b, i) => (replace[b.id] = transposeOf(blockS[i])));
   const solT = solveSystem(sys, { replace });
   const P = sys.blockPorts.length;
-  const incidents = outputs.map((j) => {
-    const x = new Float64Array(2 * nf * E);
-    for (let k = 0; k < nf; k++) x[2 * (k * E + j)] = 1;
-    return x;
-  });
-  const rows = internalWavesMany(solT, incidents).map((w) => w.a); // rows[o][k][p] = T[outputs[o], p]
-  const noise = blockNoise(sys, blockS);
-  const c = new Float64Array(2 * nf * E * E);
+  // the excitations and wave arrays are kept per system and reused: fresh megabyte arrays on every call
+  // cost more (page faults, collection) than the arithmetic on them
+  const key = outputs.join(",");
+  let work = workFor.get(sys);
+  if (!work || work.key !== key || work.nf !== nf) {
+    const incidents = outputs.map((j) => {
+      const x = new Float64Array(2 * nf * E);
+      for (let k = 0; k < nf; k++) x[2 * (k * E + j)] = 1;
+      return x;
+    });
+    work = { key, nf, incidents, waves: incidents.map(() => ({ a: new Float64Array(2 * nf * P), b: new Float64Array(2 * nf * P) })) };
+    workFor.set(sys, work);
+  }
+  const rows = internalWavesMany(solT, work.incidents, work.waves).map((w) => w.a); // rows[o][k][p] = T[outputs[o], p]
+  const noise = blockNoiseTerms(sys, blockS);
   const M = outputs.length;
-  const acc = new Float64Array(2 * M * M);
-  const tc = new Float64Array(2 * M * 64);
-  for (let k = 0; k < nf; k++) {
-    acc.fill(0);
-    sys.blocks.forEach((_, b) => {
-      const cb = noise.c[b];
-      const n = cb.n;
-      const off = sys.blockOffset[b];
-      const co = 2 * k * n * n;
+  const c = new Float64Array(2 * nf * M * M);
+  let nMax = 1;
+  for (const b of blockS) nMax = Math.max(nMax, b.n);
+  const u = new Float64Array(2 * M * nMax); // u[o] = t_o·S of the block at one frequency
+
+  // block by block, every frequency in a row: each block's S and rows of T are read in order
+  for (let b = 0; b < blockS.length; b++) {
+    const terms = noise.blocks[b];
+    const nCols = terms.columns.length;
+    if (terms.thermal === 0 && nCols === 0 && !terms.explicit) continue;
+    const colPort = Int32Array.from(terms.columns, (x) => x.port);
+    const colPower = Float64Array.from(terms.columns, (x) => x.power);
+    const sd = blockS[b].data;
+    const n = blockS[b].n;
+    const off = sys.blockOffset[b];
+    const needU = terms.thermal > 0 || nCols > 0;
+    for (let k = 0; k < nf; k++) {
+      const thermal = terms.thermal > 0 && (!terms.thermalAt || terms.thermalAt[k] === 1) ? terms.thermal : 0;
+      const so = 2 * k * n * n;
       const rowBase = 2 * (k * P + off);
-      const work = n <= 64 ? tc : new Float64Array(2 * M * n);
-      // work[o][q] = Σ_p T[o][p]·C[p][q]
+      if (needU) {
+        for (let o = 0; o < M; o++) {
+          const t = rows[o];
+          for (let col = 0; col < n; col++) {
+            let re = 0;
+            let im = 0;
+            for (let p = 0; p < n; p++) {
+              const tr = t[rowBase + 2 * p];
+              const ti = t[rowBase + 2 * p + 1];
+              const sr = sd[so + 2 * (p * n + col)];
+              const si = sd[so + 2 * (p * n + col) + 1];
+              re += tr * sr - ti * si;
+              im += tr * si + ti * sr;
+            }
+            u[2 * (o * n + col)] = re;
+            u[2 * (o * n + col) + 1] = im;
+          }
+        }
+      }
+      const cBase = 2 * k * M * M;
       for (let o = 0; o < M; o++) {
         const t = rows[o];
-        for (let q = 0; q < n; q++) {
-          let re = 0;
-          let im = 0;
-          for (let p = 0; p < n; p++) {
-            const tr = t[rowBase + 2 * p];
-            const ti = t[rowBase + 2 * p + 1];
-            if (tr === 0 && ti === 0) continue;
-            const cr = cb.data[co + 2 * (p * n + q)];
-            const ci = cb.data[co + 2 * (p * n + q) + 1];
-            re += tr * cr - ti * ci;
-            im += tr * ci + ti * cr;
-          }
-          work[2 * (o * n + q)] = re;
-          work[2 * (o * n + q) + 1] = im;
-        }
-      }
-      // acc[o][o2] += Σ_q work[o][q]·conj(T[o2][q])
-      for (let o = 0; o < M; o++) {
         for (let o2 = 0; o2 < M; o2++) {
-          const t = rows[o2];
+          const t2 = rows[o2];
           let re = 0;
           let im = 0;
-          for (let q = 0; q < n; q++) {
-            const wr = work[2 * (o * n + q)];
-            const wi = work[2 * (o * n + q) + 1];
-            const tr = t[rowBase + 2 * q];
-            const ti = -t[rowBase + 2 * q + 1];
-            re += wr * tr - wi * ti;
-            im += wr * ti + wi * tr;
+          if (thermal !== 0) {
+            // kT·(t·t2ᴴ − u·u2ᴴ)
+            let xr = 0;
+            let xi = 0;
+            for (let p = 0; p < n; p++) {
+              const ar = t[rowBase + 2 * p];
+              const ai = t[rowBase + 2 * p + 1];
+              const br = t2[rowBase + 2 * p];
+              const bi = t2[rowBase + 2 * p + 1];
+              const cr = u[2 * (o * n + p)];
+              const ci = u[2 * (o * n + p) + 1];
+              const dr = u[2 * (o2 * n + p)];
+              const di = u[2 * (o2 * n + p) + 1];
+              xr += ar * br + ai * bi - (cr * dr + ci * di);
+              xi += ai * br - ar * bi - (ci * dr - cr * di);
+            }
+            re += thermal * xr;
+            im += thermal * xi;
           }
-          acc[2 * (o * M + o2)] += re;
-          acc[2 * (o * M + o2) + 1] += im;
+          for (let x = 0; x < nCols; x++) {
+            const q = colPort[x];
+            const cr = u[2 * (o * n + q)];
+            const ci = u[2 * (o * n + q) + 1];
+            const dr = u[2 * (o2 * n + q)];
+            const di = u[2 * (o2 * n + q) + 1];
+            re += colPower[x] * (cr * dr + ci * di);
+            im += colPower[x] * (ci * dr - cr * di);
+          }
+          if (terms.explicit) {
+            const cd = terms.explicit;
+            for (let p = 0; p < n; p++) {
+              const ar = t[rowBase + 2 * p];
+              const ai = t[rowBase + 2 * p + 1];
+              for (let q = 0; q < n; q++) {
+                const cr = cd[so + 2 * (p * n + q)];
+                const ci = cd[so + 2 * (p * n + q) + 1];
+                const br = t2[rowBase + 2 * q];
+                const bi = -t2[rowBase + 2 * q + 1];
+                // t_p·C_pq·conj(t2_q)
+                const xr = ar * cr - ai * ci;
+                const xi = ar * ci + ai * cr;
+                re += xr * br - xi * bi;
+                im += xr * bi + xi * br;
+              }
+            }
+          }
+          const d = cBase + 2 * (o * M + o2);
+          c[d] += re;
+          c[d + 1] += im;
         }
-      }
-    });
-    for (let o = 0; o < M; o++) {
-      for (let o2 = 0; o2 < M; o2++) {
-        const dst = 2 * ((k * E + outputs[o]) * E + outputs[o2]);
-        c[dst] = acc[2 * (o * M + o2)];
-        c[dst + 1] = acc[2 * (o * M + o2) + 1];
       }
     }
   }
@@ -162,9 +217,9 @@ export function systemNoise(sys: PreparedSystem, opts: NoiseOptions = {}): Syste
     frequencies: sys.frequencies,
     ports: sys.systemPorts.map((p) => p.name),
     s: { n: E, nf, data: s },
-    c: { n: E, nf, data: c },
+    c: { n: M, nf, data: c },
     outputs,
-    blocks: noise,
+    blocks: { models: noise.models, temperatures: noise.temperatures, notes: noise.notes },
     warnings: [...solT.warnings, ...noise.notes],
   };
 }
@@ -179,7 +234,9 @@ export function systemNoise(sys: PreparedSystem, opts: NoiseOptions = {}): Syste
  * @example 10 * Math.log10(noiseFigure(noise, 0, 1)[k]) // NF in dB
  */
 export function noiseFigure(noise: SystemNoise, i: number, j: number): Float64Array {
-  if (!noise.outputs.includes(j)) throw new EngineInputError("to", `system port ${noise.ports[j] ?? j} was not among the noise outputs`);
+  const o = noise.outputs.indexOf(j);
+  if (o < 0) throw new EngineInputError("to", `system port ${noise.ports[j] ?? j} was not among the noise outputs`);
+  const M = noise.c.n;
   const E = noise.s.n;
   if (!(i >= 0 && i < E) || i === j) throw new EngineInputError("from", `expected a system port other than the output`);
   const nf = noise.frequencies.length;
@@ -187,7 +244,7 @@ export function noiseFigure(noise: SystemNoise, i: number, j: number): Float64Ar
   const f = new Float64Array(nf);
   const s = noise.s.data;
   for (let k = 0; k < nf; k++) {
-    let total = noise.c.data[2 * ((k * E + j) * E + j)];
+    let total = noise.c.data[2 * ((k * M + o) * M + o)];
     let fromSource = 0;
     for (let m = 0; m < E; m++) {
       if (m === j) continue;

@@ -1,6 +1,6 @@
 /** Noise of blocks and of the assembled system: noise-wave correlation matrices, noise figures, noise parameters. */
 export { systemNoise, noiseFigure, type SystemNoise, type NoiseOptions } from "./composite-noise";
-export { blockNoise, DEFAULT_TEMPERATURE_K, type BlockNoise, type BlockNoiseModel } from "./block-noise";
+export { blockNoise, blockNoiseTerms, DEFAULT_TEMPERATURE_K, type BlockNoise, type BlockNoiseModel, type BlockNoiseTerms } from "./block-noise";
 export {
   BOLTZMANN,
   T0,
