@@ -6,7 +6,9 @@ import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import type { CheckRunView as Run } from "@/lib/domain/checks/types";
 import { DriveView } from "./drive-view";
 import { LeakTraceView } from "./leak-trace-view";
+import type { LineupResult } from "@/engine/lineup";
 import { LedgerChart } from "./ledger-chart";
+import { LineupView } from "./lineup-view";
 import { RuleResultsTable } from "./rule-results-table";
 import { SortableTable } from "./sortable-table";
 import { StabilityView } from "./stability-view";
@@ -41,6 +43,7 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: C
       {run.check === "state_sweep" ? <SweepTable result={result as StateSweepResult} /> : null}
       {run.check === "stability" ? <StabilityView results={result as StabilityResult[]} /> : null}
       {run.check === "all_rules" ? <AllRulesView result={result as AllChecksResult} /> : null}
+      {run.check === "lineup" ? <LineupView result={result as LineupResult} /> : null}
       {run.figures.skipped && run.figures.skipped.length > 0 ? (
         <div className="text-sm">
           <h4 className="font-semibold">Rules not run on this scenario</h4>
