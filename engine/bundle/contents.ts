@@ -4,6 +4,7 @@
  * and the CLI.
  */
 import { leakTrace, runAllChecks, type AllChecksResult, type LeakTraceResult } from "../checks";
+import { lineup, type LineupResult } from "../lineup";
 import { parseScenario } from "../scenario";
 import { solveScenario } from "../system";
 import { writeCompositeTouchstone } from "../touchstone";
@@ -21,6 +22,8 @@ export type ChecksDocument = {
   results: AllChecksResult;
   /** leak trace of each isolation rule at the worst frequency of its band (null when it cannot be traced) */
   leaks: { rule: string; from: string; to: string; trace: LeakTraceResult | null; error?: string }[];
+  /** line-up of each noise_figure, gain and headroom rule's path (headroom: at its input level); present when there are such rules */
+  lineups?: { rule: string; from: string; to: string; lineup: LineupResult | null; error?: string }[];
 };
 
 /** Everything computed from a scenario for a bundle. */
@@ -99,7 +102,20 @@ export function computeBundleResults(content: unknown, parts: Record<string, str
       leaks.push({ rule: name, from: rule.from, to: rule.to, trace: null, error: err.message });
     }
   }
-  return { scenario, solution, checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, results, leaks } };
+  const lineups: NonNullable<ChecksDocument["lineups"]> = [];
+  for (const [i, rule] of (scenario.rules ?? []).entries()) {
+    if (rule.kind !== "noise_figure" && rule.kind !== "gain" && rule.kind !== "headroom") continue;
+    const name = rule.id ?? `rules[${i}]`;
+    try {
+      const inputDbm = rule.kind === "headroom" ? rule.input_dbm : undefined;
+      lineups.push({ rule: name, from: rule.from, to: rule.to, lineup: lineup(solution.system, { from: rule.from, to: rule.to, inputDbm }) });
+    } catch (err) {
+      if (!(err instanceof EngineInputError)) throw err;
+      lineups.push({ rule: name, from: rule.from, to: rule.to, lineup: null, error: err.message });
+    }
+  }
+  const checks: ChecksDocument = { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, results, leaks, ...(lineups.length > 0 ? { lineups } : {}) };
+  return { scenario, solution, checks };
 }
 
 /**

@@ -1,6 +1,8 @@
 // Line-up along a path (engine/lineup): cascade gain, noise figure, compression and intercept points on
 // matched stages against hand values (common practice), and the actual waves on a mismatched chain.
 import { describe, expect, it } from "vitest";
+import { computeBundleResults } from "@/engine/bundle";
+import { renderReportHtml } from "@/lib/server/bundle/report-html";
 import { driveCheck, evaluateRules, lineup, noiseFigure, prepareSystem, runAllChecks, solveSystem, stateSweep, systemNoise, type Scenario } from "@/engine";
 
 const lin = (d: number): number => 10 ** (d / 10);
@@ -160,5 +162,42 @@ describe("line-up", () => {
     }
     // matched absorptive switches at 290 K: 0.5 dB + 0.5 dB of loss before a 1 dB amplifier (F = L1·L2·F)
     expect(sweep.rows[0].cells[0].worst).toBeCloseTo(2, 1);
+  });
+
+  it("bundles carry the line-up of every noise, gain and headroom rule, and report.html shows it", () => {
+    const sc = chain({
+      rules: [
+        { kind: "isolation", id: "iso", from: "IN", to: "OUT", band: [1e9, 2e9], min_db: -100 },
+        { kind: "noise_figure", id: "nf", from: "IN", to: "OUT", band: [1e9, 2e9], max_db: 2.5 },
+        { kind: "headroom", id: "hr", from: "IN", to: "OUT", input_dbm: -20, min_db: 10 },
+      ],
+    });
+    const results = computeBundleResults(sc, {});
+    const lineups = results.checks.lineups!;
+    expect(lineups.map((l) => [l.rule, l.lineup?.inputDbm])).toEqual([
+      ["nf", null],
+      ["hr", -20],
+    ]);
+    const direct = lineup(prepareSystem(sc), { from: "IN", to: "OUT", inputDbm: -20 });
+    expect(lineups[1].lineup!.nfDb).toEqual(direct.nfDb);
+    expect(lineups[1].lineup!.stages[2].headroomDb).toEqual(direct.stages[2].headroomDb);
+    const html = renderReportHtml({
+      identity: {
+        app: { name: "portolan", version: "test" },
+        project: { id: "p", name: "P" },
+        scenario: { id: "s", name: sc.name },
+        revision: { id: "r", number: 1, content_hash: "0".repeat(64) },
+        created_at: "2026-12-04T00:00:00Z",
+        created_by: null,
+      } as unknown as Parameters<typeof renderReportHtml>[0]["identity"],
+      results,
+      files: [],
+    });
+    expect(html).toContain("<h2>Line-ups of the noise, gain and headroom rules</h2>");
+    expect(html).toContain("<h3>hr: IN → OUT</h3>");
+    expect(html).toMatch(/Path: <span class="mono">A1 1→2 → PAD 1→2 → A2 1→2<\/span>; figures at 1\.5 GHz for −?-?20\.00 dBm in/);
+    // no such rules: no section, and checks.json keeps its earlier shape
+    const plain = computeBundleResults(chain(), {});
+    expect("lineups" in plain.checks).toBe(false);
   });
 });
