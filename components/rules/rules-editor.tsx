@@ -156,13 +156,30 @@ function RuleFormPanel({
       setServerError(res.message);
       for (const [path, message] of Object.entries(res.fields ?? {})) {
         const key = path.replace(/^spec\./, "").split(".")[0];
-        const field = (["min_db", "max_db", "min_return_loss_db", "max_vswr"].includes(key) ? "limit" : key) as keyof RuleFormValues;
+        const field = (
+          key === "input_dbm" ? "inputDbm" : key === "max_db" && values.kind === "gain" ? "limitMax" : ["min_db", "max_db", "min_return_loss_db", "max_vswr"].includes(key) ? "limit" : key
+        ) as keyof RuleFormValues;
         if (field in initial) setError(field, { message });
       }
     }
   });
 
-  const limitLabel = kind === "isolation" ? "Least isolation (dB)" : kind === "insertion_loss" ? "Largest insertion loss (dB)" : matchBy === "vswr" ? "Largest VSWR" : "Least return loss (dB)";
+  const limitLabel =
+    kind === "isolation"
+      ? "Least isolation (dB)"
+      : kind === "insertion_loss"
+        ? "Largest insertion loss (dB)"
+        : kind === "noise_figure"
+          ? "Largest noise figure (dB)"
+          : kind === "gain"
+            ? "Least gain (dB)"
+            : kind === "headroom"
+              ? "Least headroom to P1dB (dB)"
+              : matchBy === "vswr"
+                ? "Largest VSWR"
+                : "Least return loss (dB)";
+  const twoPorts = kind === "isolation" || kind === "insertion_loss" || kind === "noise_figure" || kind === "gain" || kind === "headroom";
+  const bandOptional = kind === "drive" || kind === "headroom";
 
   return (
     <form onSubmit={submit} noValidate aria-label={title} className="flex max-w-3xl flex-col gap-3 rounded-card border border-rule bg-surface p-4">
@@ -181,7 +198,7 @@ function RuleFormPanel({
             ))}
           </Select>
         </Field>
-        {kind === "isolation" || kind === "insertion_loss" ? (
+        {twoPorts ? (
           <>
             <Field label="From port" error={err("from")} required>
               <Input {...register("from")} />
@@ -204,11 +221,11 @@ function RuleFormPanel({
             </Field>
           </>
         ) : null}
-        <Field label="Band" error={err("band")} hint={kind === "drive" ? "Optional; e.g. 2.4 GHz to 2.48 GHz" : "e.g. 2.4 GHz to 2.48 GHz"} required={kind !== "drive"}>
+        <Field label="Band" error={err("band")} hint={bandOptional ? "Optional; e.g. 2.4 GHz to 2.48 GHz" : "e.g. 2.4 GHz to 2.48 GHz"} required={!bandOptional}>
           <Input {...register("band")} placeholder="2.4 GHz to 2.48 GHz" />
         </Field>
         {kind !== "drive" ? (
-          <Field label={limitLabel} error={err("limit")} required>
+          <Field label={limitLabel} error={err("limit")} hint={kind === "gain" ? "Optional when a largest gain is given" : undefined} required={kind !== "gain"}>
             <Input {...register("limit")} inputMode="decimal" />
           </Field>
         ) : (
@@ -216,6 +233,16 @@ function RuleFormPanel({
             <Input {...register("sources")} />
           </Field>
         )}
+        {kind === "gain" ? (
+          <Field label="Largest gain (dB)" error={err("limitMax")} hint="Optional when a least gain is given">
+            <Input {...register("limitMax")} inputMode="decimal" />
+          </Field>
+        ) : null}
+        {kind === "headroom" ? (
+          <Field label="Input level (dBm)" error={err("inputDbm")} hint="The level entering at the from port" required>
+            <Input {...register("inputDbm")} inputMode="decimal" />
+          </Field>
+        ) : null}
         {kind === "isolation" ? (
           <label className="flex items-center gap-2 text-sm">
             <input type="checkbox" {...register("oneWay")} /> One way only (from → to)

@@ -4,6 +4,9 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { call, countRows, makeRequest, setUpDatabase, type ErrorJson } from "./helpers";
 import * as runsRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/route";
+import * as rulesRoute from "@/app/api/projects/[projectId]/rules/route";
+import { rules as rulesTable } from "@/db/schema";
+import type { AllChecksResult } from "@/engine/checks";
 import { db } from "@/db/client";
 import { checkRuns, scenarios, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
@@ -14,6 +17,7 @@ import type { LineupResult } from "@/engine/lineup";
 let projectId: string;
 let baseline: string;
 let cookie = "";
+let engineerCookie = "";
 
 beforeAll(async () => {
   await setUpDatabase();
@@ -22,6 +26,9 @@ beforeAll(async () => {
   const reviewer = DEMO_USERS.find((u) => u.role === "reviewer")!;
   const [row] = await db.select({ id: users.id }).from(users).where(eq(users.email, reviewer.email));
   cookie = `portolan_session=${(await createSessionForUser(row.id)).token}`;
+  const engineer = DEMO_USERS.find((u) => u.role === "engineer")!;
+  const [eng] = await db.select({ id: users.id }).from(users).where(eq(users.email, engineer.email));
+  engineerCookie = `portolan_session=${(await createSessionForUser(eng.id)).token}`;
   for (const s of await db.select().from(scenarios).where(eq(scenarios.projectId, projectId))) if (s.name === "Baseline") baseline = s.id;
 });
 
@@ -67,5 +74,38 @@ describe("line-up check runs", () => {
     expect(broken.status).toBe(422);
     expect(((await broken.json()) as ErrorJson).error.message).toMatch(/no link from DRV to CPL/);
     expect(await countRows(checkRuns)).toBe(before);
+  });
+
+  it("project rules of the new kinds (noise_figure, gain, headroom) are validated, stored and join all rules", async () => {
+    const addRule = (spec: unknown) => call(rulesRoute.POST, makeRequest("POST", `/api/projects/${projectId}/rules`, { cookie: engineerCookie, body: { spec } }), { projectId });
+    const before = await countRows(rulesTable);
+    // no limit, least above largest, no input level: 400 naming the field, nothing written
+    for (const [spec, field] of [
+      [{ kind: "gain", id: "g0", from: "TX", to: "MON", band: [2.4e9, 2.48e9] }, "min_db"],
+      [{ kind: "gain", id: "g1", from: "TX", to: "MON", band: [2.4e9, 2.48e9], min_db: -20, max_db: -30 }, "max_db"],
+      [{ kind: "headroom", id: "h0", from: "TX", to: "MON", min_db: 3 }, "input_dbm"],
+    ] as const) {
+      const res = await addRule(spec);
+      expect(res.status, JSON.stringify(spec)).toBe(400);
+      expect(JSON.stringify(((await res.json()) as ErrorJson).error.fields)).toContain(field);
+    }
+    expect(await countRows(rulesTable)).toBe(before);
+    for (const spec of [
+      { kind: "noise_figure", id: "nf-tx-mon", from: "TX", to: "MON", band: [2.4e9, 2.48e9], max_db: 40 },
+      { kind: "gain", id: "gain-tx-mon", from: "TX", to: "MON", band: [2.4e9, 2.48e9], min_db: -60, max_db: -10 },
+      { kind: "headroom", id: "hr-tx-mon", from: "TX", to: "MON", input_dbm: 10, min_db: 0 },
+    ]) {
+      const res = await addRule(spec);
+      expect(res.status, JSON.stringify(spec)).toBe(201);
+    }
+    const res = await post({ check: "all_rules", inputs: {} });
+    expect(res.status).toBe(201);
+    const all = ((await res.json()) as { run: CheckRunView }).run.figures.result as AllChecksResult;
+    const byId = new Map(all.rules.map((r) => [r.id, r]));
+    expect(byId.get("nf-tx-mon")?.verdict).toBe("pass");
+    expect(byId.get("nf-tx-mon")?.quantity).toBe("noise figure");
+    expect(byId.get("gain-tx-mon")?.verdict).toBe("pass");
+    // no block on TX→MON states a P1dB: nothing to check, said so
+    expect(byId.get("hr-tx-mon")?.messages.some((m) => m.includes("no block on the path carries p1db_out_dbm"))).toBe(true);
   });
 });
