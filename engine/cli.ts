@@ -11,6 +11,7 @@ import { pathToFileURL } from "node:url";
 import { checkCommand } from "./bundle/cli-bundle";
 import { CliUsageError, EXIT_BAD_INPUT, EXIT_INTERNAL, type CliCommand, type CliIO } from "./cli-support";
 import { spreadCommand } from "./spread/cli-spread";
+import { lineupCommand } from "./lineup/cli-lineup";
 import { solveCommand } from "./system/cli-solve";
 import { EngineInputError } from "./types";
 
@@ -22,6 +23,7 @@ export const COMMANDS: Readonly<Record<string, CliCommand>> = {
   // scenarios and review bundles (.zip)
   check: checkCommand,
   spread: spreadCommand,
+  lineup: lineupCommand,
 };
 
 function realPath(path: string): string {

@@ -18,6 +18,8 @@ export * from "./blocks";
 export * from "./network";
 export * from "./scenario";
 export * from "./system";
+export * from "./noise";
+export * from "./lineup";
 export * from "./checks";
 export * from "./spread";
 // the interpolation and the checks both export a hertz formatter; the checks' one is the public one

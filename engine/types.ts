@@ -73,6 +73,12 @@ export type BlockSpec = {
    * kinds may only repeat what their model is (true for the amplifier, false for the others).
    */
   active?: boolean;
+  /** physical temperature for the block's thermal noise, K (default: the scenario's `temperature_k`) */
+  temperature_k?: number;
+  /** output power at 1 dB gain compression, dBm (line-up, drive check) */
+  p1db_out_dbm?: number;
+  /** output third-order intercept point, dBm (line-up) */
+  oip3_dbm?: number;
   /** chart position; ignored by the engine */
   position?: { x: number; y: number };
   /** free text label; ignored by the engine */
@@ -116,6 +122,8 @@ export type Scenario = {
   rule_overrides?: RuleOverride[];
   /** project rules this scenario does not answer to, each with a reason */
   rule_opt_outs?: RuleOptOut[];
+  /** physical temperature of the passive blocks for their thermal noise, K (default 290) */
+  temperature_k?: number;
   /** allow hold-last extrapolation of part data outside its range (reported as a warning) */
   extrapolate?: "error" | "hold";
   /** project variables usable in parameter expressions (the web app resolves them before the engine) */
@@ -150,6 +158,11 @@ export type EvaluatedBlock = {
   rating_dbm?: number;
   /** set when the block is active (it may add energy), with the reason; absent for passive blocks */
   active?: BlockActivity;
+  /**
+   * touchstone parts with a noise section: its chain correlation matrix on the plan ([k][2][2] interleaved,
+   * W/Hz; engine/noise/noise-parameters.ts), interpolated linearly between noise frequencies
+   */
+  noiseChain?: Float64Array;
   /** messages such as extrapolation used, passivity clipped */
   warnings: string[];
   /** information that is not a warning, such as how part data was interpolated onto the plan */

@@ -7,7 +7,9 @@ import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import type { CheckRunView as Run } from "@/lib/domain/checks/types";
 import { DriveView } from "./drive-view";
 import { LeakTraceView } from "./leak-trace-view";
+import type { LineupResult } from "@/engine/lineup";
 import { LedgerChart } from "./ledger-chart";
+import { LineupView } from "./lineup-view";
 import { RuleResultsTable } from "./rule-results-table";
 import { SortableTable } from "@/components/ui/sortable-table";
 import { StabilityView } from "./stability-view";
@@ -42,6 +44,7 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: C
       {run.check === "state_sweep" ? <SweepTable result={run.figures.result} /> : null}
       {run.check === "stability" ? <StabilityView results={run.figures.result} /> : null}
       {run.check === "all_rules" ? <AllRulesView result={run.figures.result} sources={run.figures.ruleSources} /> : null}
+      {run.check === "lineup" ? <LineupView result={run.figures.result} /> : null}
       {run.figures.skipped && run.figures.skipped.length > 0 ? (
         <div className="text-sm">
           <h4 className="font-semibold">Rules not run on this scenario</h4>

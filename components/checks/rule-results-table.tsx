@@ -6,7 +6,15 @@ import { VerdictBadge } from "@/components/ui";
 import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
 import { fmt, fmtHz, fmtMargin } from "./format";
 
-const KIND: Record<RuleResult["kind"], string> = { isolation: "Isolation", match: "Match", insertion_loss: "Insertion loss", drive: "Drive" };
+const KIND: Record<RuleResult["kind"], string> = {
+  isolation: "Isolation",
+  match: "Match",
+  insertion_loss: "Insertion loss",
+  drive: "Drive",
+  noise_figure: "Noise figure",
+  gain: "Gain",
+  headroom: "Headroom",
+};
 const VERDICT_ORDER = { fail: 0, warn: 1, pass: 2 } as const;
 
 const columns: SortColumn<RuleResult>[] = [

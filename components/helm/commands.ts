@@ -61,6 +61,13 @@ function orderFirst(ports: readonly string[], first: string): HelmOption[] {
 
 type RuleKind = "isolation" | "match" | "insertion_loss";
 
+/** An optional level in dBm ("-30", "-30 dBm"); blank means none (null). */
+function parseOptionalDbm(text: string): Parsed<number | null> {
+  if (text.trim() === "") return { ok: true, value: null };
+  const r = parseDb(text.replace(/m\s*$/i, ""));
+  return r.ok ? r : { ok: false, error: "Enter a level in dBm, or leave it blank." };
+}
+
 /** The rule of this kind that best fits the chosen ports (for default bands and limits). */
 function ruleFor(rules: RuleSpec[], kind: RuleKind, values: Record<string, unknown>): RuleSpec | undefined {
   const same = rules.filter((r) => r.kind === kind);
@@ -196,6 +203,18 @@ export function buildCommands(data: HelmData): HelmCommand[] {
       },
       { id: "check.state_sweep", title: "Sweep switch states", group: "Checks", keywords: ["switch", "combinations", "sweep"], run: () => page.runCheck("state_sweep", {}) },
       { id: "check.stability", title: "Check stability", group: "Checks", keywords: ["rollett", "k", "mu", "oscillation"], run: () => page.runCheck("stability", {}) },
+      {
+        id: "check.lineup",
+        title: "Line-up: gain, noise figure and levels along a path…",
+        group: "Checks",
+        keywords: ["lineup", "line-up", "noise", "nf", "gain", "p1db", "ip3", "headroom", "cascade"],
+        next: (v) =>
+          portSteps(ports, ["from", "to"], v) ??
+          (v.input_dbm === undefined
+            ? { kind: "text", key: "input_dbm", prompt: "Input level (dBm, blank for none)", initial: "", hint: "e.g. -30 dBm", parse: parseOptionalDbm }
+            : null),
+        run: (v) => page.runCheck("lineup", { from: v.from, to: v.to, ...(typeof v.input_dbm === "number" ? { input_dbm: v.input_dbm } : {}) }),
+      },
       { id: "check.all_rules", title: "Run all rules", group: "Checks", keywords: ["rules", "verdicts", "everything"], run: () => page.runCheck("all_rules", {}) },
     );
   }

@@ -6,13 +6,18 @@ import { RULE_KINDS, ruleSpecSchema } from "@/lib/domain/rules/schema";
 /** The rules form as typed: text fields, with units allowed in bands ("2.4 GHz to 2.48 GHz") and powers. */
 export type RuleFormValues = {
   id: string;
-  kind: RuleSpec["kind"];
+  kind: (typeof RULE_KINDS)[number];
   from: string;
   to: string;
   port: string;
   band: string;
-  /** isolation: least dB; insertion loss: largest dB; match: least return loss dB (or VSWR, see matchBy) */
+  /** isolation: least dB; insertion loss, noise figure: largest dB; match: least return loss dB (or VSWR, see
+   *  matchBy); gain: least dB (optional with limitMax); headroom: least dB */
   limit: string;
+  /** gain: largest dB (optional with limit) */
+  limitMax: string;
+  /** headroom: the input level, dBm */
+  inputDbm: string;
   matchBy: "return_loss" | "vswr";
   oneWay: boolean;
   sources: string;
@@ -27,14 +32,16 @@ export const EMPTY_RULE_FORM: RuleFormValues = {
   port: "TX",
   band: "",
   limit: "",
+  limitMax: "",
+  inputDbm: "",
   matchBy: "return_loss",
   oneWay: false,
   sources: "",
   coherent: false,
 };
 
-/** The form values that show an existing rule. */
-export function formFromSpec(spec: RuleSpec): RuleFormValues {
+/** The form values that show an existing rule (of a kind the form edits). */
+export function formFromSpec(spec: Extract<RuleSpec, { kind: RuleFormValues["kind"] }>): RuleFormValues {
   const v: RuleFormValues = { ...EMPTY_RULE_FORM, id: spec.id ?? "", kind: spec.kind };
   if ("band" in spec && spec.band) v.band = formatBand(spec.band);
   switch (spec.kind) {
@@ -48,6 +55,12 @@ export function formFromSpec(spec: RuleSpec): RuleFormValues {
         : { ...v, port: spec.port, matchBy: "vswr", limit: String(spec.max_vswr ?? "") };
     case "drive":
       return { ...v, sources: spec.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", "), coherent: spec.coherent ?? false };
+    case "noise_figure":
+      return { ...v, from: spec.from, to: spec.to, limit: String(spec.max_db) };
+    case "gain":
+      return { ...v, from: spec.from, to: spec.to, limit: spec.min_db === undefined ? "" : String(spec.min_db), limitMax: spec.max_db === undefined ? "" : String(spec.max_db) };
+    case "headroom":
+      return { ...v, from: spec.from, to: spec.to, limit: String(spec.min_db), inputDbm: String(spec.input_dbm) };
   }
 }
 
@@ -55,16 +68,29 @@ export function formFromSpec(spec: RuleSpec): RuleFormValues {
 export function specFromForm(v: RuleFormValues): { ok: true; spec: RuleSpec } | { ok: false; fields: Partial<Record<keyof RuleFormValues, string>> } {
   const fields: Partial<Record<keyof RuleFormValues, string>> = {};
   let band: [number, number] | undefined;
-  if (v.band.trim() !== "" || v.kind !== "drive") {
+  if (v.band.trim() !== "" || (v.kind !== "drive" && v.kind !== "headroom")) {
     const b = parseBand(v.band);
     if (b.ok) band = b.value;
     else fields.band = b.error;
   }
   let limit: number | undefined;
-  if (v.kind !== "drive") {
+  if (v.kind !== "drive" && !(v.kind === "gain" && v.limit.trim() === "")) {
     const l = parseDb(v.limit);
     if (l.ok) limit = l.value;
     else fields.limit = v.limit.trim() === "" ? "Enter the limit." : l.error;
+  }
+  let limitMax: number | undefined;
+  if (v.kind === "gain" && v.limitMax.trim() !== "") {
+    const l = parseDb(v.limitMax);
+    if (l.ok) limitMax = l.value;
+    else fields.limitMax = l.error;
+  }
+  if (v.kind === "gain" && v.limit.trim() === "" && v.limitMax.trim() === "") fields.limit = "Give a least gain or a largest gain.";
+  let inputDbm: number | undefined;
+  if (v.kind === "headroom") {
+    const l = parseDb(v.inputDbm.replace(/m\s*$/i, ""));
+    if (l.ok) inputDbm = l.value;
+    else fields.inputDbm = v.inputDbm.trim() === "" ? "Enter the input level." : "Enter a level in dBm.";
   }
   let sources: { port: string; dbm: number }[] | undefined;
   if (v.kind === "drive") {
@@ -80,12 +106,18 @@ export function specFromForm(v: RuleFormValues): { ok: true; spec: RuleSpec } | 
         ? { kind: v.kind, id: v.id, from: v.from, to: v.to, band, max_db: limit }
         : v.kind === "match"
           ? { kind: v.kind, id: v.id, port: v.port, band, ...(v.matchBy === "vswr" ? { max_vswr: limit } : { min_return_loss_db: limit }) }
-          : { kind: v.kind, id: v.id, sources, ...(band ? { band } : {}), ...(v.coherent ? { coherent: true } : {}) };
+          : v.kind === "drive"
+            ? { kind: v.kind, id: v.id, sources, ...(band ? { band } : {}), ...(v.coherent ? { coherent: true } : {}) }
+            : v.kind === "noise_figure"
+              ? { kind: v.kind, id: v.id, from: v.from, to: v.to, band, max_db: limit }
+              : v.kind === "gain"
+                ? { kind: v.kind, id: v.id, from: v.from, to: v.to, band, ...(limit !== undefined ? { min_db: limit } : {}), ...(limitMax !== undefined ? { max_db: limitMax } : {}) }
+                : { kind: v.kind, id: v.id, from: v.from, to: v.to, input_dbm: inputDbm, min_db: limit, ...(band ? { band } : {}) };
   const parsed = ruleSpecSchema.safeParse(raw);
   if (parsed.success) return { ok: true, spec: parsed.data };
   for (const issue of parsed.error.issues) {
     const key = String(issue.path[0] ?? "id");
-    const map: Record<string, keyof RuleFormValues> = { min_db: "limit", max_db: "limit", min_return_loss_db: "limit", max_vswr: "limit" };
+    const map: Record<string, keyof RuleFormValues> = { min_db: "limit", max_db: v.kind === "gain" ? "limitMax" : "limit", min_return_loss_db: "limit", max_vswr: "limit", input_dbm: "inputDbm" };
     const field = (map[key] ?? (key in EMPTY_RULE_FORM ? key : "id")) as keyof RuleFormValues;
     fields[field] ??= issue.message;
   }
@@ -102,6 +134,8 @@ export const ruleFormSchema = z
     port: z.string(),
     band: z.string(),
     limit: z.string(),
+    limitMax: z.string(),
+    inputDbm: z.string(),
     matchBy: z.enum(["return_loss", "vswr"]),
     oneWay: z.boolean(),
     sources: z.string(),

@@ -8,7 +8,6 @@ import type { RuleSpec } from "@/engine/types";
 import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components/ui";
 import { ApiError, fetchJson, requestJson } from "@/lib/browser/api-client";
 import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
-import { formatBand } from "@/components/helm/parse-input";
 import { describeRule as describe } from "@/lib/domain/rules/describe";
 import { RULE_KIND_LABELS, RULE_KINDS } from "@/lib/domain/rules/schema";
 import { EMPTY_RULE_FORM, formFromSpec, ruleFormSchema, specFromForm, type RuleFormValues } from "./rule-form";
@@ -23,6 +22,11 @@ async function send(url: string, method: string, body?: unknown): Promise<{ ok: 
     if (e instanceof ApiError) return { ok: false, message: e.message, fields: e.fields };
     throw e;
   }
+}
+
+/** Whether the rule form edits this kind (project rules hold only those; see RULE_KINDS). */
+function formEdits(spec: RuleSpec): spec is Extract<RuleSpec, { kind: RuleFormValues["kind"] }> {
+  return (RULE_KINDS as readonly string[]).includes(spec.kind);
 }
 
 /** A project's rules: a table for everyone; create, edit and delete for engineers and owners. */
@@ -125,7 +129,7 @@ export function RulesEditor({ projectId, initial, canEdit, usage = {} }: { proje
       {canEdit && editing !== null ? (
         <RuleFormPanel
           key={editing === "new" ? "new" : editing.id}
-          initial={editing === "new" ? EMPTY_RULE_FORM : formFromSpec(editing.spec)}
+          initial={editing === "new" || !formEdits(editing.spec) ? EMPTY_RULE_FORM : formFromSpec(editing.spec)}
           title={editing === "new" ? "New rule" : `Edit rule ${editing.spec.id}`}
           onCancel={() => setEditing(null)}
           onSubmit={async (spec) => {
@@ -173,13 +177,30 @@ export function RuleFormPanel({
       setServerError(res.message);
       for (const [path, message] of Object.entries(res.fields ?? {})) {
         const key = path.replace(/^spec\./, "").split(".")[0];
-        const field = (["min_db", "max_db", "min_return_loss_db", "max_vswr"].includes(key) ? "limit" : key) as keyof RuleFormValues;
+        const field = (
+          key === "input_dbm" ? "inputDbm" : key === "max_db" && values.kind === "gain" ? "limitMax" : ["min_db", "max_db", "min_return_loss_db", "max_vswr"].includes(key) ? "limit" : key
+        ) as keyof RuleFormValues;
         if (field in initial) setError(field, { message });
       }
     }
   });
 
-  const limitLabel = kind === "isolation" ? "Least isolation (dB)" : kind === "insertion_loss" ? "Largest insertion loss (dB)" : matchBy === "vswr" ? "Largest VSWR" : "Least return loss (dB)";
+  const limitLabel =
+    kind === "isolation"
+      ? "Least isolation (dB)"
+      : kind === "insertion_loss"
+        ? "Largest insertion loss (dB)"
+        : kind === "noise_figure"
+          ? "Largest noise figure (dB)"
+          : kind === "gain"
+            ? "Least gain (dB)"
+            : kind === "headroom"
+              ? "Least headroom to P1dB (dB)"
+              : matchBy === "vswr"
+                ? "Largest VSWR"
+                : "Least return loss (dB)";
+  const twoPorts = kind === "isolation" || kind === "insertion_loss" || kind === "noise_figure" || kind === "gain" || kind === "headroom";
+  const bandOptional = kind === "drive" || kind === "headroom";
 
   return (
     <form onSubmit={submit} noValidate aria-label={title} className="flex max-w-3xl flex-col gap-3 rounded-card border border-rule bg-surface p-4">
@@ -204,7 +225,7 @@ export function RuleFormPanel({
             </Select>
           </Field>
         )}
-        {kind === "isolation" || kind === "insertion_loss" ? (
+        {twoPorts ? (
           <>
             <Field label="From port" error={err("from")} required>
               <Input {...register("from")} />
@@ -227,11 +248,11 @@ export function RuleFormPanel({
             </Field>
           </>
         ) : null}
-        <Field label="Band" error={err("band")} hint={kind === "drive" ? "Optional; e.g. 2.4 GHz to 2.48 GHz" : "e.g. 2.4 GHz to 2.48 GHz"} required={kind !== "drive"}>
+        <Field label="Band" error={err("band")} hint={bandOptional ? "Optional; e.g. 2.4 GHz to 2.48 GHz" : "e.g. 2.4 GHz to 2.48 GHz"} required={!bandOptional}>
           <Input {...register("band")} placeholder="2.4 GHz to 2.48 GHz" />
         </Field>
         {kind !== "drive" ? (
-          <Field label={limitLabel} error={err("limit")} required>
+          <Field label={limitLabel} error={err("limit")} hint={kind === "gain" ? "Optional when a largest gain is given" : undefined} required={kind !== "gain"}>
             <Input {...register("limit")} inputMode="decimal" />
           </Field>
         ) : (
@@ -239,6 +260,16 @@ export function RuleFormPanel({
             <Input {...register("sources")} />
           </Field>
         )}
+        {kind === "gain" ? (
+          <Field label="Largest gain (dB)" error={err("limitMax")} hint="Optional when a least gain is given">
+            <Input {...register("limitMax")} inputMode="decimal" />
+          </Field>
+        ) : null}
+        {kind === "headroom" ? (
+          <Field label="Input level (dBm)" error={err("inputDbm")} hint="The level entering at the from port" required>
+            <Input {...register("inputDbm")} inputMode="decimal" />
+          </Field>
+        ) : null}
         {kind === "isolation" ? (
           <label className="flex items-center gap-2 text-sm">
             <input type="checkbox" {...register("oneWay")} /> One way only (from → to)

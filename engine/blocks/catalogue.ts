@@ -189,7 +189,19 @@ export const BLOCK_CATALOGUE: Record<BuiltInBlockKind, BlockCatalogueEntry> = {
     summary: "One-port radiator: what it does not reflect is counted as radiated.",
     ports: 1,
     portLabels: fixed("feed"),
-    params: oneportParams("antenna feed"),
+    params: [
+      ...oneportParams("antenna feed"),
+      {
+        name: "noise_temperature_k",
+        label: "Noise temperature",
+        unit: "K",
+        kind: "number",
+        default: 290,
+        required: false,
+        min: 0,
+        help: "Antenna noise temperature: its feed is noisy like a passive one-port at this temperature.",
+      },
+    ],
   },
   attenuator: {
     title: "Attenuator",
@@ -282,6 +294,16 @@ export const BLOCK_CATALOGUE: Record<BuiltInBlockKind, BlockCatalogueEntry> = {
       },
       { ...returnLoss("Input return loss; null means matched."), name: "input_return_loss_db", label: "Input return loss" },
       { ...returnLoss("Output return loss; null means matched."), name: "output_return_loss_db", label: "Output return loss" },
+      {
+        name: "noise_figure_db",
+        label: "Noise figure",
+        unit: "dB",
+        kind: "number",
+        required: false,
+        min: 0,
+        max: 100,
+        help: "Noise figure from a Z0 source (matched-source figure); omitted means noiseless.",
+      },
     ],
   },
   filter: {

@@ -7,7 +7,7 @@
 import { EngineInputError } from "../types";
 
 /** Units of block parameters as shown in the inspector. */
-export type ParamUnit = "dB" | "dB/m" | "deg" | "Hz" | "m" | "Ω" | "";
+export type ParamUnit = "dB" | "dB/m" | "deg" | "Hz" | "m" | "Ω" | "K" | "";
 
 /** How a parameter is entered. `complex` is `[re, im]` (a plain number means `[re, 0]`). */
 export type ParamKind = "number" | "enum" | "integer" | "complex";

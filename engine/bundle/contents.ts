@@ -4,6 +4,7 @@
  * and the CLI.
  */
 import { effectiveRuleSet, judgingRules, leakTrace, runAllChecks, type AllChecksResult, type EffectiveRuleSet, type LeakTraceResult, type RuleSource } from "../checks";
+import { lineup, type LineupResult } from "../lineup";
 import { parseScenario } from "../scenario";
 import { solveScenario } from "../system";
 import { writeCompositeTouchstone } from "../touchstone";
@@ -51,6 +52,8 @@ export type ChecksDocument = {
   results: AllChecksResult;
   /** leak trace of each isolation rule at the worst frequency of its band (null when it cannot be traced) */
   leaks: { rule: string; from: string; to: string; trace: LeakTraceResult | null; error?: string }[];
+  /** line-up of each noise_figure, gain and headroom rule's path (headroom: at its input level); present when there are such rules */
+  lineups?: { rule: string; from: string; to: string; lineup: LineupResult | null; error?: string }[];
 };
 
 /** Everything computed from a scenario for a bundle. */
@@ -163,11 +166,23 @@ export function computeBundleResults(content: unknown, parts: Record<string, str
       leaks.push({ rule: name, from: rule.from, to: rule.to, trace: null, error: err.message });
     }
   }
+  const lineups: NonNullable<ChecksDocument["lineups"]> = [];
+  for (const [i, rule] of rules.entries()) {
+    if (rule.kind !== "noise_figure" && rule.kind !== "gain" && rule.kind !== "headroom") continue;
+    const name = rule.id ?? `rules[${i}]`;
+    try {
+      const inputDbm = rule.kind === "headroom" ? rule.input_dbm : undefined;
+      lineups.push({ rule: name, from: rule.from, to: rule.to, lineup: lineup(solution.system, { from: rule.from, to: rule.to, inputDbm }) });
+    } catch (err) {
+      if (!(err instanceof EngineInputError)) throw err;
+      lineups.push({ rule: name, from: rule.from, to: rule.to, lineup: null, error: err.message });
+    }
+  }
   const rule_set: BundleRuleSet = { sha256: hashRuleSet(set), rules: set.rules, opted_out: set.opted_out };
   return {
     scenario,
     solution,
-    checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, engine_version: ENGINE_VERSION, rule_set, rules: ruleVerdicts(set, results), waivers, results, leaks },
+    checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, engine_version: ENGINE_VERSION, rule_set, rules: ruleVerdicts(set, results), waivers, results, leaks, ...(lineups.length > 0 ? { lineups } : {}) },
   };
 }
 

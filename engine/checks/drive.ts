@@ -60,9 +60,14 @@ export type DriveResult = {
   /** the highest incident power anywhere (verdict basis), dBm, and its frequency */
   maxDbm: number;
   maxHz: number;
+  /** blocks with p1db_out_dbm: the highest outgoing power |b|² at any of their ports (verdict basis) against it */
+  compression: DriveCompression[];
   cautions: readonly string[];
   messages: string[];
 };
+
+/** Outgoing power at a block with a P1dB: a level past it makes the linear figures optimistic. */
+export type DriveCompression = { block: string; port: number; outDbm: number; hz: number; p1dbOutDbm: number; marginDb: number };
 
 export type DriveOptions = {
   sources: DriveSource[];
@@ -113,6 +118,9 @@ export function driveCheck(solution: Solution, opts: DriveOptions): DriveResult 
   // Per (frequency, block port): Σ|a_s|² and Σ|a_s|.
   const pInc = new Float64Array(nf * np);
   const aSum = new Float64Array(nf * np);
+  // outgoing waves, for the blocks that state a compression point
+  const pOut = new Float64Array(nf * np);
+  const bSum = new Float64Array(nf * np);
   // every source's waves from one batched pass over the wave maps
   const incidents = sources.map((src) => {
     const m = solution.ports.indexOf(src.port);
@@ -126,6 +134,9 @@ export function driveCheck(solution: Solution, opts: DriveOptions): DriveResult 
       const m2 = w.a[2 * i] * w.a[2 * i] + w.a[2 * i + 1] * w.a[2 * i + 1];
       pInc[i] += m2;
       aSum[i] += Math.sqrt(m2);
+      const o2 = w.b[2 * i] * w.b[2 * i] + w.b[2 * i + 1] * w.b[2 * i + 1];
+      pOut[i] += o2;
+      bSum[i] += Math.sqrt(o2);
     }
   }
 
@@ -192,9 +203,26 @@ export function driveCheck(solution: Solution, opts: DriveOptions): DriveResult 
     }
   }
 
+  const compression: DriveCompression[] = [];
+  sys.blocks.forEach((b, bi) => {
+    const p1 = sys.scenario.blocks[bi]?.id === b.id ? sys.scenario.blocks[bi].p1db_out_dbm : undefined;
+    if (typeof p1 !== "number" || !Number.isFinite(p1)) return;
+    const end = bi + 1 < sys.blocks.length ? sys.blockOffset[bi + 1] : np;
+    let best = -1, bk = ks[0], bp = sys.blockOffset[bi];
+    for (let p = sys.blockOffset[bi]; p < end; p++) {
+      for (const k of ks) {
+        const v = basis === "coherent" ? bSum[k * np + p] * bSum[k * np + p] : pOut[k * np + p];
+        if (v > best) { best = v; bk = k; bp = p; }
+      }
+    }
+    const outDbm = dbmFromWatts(best);
+    compression.push({ block: b.id, port: sys.blockPorts[bp].port, outDbm, hz: solution.frequencies[bk], p1dbOutDbm: p1, marginDb: p1 - outDbm });
+  });
+
   const messages: string[] = [];
   const rated = ports.filter((p) => p.verdict !== null);
-  const verdict: Verdict = rated.some((p) => p.verdict === "fail") ? "fail" : rated.some((p) => p.verdict === "warn") ? "warn" : "pass";
+  const compressed = compression.filter((c) => c.marginDb < 0);
+  const verdict: Verdict = rated.some((p) => p.verdict === "fail") ? "fail" : rated.some((p) => p.verdict === "warn") || compressed.length > 0 ? "warn" : "pass";
   const srcText = sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", ");
   if (worst) {
     messages.push(`drive (${srcText}, ${basis} sum): smallest margin ${worst.margin.toFixed(2)} dB at ${worst.block}:${worst.port}, ${worst.dbm.toFixed(2)} dBm against ${worst.ratingDbm} dBm at ${formatHz(worst.hz)}`);
@@ -204,6 +232,9 @@ export function driveCheck(solution: Solution, opts: DriveOptions): DriveResult 
   for (const p of rated) {
     if (p.verdict === "fail") messages.push(`${p.block}:${p.port} takes ${powerOf(p, basis).toFixed(2)} dBm, above its ${p.ratingDbm} dBm rating by ${(-(p.margin as number)).toFixed(2)} dB`);
     else if (p.verdict === "warn") messages.push(`${p.block}:${p.port} stays within ${p.ratingDbm} dBm on the incoherent sum but the coherent worst case reaches ${p.coherentDbm.toFixed(2)} dBm`);
+  }
+  for (const c of compressed) {
+    messages.push(`${c.block}:${c.port} puts out ${c.outDbm.toFixed(2)} dBm at ${formatHz(c.hz)}, past its P1dB (${c.p1dbOutDbm} dBm) by ${(-c.marginDb).toFixed(2)} dB: it compresses, and the linear figures overstate its output`);
   }
   return {
     verdict,
@@ -216,6 +247,7 @@ export function driveCheck(solution: Solution, opts: DriveOptions): DriveResult 
     worst,
     maxDbm: maxP ? powerOf(maxP, basis) : dbmFromWatts(0),
     maxHz: maxP ? (basis === "coherent" ? maxP.coherentHz : maxP.incoherentHz) : solution.frequencies[ks[0]],
+    compression,
     cautions: DRIVE_CAUTIONS,
     messages,
   };

@@ -2,7 +2,7 @@
 export * from "./types";
 export { db20, magnitude, vswrFromGamma, gammaFromVswr, returnLossDb, gammaFromReturnLoss, mismatchLossDb, wattsFromDbm, dbmFromWatts } from "./conversions";
 export { bandIndices, nearestIndex, portIndex, formatHz, BAND_EDGE_TOLERANCE } from "./band";
-export { evaluateRule, evaluateRules, ruleName } from "./rules";
+export { evaluateRule, evaluateRules, ruleName, type RuleContext } from "./rules";
 export { portMatrix, portMatrixExtremes, type PortMatrix, type PortMatrixExtremes } from "./port-matrix";
 export { powerLedger, powerLedgers, LEDGER_TOLERANCE, LEDGER_FAIL_TOLERANCE, type LedgerResult, type LedgerBlockEntry } from "./power-ledger";
 export { dataQuality, MODEL_TOLERANCE, MEASURED_TOLERANCE, type DataQualityResult, type QualityFigures } from "./data-quality";

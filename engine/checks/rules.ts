@@ -1,7 +1,9 @@
 // Saved rules (isolation, match, insertion loss, drive) evaluated at every plan point inside the band;
 // worst value, its frequency and the margin (positive = met).
 import { EngineInputError } from "../types";
-import type { RuleSpec, Solution } from "../types";
+import type { RuleSpec, SData, Solution } from "../types";
+import { lineup } from "../lineup/lineup";
+import { noiseFigure, systemNoise } from "../noise";
 import { bandIndices, formatHz, portIndex } from "./band";
 import { db20, gammaFromVswr, returnLossDb, vswrFromGamma } from "./conversions";
 import { driveCheck } from "./drive";
@@ -34,7 +36,12 @@ function requireFinite(x: unknown, where: string, what: string): number {
  * - match: return loss −20·log10|S_pp| against the stricter of min_return_loss_db and the return loss of
  *   max_vswr, worst = lowest, margin = worst − limit (dB); `extra.worstVswr` gives the worst VSWR;
  * - insertion_loss: −20·log10|S_to,from|, worst = highest, margin = max_db − worst;
- * - drive: the drive check (see driveCheck), worst = highest incident power against its rating.
+ * - drive: the drive check (see driveCheck), worst = highest incident power against its rating;
+ * - noise_figure: NF from `from` to `to` (systemNoise, noiseFigure), worst = highest, margin = max_db − worst;
+ * - gain: transducer gain 20·log10|S_to,from|, margin the smaller of value − min_db and max_db − value,
+ *   worst = the value with the smallest margin;
+ * - headroom: the line-up from `from` to `to` for `input_dbm` (lineup), per plan point the least headroom
+ *   over the stages with a P1dB, worst = lowest, margin = worst − min_db.
  *
  * @param solution solved composite (ports named as in the scenario)
  * @param rule the rule
@@ -43,10 +50,11 @@ function requireFinite(x: unknown, where: string, what: string): number {
  * @throws EngineInputError naming the rule for unknown ports, empty or reversed bands, missing limits
  * @example evaluateRule(sol, { kind: "isolation", from: "TX", to: "RX", band: [2.4e9, 2.48e9], min_db: 45 }, 0)
  */
-export function evaluateRule(solution: Solution, rule: RuleSpec, index: number): RuleResult {
+export function evaluateRule(solution: Solution, rule: RuleSpec, index: number, ctx: RuleContext = {}): RuleResult {
   const name = ruleName(rule, index);
   const id = rule.id ?? `rules[${index}]`;
   if (rule.kind === "drive") return evaluateDriveRule(solution, rule, index, id, name);
+  if (rule.kind === "headroom") return evaluateHeadroomRule(solution, rule, index, id, name, ctx);
   const band = rule.band;
   if (!Array.isArray(band) || band.length !== 2) throw new EngineInputError(name, "band must be [start, stop] in Hz");
   const ks = bandIndices(solution.frequencies, band, name);
@@ -106,7 +114,71 @@ export function evaluateRule(solution: Solution, rule: RuleSpec, index: number):
     return finish({ id, index, kind: rule.kind, quantity: "return loss", unit: "dB", worst: values[q], worstHz: freqs[q], limit, margin: values[q] - limit, direction: rule.port, points: ks.length, frequenciesHz: freqs, values, messages, extra }, name);
   }
 
+  if (rule.kind === "gain") {
+    const from = portIndex(solution, rule.from, `${name}.from`);
+    const to = portIndex(solution, rule.to, `${name}.to`);
+    if (from === to) throw new EngineInputError(name, `gain needs two different ports, got "${rule.from}" twice`);
+    if (rule.min_db === undefined && rule.max_db === undefined) throw new EngineInputError(name, "gain needs min_db or max_db");
+    const lo = rule.min_db === undefined ? -Infinity : requireFinite(rule.min_db, name, "min_db");
+    const hi = rule.max_db === undefined ? Infinity : requireFinite(rule.max_db, name, "max_db");
+    const margins: number[] = new Array(ks.length);
+    for (let q = 0; q < ks.length; q++) {
+      values[q] = db20(mag(solution, ks[q], to, from));
+      margins[q] = Math.min(values[q] - lo, hi - values[q]);
+    }
+    const q = argWorst(margins, "min");
+    const limit = values[q] - lo <= hi - values[q] ? lo : hi;
+    return finish({ id, index, kind: rule.kind, quantity: "gain", unit: "dB", worst: values[q], worstHz: freqs[q], limit, margin: margins[q], direction: `${rule.from}→${rule.to}`, points: ks.length, frequenciesHz: freqs, values, messages }, name);
+  }
+
+  if (rule.kind === "noise_figure") {
+    const limit = requireFinite(rule.max_db, name, "max_db");
+    const from = portIndex(solution, rule.from, `${name}.from`);
+    const to = portIndex(solution, rule.to, `${name}.to`);
+    if (from === to) throw new EngineInputError(name, `a noise figure needs two different ports, got "${rule.from}" twice`);
+    const noise = systemNoise(solution.system, { outputs: [to], replace: ctx.replace });
+    const f = noiseFigure(noise, from, to);
+    for (let q = 0; q < ks.length; q++) values[q] = 10 * Math.log10(f[ks[q]]);
+    messages.push(...noise.blocks.notes);
+    const q = argWorst(values, "max");
+    return finish({ id, index, kind: rule.kind, quantity: "noise figure", unit: "dB", worst: values[q], worstHz: freqs[q], limit, margin: limit - values[q], direction: `${rule.from}→${rule.to}`, points: ks.length, frequenciesHz: freqs, values, messages }, name);
+  }
+
   throw new EngineInputError(name, `unknown rule kind "${(rule as { kind: string }).kind}"`);
+}
+
+/** What a rule may need beyond the composite: the S used for replaced blocks (a state sweep's switches). */
+export type RuleContext = { replace?: Record<string, SData> };
+
+function evaluateHeadroomRule(solution: Solution, rule: Extract<RuleSpec, { kind: "headroom" }>, index: number, id: string, name: string, ctx: RuleContext): RuleResult {
+  const limit = requireFinite(rule.min_db, name, "min_db");
+  const input = requireFinite(rule.input_dbm, name, "input_dbm");
+  const from = portIndex(solution, rule.from, `${name}.from`);
+  const to = portIndex(solution, rule.to, `${name}.to`);
+  if (from === to) throw new EngineInputError(name, `headroom needs two different ports, got "${rule.from}" twice`);
+  const nf = solution.frequencies.length;
+  const ks = rule.band ? bandIndices(solution.frequencies, rule.band, name) : Array.from({ length: nf }, (_, k) => k);
+  const freqs = ks.map((k) => solution.frequencies[k]);
+  const up = lineup(solution.system, { from: rule.from, to: rule.to, inputDbm: input, replace: ctx.replace, noise: false });
+  const rated = up.stages.filter((s) => s.headroomDb !== null);
+  const messages = [`path ${up.path.text}`, ...up.warnings];
+  if (rated.length === 0) {
+    messages.push(`${name}: no block on the path carries p1db_out_dbm, so the headroom rule has nothing to check`);
+    return { id, index, kind: rule.kind, verdict: "pass", quantity: "headroom", unit: "dB", worst: 0, worstHz: freqs[0], limit, margin: 0, points: ks.length, frequenciesHz: [], values: [], messages };
+  }
+  const values: number[] = new Array(ks.length);
+  const where: string[] = new Array(ks.length);
+  ks.forEach((k, q) => {
+    values[q] = Infinity;
+    for (const s of rated) {
+      if (s.headroomDb![k] < values[q]) {
+        values[q] = s.headroomDb![k];
+        where[q] = s.block;
+      }
+    }
+  });
+  const q = argWorst(values, "min");
+  return finish({ id, index, kind: rule.kind, quantity: "headroom", unit: "dB", worst: values[q], worstHz: freqs[q], limit, margin: values[q] - limit, direction: where[q], points: ks.length, frequenciesHz: freqs, values, messages, extra: { inputDbm: input } }, name);
 }
 
 function evaluateDriveRule(solution: Solution, rule: Extract<RuleSpec, { kind: "drive" }>, index: number, id: string, name: string): RuleResult {
@@ -165,6 +237,6 @@ function finish(r: Omit<RuleResult, "verdict">, name: string): RuleResult {
  * @throws EngineInputError naming the first bad rule
  * @example evaluateRules(sol).filter((r) => r.verdict === "fail")
  */
-export function evaluateRules(solution: Solution, rules: RuleSpec[] = solution.system.scenario.rules ?? []): RuleResult[] {
-  return rules.map((r, i) => evaluateRule(solution, r, i));
+export function evaluateRules(solution: Solution, rules: RuleSpec[] = solution.system.scenario.rules ?? [], ctx: RuleContext = {}): RuleResult[] {
+  return rules.map((r, i) => evaluateRule(solution, r, i, ctx));
 }

@@ -113,7 +113,7 @@ export function sweepRows(sys: PreparedSystem, rules: RuleSpec[], states: SData[
     sws.forEach((sw, i) => { replace[sw.block] = states[i][st[i] - 1]; });
     try {
       const sol = solveSystem(sys, { replace, waves });
-      const res = evaluateRules(sol, rules);
+      const res = evaluateRules(sol, rules, { replace });
       const cells = res.map((r) => ({ verdict: r.verdict, worst: r.worst, worstHz: r.worstHz, margin: r.margin }));
       let worstMargin: number | null = null;
       for (const cell of cells) if (Number.isFinite(cell.margin) && (worstMargin === null || cell.margin < worstMargin)) worstMargin = cell.margin;

@@ -62,6 +62,9 @@ export const BlockSchema = z.object({
   rating_dbm: finite.optional(),
   /** touchstone parts: marks the part active (or, false, passive); built-in kinds may only repeat their model */
   active: z.boolean().optional(),
+  temperature_k: z.number().nonnegative().max(1e6).optional(),
+  p1db_out_dbm: finite.optional(),
+  oip3_dbm: finite.optional(),
   position: z.object({ x: finite, y: finite }).optional(),
   label: z.string().optional(),
   /** the expressions the user typed for params (the web app evaluates them; the engine ignores them) */
@@ -79,7 +82,7 @@ export const SystemPortSchema = z.object({
 const band = z.tuple([positiveHz, positiveHz]);
 
 /**
- * The four rule kinds of a scenario file, each its own object so that the web app's rule forms and
+ * The rule kinds of a scenario file, each its own object so that the web app's rule forms and
  * check inputs extend them instead of restating them. `RuleSpec` in engine/types.ts
  * is inferred from `RuleSchema`.
  */
@@ -119,7 +122,47 @@ export const DriveRuleSchema = z.object({
   coherent: z.boolean().optional(),
 });
 
-export const RuleSchema = z.discriminatedUnion("kind", [IsolationRuleSchema, MatchRuleSchema, InsertionLossRuleSchema, DriveRuleSchema]);
+/** Noise figure from one system port to another (docs/scenario-format.md#noise) at most max_db over the band. */
+export const NoiseFigureRuleSchema = z.object({
+  kind: z.literal("noise_figure"),
+  id: z.string().optional(),
+  from: z.string().min(1),
+  to: z.string().min(1),
+  band,
+  max_db: finite,
+});
+
+/** Transducer gain 20·log10|S_to,from| within [min_db, max_db] over the band (at least one limit). */
+export const GainRuleSchema = z.object({
+  kind: z.literal("gain"),
+  id: z.string().optional(),
+  from: z.string().min(1),
+  to: z.string().min(1),
+  band,
+  min_db: finite.optional(),
+  max_db: finite.optional(),
+});
+
+/** Line-up headroom to every stated P1dB along the path from→to for input_dbm at `from`, at least min_db. */
+export const HeadroomRuleSchema = z.object({
+  kind: z.literal("headroom"),
+  id: z.string().optional(),
+  from: z.string().min(1),
+  to: z.string().min(1),
+  input_dbm: finite,
+  min_db: finite,
+  band: band.optional(),
+});
+
+export const RuleSchema = z.discriminatedUnion("kind", [
+  IsolationRuleSchema,
+  MatchRuleSchema,
+  InsertionLossRuleSchema,
+  DriveRuleSchema,
+  NoiseFigureRuleSchema,
+  GainRuleSchema,
+  HeadroomRuleSchema,
+]);
 
 /** Who changed a rule and when (ISO 8601), shown beside overrides and opt-outs. */
 const changedBy = { by: z.string().max(200).optional(), at: z.string().max(40).optional() };
@@ -135,6 +178,9 @@ export const RuleOverrideSchema = z.discriminatedUnion("kind", [
   MatchRuleSchema.extend({ ...namedRule, ...changedBy }),
   InsertionLossRuleSchema.extend({ ...namedRule, ...changedBy }),
   DriveRuleSchema.extend({ ...namedRule, ...changedBy }),
+  NoiseFigureRuleSchema.extend({ ...namedRule, ...changedBy }),
+  GainRuleSchema.extend({ ...namedRule, ...changedBy }),
+  HeadroomRuleSchema.extend({ ...namedRule, ...changedBy }),
 ]);
 
 /** A scenario's visible opt-out of a project rule: the rule's `id` and why. */
@@ -158,5 +204,6 @@ export const ScenarioSchema = z.object({
   rule_overrides: z.array(RuleOverrideSchema).max(200).optional(),
   rule_opt_outs: z.array(RuleOptOutSchema).max(200).optional(),
   extrapolate: z.enum(["error", "hold"]).optional(),
+  temperature_k: z.number().nonnegative().max(1e6).optional(),
   variables: z.record(z.string(), z.union([z.string(), finite])).optional(),
 });

@@ -5,6 +5,7 @@
 import { evaluateBlock } from "../blocks";
 import { formatHz } from "../format";
 import { interpolateS } from "../interp";
+import { partNoiseOnPlan } from "../noise/part-noise";
 import { renormalize, z0Vector } from "../renorm";
 import { placeBlockError } from "../scenario/block-errors";
 import { frequencyPlan } from "../scenario/frequency-plan";
@@ -91,10 +92,17 @@ function evaluatePart(
     }
   }
   const active = partActivity(block, part);
+  let noiseChain: Float64Array | undefined;
+  if (part.noise && n === 2) {
+    const noise = partNoiseOnPlan(part.noise, frequencies, block.id);
+    noiseChain = noise.chain;
+    warnings.push(...noise.warnings);
+  }
   return {
     id: block.id,
     kind: "touchstone",
     s,
+    ...(noiseChain ? { noiseChain } : {}),
     // measured data is checked by the checks, not assumed passive or reciprocal
     traits: { passive: false, reciprocal: false, radiates: false },
     rating_dbm: block.rating_dbm,

@@ -4,6 +4,7 @@ import type { SData, Z0Vector } from "../types";
 import { solveComplexInPlace } from "../linalg/solve";
 import { TouchstoneError } from "./errors";
 import { compareDecimal, parseDecimal, scaleDecimal } from "./numbers";
+import { noiseRowsOf, type NoiseRows } from "./noise";
 
 export type FrequencyUnit = "Hz" | "kHz" | "MHz" | "GHz";
 export type DataFormat = "RI" | "MA" | "DB";
@@ -28,6 +29,8 @@ export type TouchstoneData = {
   sourceParameter: "S" | "Y" | "Z";
   /** 2-port element order of the file: "21_12" is N11 N21 N12 N22 (always so in 1.1), "12_21" is N11 N12 N21 N22 */
   twoPortOrder?: "12_21" | "21_12";
+  /** 2-port noise parameters as read (engine/touchstone/noise.ts turns them into noise data) */
+  noise?: NoiseRows;
 };
 
 export type ParseOptions = {
@@ -64,7 +67,7 @@ type Section = "header" | "network" | "noise" | "information" | "done";
  * [Two-Port Data Order], [Number of Frequencies], [Number of Noise Frequencies], [Reference],
  * [Matrix Format] Full/Lower/Upper, [Begin Information]/[End Information], [Network Data], [Noise Data],
  * [End]. Noise data (1.1: the 2-port lines after the frequency first decreases; 2.0: [Noise Data]) is
- * checked and skipped. Refused with a TouchstoneError naming the line: G and H data, [Mixed-Mode Order],
+ * checked and returned as `noise` (engine/touchstone/noise.ts). Refused with a TouchstoneError naming the line: G and H data, [Mixed-Mode Order],
  * non-increasing frequencies, malformed or non-finite numbers, short or long records, port counts above
  * `maxPorts`, binary content, a missing option line, a frequency count that differs from
  * [Number of Frequencies], and texts above `maxBytes`. Time is linear in the text length.
@@ -124,6 +127,7 @@ class Reader {
   // noise data
   private noiseLastFreq = -Infinity;
   private noiseLastLine = 0;
+  private readonly noiseValues: number[] = [];
 
   constructor(text: string, opts: ParseOptions) {
     this.text = text;
@@ -569,6 +573,7 @@ class Reader {
     }
     this.noiseLastFreq = f;
     this.noiseLastLine = lineNo;
+    for (const tok of toks) this.noiseValues.push(parseDecimal(tok));
   }
 
   private endNetwork(lineNo: number, what: string): void {
@@ -669,6 +674,7 @@ class Reader {
       sourceUnit: this.unit,
       sourceParameter: this.parameter,
       ...(n === 2 ? { twoPortOrder: order } : {}),
+      ...(this.noiseValues.length > 0 ? { noise: noiseRowsOf(this.noiseValues, 10 ** this.unitExp, z0[0]) } : {}),
     };
   }
 

@@ -15,7 +15,8 @@ import {
   type RuleResult,
   type Verdict,
 } from "@/engine/checks";
-import type { RuleSpec, Solution } from "@/engine/types";
+import { lineup } from "@/engine/lineup";
+import type { RuleSpec, Scenario, Solution } from "@/engine/types";
 import { AppError } from "@/lib/base/errors";
 import type { CheckRunRequest } from "./inputs";
 import type { CheckOutcome, SkippedRule } from "./types";
@@ -92,6 +93,18 @@ export function executeCheck(request: CheckRunRequest, solution: Solution, ruleS
       const result = stabilityCheck(solution);
       const verdict = worstVerdict(result.map((r) => r.verdict));
       const headline = result.length === 0 ? "no amplifier and no two-port composite: nothing to check" : result.map((r) => `${r.subject}: min K ${r.minK === null ? "∞" : r.minK.toFixed(3)}`).join("; ");
+      return { check: request.check, verdict, figures: { headline, result } };
+    }
+    case "lineup": {
+      const { from, to, input_dbm, blocks } = request.inputs;
+      const result = lineup(solution.system, { from, to, inputDbm: input_dbm, blocks });
+      // a level past a P1dB is a warning: the linear figures no longer hold there
+      const verdict: Verdict = result.stages.some((s) => s.headroomDb?.some((h) => h < 0)) ? "warn" : "pass";
+      const range = (xs: number[]) => {
+        const fin = xs.filter(Number.isFinite);
+        return fin.length === 0 ? "—" : `${Math.min(...fin).toFixed(2)} to ${Math.max(...fin).toFixed(2)} dB`;
+      };
+      const headline = `${from}→${to} through ${result.stages.length} stage${result.stages.length === 1 ? "" : "s"}: gain ${range(result.gainDb)}, noise figure ${range(result.nfDb)}`;
       return { check: request.check, verdict, figures: { headline, result } };
     }
     case "all_rules": {

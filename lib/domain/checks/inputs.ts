@@ -3,7 +3,7 @@ import { InsertionLossRuleSchema, IsolationRuleSchema, MatchRuleSchema } from "@
 import { hasMatchLimit } from "@/lib/domain/rules/schema";
 
 /** Every check a run can hold (the check-runs route's `check`). */
-export const CHECK_NAMES = ["isolation", "match", "insertion_loss", "leak_trace", "power_ledger", "drive", "state_sweep", "stability", "all_rules"] as const;
+export const CHECK_NAMES = ["isolation", "match", "insertion_loss", "leak_trace", "power_ledger", "drive", "state_sweep", "stability", "all_rules", "lineup"] as const;
 export type CheckName = (typeof CHECK_NAMES)[number];
 
 /** Names in the interface (helm, results panel, history). */
@@ -17,6 +17,7 @@ export const CHECK_TITLES: Record<CheckName, string> = {
   state_sweep: "State sweep",
   stability: "Stability check",
   all_rules: "All rules",
+  lineup: "Line-up",
 };
 
 const hz = z.number().finite().positive();
@@ -45,6 +46,14 @@ export const checkInputSchemas = {
   state_sweep: z.object({}).strict(),
   stability: z.object({}).strict(),
   all_rules: z.object({}).strict(),
+  lineup: z
+    .object({
+      from: port,
+      to: port,
+      input_dbm: z.number().finite().min(-300).max(100).optional(),
+      blocks: z.array(z.string().trim().min(1).max(64)).min(1).max(200).optional(),
+    })
+    .strict(),
 } as const satisfies Record<CheckName, z.ZodType>;
 
 /** POST …/check-runs body: the check, its inputs, and the revision (default: the latest). */
@@ -58,5 +67,6 @@ export const checkRunRequestSchema = z.discriminatedUnion("check", [
   z.object({ check: z.literal("state_sweep"), inputs: checkInputSchemas.state_sweep.default({}), revisionId: z.string().min(1).max(100).optional() }).strict(),
   z.object({ check: z.literal("stability"), inputs: checkInputSchemas.stability.default({}), revisionId: z.string().min(1).max(100).optional() }).strict(),
   z.object({ check: z.literal("all_rules"), inputs: checkInputSchemas.all_rules.default({}), revisionId: z.string().min(1).max(100).optional() }).strict(),
+  z.object({ check: z.literal("lineup"), inputs: checkInputSchemas.lineup, revisionId: z.string().min(1).max(100).optional() }).strict(),
 ]);
 export type CheckRunRequest = z.infer<typeof checkRunRequestSchema>;

@@ -1,5 +1,6 @@
 import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult, Verdict } from "@/engine/checks";
 import type { EffectiveRuleSet, RuleSource } from "@/engine/checks";
+import type { LineupResult } from "@/engine/lineup";
 import type { CheckName } from "./inputs";
 
 /** A rule left out of a run because the scenario lacks a system port it names. */
@@ -16,6 +17,7 @@ export type CheckResults = {
   state_sweep: StateSweepResult;
   stability: StabilityResult[];
   all_rules: AllChecksResult;
+  lineup: LineupResult;
 };
 
 /**

@@ -17,6 +17,12 @@ export function describeRule(spec: RuleSpec): { ports: string; band: string; lim
       };
     case "drive":
       return { ports: spec.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", "), band, limit: spec.coherent ? "within ratings, coherent sum" : "within ratings" };
+    case "noise_figure":
+      return { ports: `${spec.from} → ${spec.to}`, band, limit: `noise figure ≤ ${spec.max_db} dB` };
+    case "gain":
+      return { ports: `${spec.from} → ${spec.to}`, band, limit: [spec.min_db !== undefined ? `gain ≥ ${spec.min_db} dB` : "", spec.max_db !== undefined ? `gain ≤ ${spec.max_db} dB` : ""].filter(Boolean).join(", ") };
+    case "headroom":
+      return { ports: `${spec.from} → ${spec.to}, ${spec.input_dbm} dBm in`, band, limit: `headroom ≥ ${spec.min_db} dB` };
   }
 }
 

@@ -1,14 +1,25 @@
 import { z } from "zod";
-import { DriveRuleSchema, InsertionLossRuleSchema, IsolationRuleSchema, MatchRuleSchema } from "@/engine/scenario/schema";
+import {
+  DriveRuleSchema,
+  GainRuleSchema,
+  HeadroomRuleSchema,
+  InsertionLossRuleSchema,
+  IsolationRuleSchema,
+  MatchRuleSchema,
+  NoiseFigureRuleSchema,
+} from "@/engine/scenario/schema";
 import type { RuleSpec } from "@/engine/types";
 
 /** Rule kinds a project can hold, with their names in the interface. */
-export const RULE_KINDS = ["isolation", "match", "insertion_loss", "drive"] as const satisfies readonly RuleSpec["kind"][];
+export const RULE_KINDS = ["isolation", "match", "insertion_loss", "drive", "noise_figure", "gain", "headroom"] as const satisfies readonly RuleSpec["kind"][];
 export const RULE_KIND_LABELS: Record<RuleSpec["kind"], string> = {
   isolation: "Isolation",
   match: "Match",
   insertion_loss: "Insertion loss",
   drive: "Drive",
+  noise_figure: "Noise figure",
+  gain: "Gain",
+  headroom: "Headroom",
 };
 
 const hz = z.number({ error: "Enter a frequency." }).finite().positive({ error: "A frequency must be above 0 Hz." });
@@ -28,6 +39,9 @@ export const ruleNameSchema = z
  * A match rule needs one of its two limits; the engine reads either, the app asks for one. The message
  * names the return-loss field, which the forms show first.
  */
+/** A gain rule needs a least or a largest gain (or both, the least not above the largest). */
+export const hasGainLimit = (r: { min_db?: number; max_db?: number }) => r.min_db !== undefined || r.max_db !== undefined;
+
 export const hasMatchLimit = (r: { min_return_loss_db?: number; max_vswr?: number }) => r.min_return_loss_db !== undefined || r.max_vswr !== undefined;
 
 /**
@@ -53,6 +67,19 @@ export const ruleSpecSchema = z.discriminatedUnion("kind", [
       .array(z.object({ port: portName, dbm: z.number({ error: "Enter a power in dBm." }).finite() }).strict())
       .min(1, { error: "Add at least one source." })
       .max(16),
+    band: bandSchema.optional(),
+  }).strict(),
+  NoiseFigureRuleSchema.extend({ id: ruleNameSchema, from: portName, to: portName, band: bandSchema, max_db: db }).strict(),
+  GainRuleSchema.extend({ id: ruleNameSchema, from: portName, to: portName, band: bandSchema, min_db: db.optional(), max_db: db.optional() })
+    .strict()
+    .refine(hasGainLimit, { error: "Give a least gain or a largest gain.", path: ["min_db"] })
+    .refine((r) => r.min_db === undefined || r.max_db === undefined || r.min_db <= r.max_db, { error: "The least gain must not be above the largest.", path: ["max_db"] }),
+  HeadroomRuleSchema.extend({
+    id: ruleNameSchema,
+    from: portName,
+    to: portName,
+    input_dbm: z.number({ error: "Enter an input level in dBm." }).finite().min(-300).max(100),
+    min_db: db,
     band: bandSchema.optional(),
   }).strict(),
 ]);

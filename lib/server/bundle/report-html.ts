@@ -154,6 +154,31 @@ ${whatIf ? `<table><thead><tr><th>Block made ideal</th><th>meaning</th><th>|S| t
     .join("\n");
 }
 
+function lineupSection(results: BundleResults): string {
+  const lineups = results.checks.lineups ?? [];
+  if (lineups.length === 0) return "";
+  const body = lineups
+    .map((l) => {
+      const head = `<h3>${escapeHtml(l.rule)}: ${escapeHtml(l.from)} → ${escapeHtml(l.to)}</h3>`;
+      if (!l.lineup) return `${head}<p class="muted">No line-up: ${escapeHtml(l.error ?? "")}</p>`;
+      const r = l.lineup;
+      const k = Math.floor((r.frequencies.length - 1) / 2);
+      const levels = r.inputDbm !== null;
+      const rows = r.stages
+        .map(
+          (s) =>
+            `<tr><td class="mono">${escapeHtml(`${s.block} ${s.inPort}→${s.outPort}`)}</td><td class="num">${num(s.gainDb[k])}</td><td class="num">${num(s.cumulativeGainDb[k])}</td><td class="num">${num(s.cumulativeNfDb[k])}</td>${levels ? `<td class="num">${num(s.levelOutDbm?.[k])}</td><td class="num">${s.headroomDb ? num(s.headroomDb[k]) : "—"}</td>` : ""}<td class="num">${num(s.cumulativeOip3Dbm[k])}</td><td class="num">${num(s.cumulativeOp1dbDbm[k])}</td></tr>`,
+        )
+        .join("");
+      return `${head}<p>Path: <span class="mono">${escapeHtml(r.path.text)}</span>; figures at ${escapeHtml(formatHz(r.frequencies[k]))}${levels ? ` for ${num(r.inputDbm)} dBm in` : ""}; end to end gain ${num(r.gainDb[k])} dB, noise figure ${num(r.nfDb[k])} dB.</p>
+<table><thead><tr><th>Stage</th><th>gain (dB)</th><th>cum. gain (dB)</th><th>cum. NF (dB)</th>${levels ? "<th>level out (dBm)</th><th>headroom (dB)</th>" : ""}<th>cum. OIP3 (dBm)</th><th>cum. OP1dB (dBm)</th></tr></thead><tbody>${rows}</tbody></table>`;
+    })
+    .join("\n");
+  return `<h2>Line-ups of the noise, gain and headroom rules</h2>
+<p class="small muted">Gain from the actual waves; noise figure through the interconnection; cascade OIP3 and OP1dB by the usual formulas (common practice).</p>
+${body}`;
+}
+
 function ledgerSection(results: BundleResults): string {
   const ledgers = results.checks.results.ledgers;
   return ledgers
@@ -207,6 +232,7 @@ ${warnings}
 ${tracesSection(results)}
 <h2>Leak traces of the isolation rules</h2>
 ${leakSection(results)}
+${lineupSection(results)}
 <h2>Power ledger</h2>
 ${ledgerSection(results)}
 <h2>Files of this bundle</h2>

@@ -1,0 +1,59 @@
+import { expect, test, type Page } from "@playwright/test";
+import { demoUsers, signIn } from "./helpers";
+
+// The line-up (issue 16) from the helm on the seeded demo project (db/seed-scenarios.ts): TX → MON runs
+// through the driver pad, the TX band-pass part and the monitor coupler. Keyboard only after signing in.
+const DEMO_PROJECT = "Kestrel telemetry front end";
+
+test.describe.configure({ timeout: 120_000 });
+
+const helm = (page: Page) => page.getByRole("dialog", { name: "Helm" });
+const helmInput = (page: Page) => helm(page).getByRole("combobox");
+
+async function command(page: Page, text: string): Promise<void> {
+  await page.keyboard.press("Control+k");
+  await expect(helmInput(page)).toBeFocused();
+  await page.keyboard.type(text);
+  await expect(helm(page).locator('[cmdk-item][data-selected="true"]')).toContainText(text.replace(/…$/, ""));
+  await page.keyboard.press("Enter");
+}
+
+async function answer(page: Page, prompt: string, text?: string): Promise<void> {
+  await expect(helmInput(page)).toHaveAttribute("aria-label", prompt);
+  if (text !== undefined) {
+    await page.keyboard.press("Control+a");
+    await page.keyboard.type(text);
+  }
+  await page.keyboard.press("Enter");
+}
+
+test("keyboard only: a line-up from the helm shows its stages, the chart along the path and the traces", async ({ page }) => {
+  await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 30_000 });
+  await command(page, "Go to project…");
+  await answer(page, "Project", DEMO_PROJECT);
+  await expect(page).toHaveURL(/\/projects\/[^/]+$/);
+  await command(page, "Open scenario Baseline");
+  await expect(page.getByTestId("workspace")).toBeVisible({ timeout: 30_000 });
+
+  await command(page, "Line-up: gain, noise figure and levels along a path…");
+  await answer(page, "From port", "TX");
+  await answer(page, "To port", "MON");
+  await answer(page, "Input level (dBm, blank for none)", "0 dBm");
+
+  const result = page.getByRole("article", { name: "Line-up result" });
+  await expect(result).toBeVisible({ timeout: 30_000 });
+  await expect(result.getByTestId("check-headline")).toContainText("TX→MON through 3 stages");
+  const rows = result.getByRole("row");
+  await expect(rows).toHaveCount(4); // header + DRV, TXBPF, CPL
+  await expect(rows.nth(1)).toContainText("DRV 1→2");
+  await expect(rows.nth(3)).toContainText("CPL 1→3");
+  await expect(result.getByRole("img", { name: /^Level and cumulative noise figure along the path at / })).toBeVisible();
+  // the slider moves the table and the chart to another plan frequency
+  const at = result.getByTestId("lineup-frequency");
+  const before = await at.textContent();
+  await result.getByRole("slider", { name: "Line-up frequency" }).focus();
+  await page.keyboard.press("End");
+  await expect(at).not.toHaveText(before ?? "");
+  await expect(result.getByRole("region", { name: "Gain and noise figure over frequency" })).toBeVisible();
+});
