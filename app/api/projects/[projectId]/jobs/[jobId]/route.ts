@@ -1,0 +1,29 @@
+import { z } from "zod";
+import { apiRoute, json, parseWith } from "@/lib/server/api";
+import { allow, resolveAccess } from "@/lib/server/permissions";
+import { cancelJob, getJob } from "@/lib/server/jobs/registry";
+
+type Params = { projectId: string; jobId: string };
+
+const jobIdSchema = z.string().uuid("Give a job id.");
+
+/**
+ * GET → { job }: a long job's state (queued, running, done, failed, cancelled), progress
+ * `{ phase, fraction }`, the stored run's id when done, the error when failed (anyone in the project).
+ */
+export const GET = apiRoute<Params>(async (ctx) => {
+  const jobId = parseWith(jobIdSchema, ctx.params.jobId);
+  const user = await ctx.requireUser();
+  const access = await resolveAccess({ userId: user.id, projectId: ctx.params.projectId });
+  allow(access, "scenario.read");
+  return json({ job: getJob({ projectId: access.projectId, jobId }) });
+});
+
+/** DELETE → { job }: cancels a queued or running job (who started it, or an owner); nothing is stored. */
+export const DELETE = apiRoute<Params>(async (ctx) => {
+  const jobId = parseWith(jobIdSchema, ctx.params.jobId);
+  const user = await ctx.requireUser();
+  const access = await resolveAccess({ userId: user.id, projectId: ctx.params.projectId });
+  allow(access, "check.run");
+  return json({ job: cancelJob({ projectId: access.projectId, jobId, userId: user.id, isOwner: access.role === "owner" }) });
+});
