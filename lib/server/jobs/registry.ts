@@ -1,23 +1,9 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
 import { AppError } from "@/lib/base/errors";
-import type { JobProgress } from "./tasks";
+import type { JobProgress, JobView } from "@/lib/domain/jobs";
 
-/** What a long job reports to GET /api/projects/:p/jobs/:id. */
-export type JobView = {
-  id: string;
-  projectId: string;
-  scenarioId: string;
-  kind: string;
-  state: "queued" | "running" | "done" | "failed" | "cancelled";
-  progress: JobProgress | null;
-  /** the stored check run when done */
-  runId: string | null;
-  /** what went wrong when failed: the message a person can act on, and its status */
-  error: { code: string; status: number; message: string } | null;
-  createdAt: string;
-  finishedAt: string | null;
-};
+export type { JobView };
 
 type Entry = JobView & { userId: string; controller: AbortController };
 

@@ -14,6 +14,7 @@ import { isAppError } from "@/lib/base/errors";
 import { renderReportHtml } from "@/lib/server/bundle/report-html";
 import { executeCheck } from "@/lib/domain/checks/execute";
 import type { CheckRunRequest } from "@/lib/domain/checks/inputs";
+import type { JobProgress } from "@/lib/domain/jobs";
 import { solutionToCsv } from "@/lib/domain/results/results-math";
 import { scenarioForEngine } from "@/lib/domain/scenarios/for-engine";
 
@@ -42,8 +43,7 @@ export type JobOutput =
   | { ok: true; kind: "bundle"; bytes: Uint8Array; verdict: "pass" | "fail" | "warn" }
   | JobRefusal;
 
-/** Progress a task reports while it runs: a phase and the fraction done (0…1). */
-export type JobProgress = { phase: "estimating" | "solving" | "checking" | "storing"; fraction: number };
+export type { JobProgress };
 
 function refusal(error: unknown): JobRefusal | null {
   if (error instanceof SizeLimitError) {
