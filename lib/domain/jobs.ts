@@ -17,4 +17,6 @@ export type JobView = {
   error: { code: string; status: number; message: string } | null;
   createdAt: string;
   finishedAt: string | null;
+  /** who ran it: "app" (this server's pool) or the queue worker process that took it ("worker <pid>@<host>") */
+  takenBy: string | null;
 };

@@ -9,6 +9,7 @@ import { CHECK_TITLES, type CheckName, type CheckRunRequest } from "@/lib/domain
 import type { CheckRunView } from "@/lib/domain/checks/types";
 import { allow, type ProjectAccess } from "@/lib/server/permissions";
 import { refusalError, runInPool, taskLimits } from "@/lib/server/jobs/pool";
+import { enqueueCheck, queueEnabled } from "@/lib/server/jobs/queue";
 import { startJob, type JobView } from "@/lib/server/jobs/registry";
 import type { JobProgress, JobTask } from "@/lib/server/jobs/tasks";
 
@@ -68,12 +69,15 @@ export async function runCheck({ access, scenarioId, request, signal }: { access
 
 /**
  * Start a long check (LONG_CHECKS) as a job: the size is checked first (422 before any job exists), then
- * the job runs in the background and is followed at GET /api/projects/:p/jobs/:id.
+ * the job runs in the background (this server's pool, or the Redis queue when REDIS_URL is set) and is
+ * followed at GET /api/projects/:p/jobs/:id.
  */
 export async function startCheckJob({ access, scenarioId, request, signal }: { access: ProjectAccess; scenarioId: string; request: CheckRunRequest; signal?: AbortSignal }): Promise<JobView> {
   const prepared = await prepareCheck(access, scenarioId, request);
   const estimate = await runInPool({ ...prepared.task, kind: "estimate" }, { signal });
   if (!estimate.ok) throw refusalError(estimate, prepared.prefix);
+  // with REDIS_URL, a worker process (npm run worker) takes it and stores the run
+  if (queueEnabled()) return enqueueCheck({ projectId: access.projectId, scenarioId, revisionId: prepared.revision.id, userId: access.userId, task: prepared.task });
   return startJob({ projectId: access.projectId, scenarioId, userId: access.userId, kind: request.check }, ({ signal: jobSignal, report }) =>
     executeAndStore(access, scenarioId, prepared, { signal: jobSignal, onProgress: report }),
   );

@@ -48,6 +48,7 @@ export function startJob(
     error: null,
     createdAt: new Date().toISOString(),
     finishedAt: null,
+    takenBy: "app",
     controller: new AbortController(),
   };
   jobs.set(entry.id, entry);
