@@ -53,7 +53,7 @@ export async function buildJobWorkers() {
   };
   await build({ ...common, entryPoints: [join(root, "lib", "server", "jobs", "worker-entry.ts")], outfile: WORKER_OUTFILE });
   const queueEntry = join(root, "lib", "server", "jobs", "queue-worker.ts");
-  if (existsSync(queueEntry)) await build({ ...common, entryPoints: [queueEntry], outfile: QUEUE_WORKER_OUTFILE, packages: "external", alias: { "server-only": join(root, "scripts", "server-only-shim.mjs") } });
+  if (existsSync(queueEntry)) await build({ ...common, entryPoints: [queueEntry], outfile: QUEUE_WORKER_OUTFILE, external: ["@libsql/client", "@node-rs/argon2", "bullmq", "ioredis", "piscina", "nodemailer", "smtp-server"], alias: { "server-only": join(root, "scripts", "server-only-shim.mjs") } });
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
