@@ -15,17 +15,31 @@ import { requireScenarioRow } from "./revisions";
 /**
  * Store one run (the caller has authorised check.run and computed the outcome), its figures as gzip'd
  * JSON, then apply the retention rule to its (scenario, check, revision): the `keep` newest runs stay, and
- * every pinned run (one a sign-off or bundle refers to); older ones are deleted. One transaction.
+ * every pinned run (one a sign-off or bundle refers to); older ones are deleted. One atomic batch.
  */
 export async function insertCheckRun(
   run: { id: string; scenarioId: string; revisionId: string; userId: string; check: CheckName; inputs: Record<string, unknown>; verdict: Verdict; headline: string; figuresGz: Uint8Array },
   { keep }: { keep: number },
 ): Promise<void> {
-  await runInTransaction(async (tx) => {
-    const { figuresGz, ...rest } = run;
-    await tx.insert(checkRuns).values({ ...rest, figuresGz: Buffer.from(figuresGz), figuresBytes: figuresGz.byteLength });
-    await pruneRuns(tx, { scenarioId: run.scenarioId, keep, check: run.check, revisionId: run.revisionId });
-  });
+  const { figuresGz, ...rest } = run;
+  // one batch (atomic, one implicit transaction) rather than an interactive transaction: concurrent check
+  // runs then never wait on each other's open transaction and fail as "database is locked"
+  await db.batch([
+    db.insert(checkRuns).values({ ...rest, figuresGz: Buffer.from(figuresGz), figuresBytes: figuresGz.byteLength }),
+    db.run(pruneStatement({ scenarioId: run.scenarioId, keep, check: run.check, revisionId: run.revisionId })),
+  ]);
+}
+
+function pruneStatement({ scenarioId, keep, check, revisionId }: { scenarioId: string; keep: number; check?: CheckName; revisionId?: string }) {
+  const group = check !== undefined && revisionId !== undefined ? sql` and ${checkRuns.check} = ${check} and ${checkRuns.revisionId} = ${revisionId}` : sql``;
+  // rank within (check, revision), newest first; rowid orders runs of the same second (created_at has whole seconds)
+  return sql`
+    delete from ${checkRuns} where id in (
+      select id from (
+        select id, pinned, row_number() over (partition by "check", revision_id order by created_at desc, rowid desc) as rank
+        from ${checkRuns} where ${checkRuns.scenarioId} = ${scenarioId}${group}
+      ) where rank > ${keep} and pinned = 0
+    )`;
 }
 
 /**
@@ -35,15 +49,7 @@ export async function insertCheckRun(
  * @returns the number of runs deleted
  */
 export async function pruneRuns(executor: Executor, { scenarioId, keep, check, revisionId }: { scenarioId: string; keep: number; check?: CheckName; revisionId?: string }): Promise<number> {
-  const group = check !== undefined && revisionId !== undefined ? sql` and ${checkRuns.check} = ${check} and ${checkRuns.revisionId} = ${revisionId}` : sql``;
-  // rank within (check, revision), newest first; rowid orders runs of the same second (created_at has whole seconds)
-  const result = await executor.run(sql`
-    delete from ${checkRuns} where id in (
-      select id from (
-        select id, pinned, row_number() over (partition by "check", revision_id order by created_at desc, rowid desc) as rank
-        from ${checkRuns} where ${checkRuns.scenarioId} = ${scenarioId}${group}
-      ) where rank > ${keep} and pinned = 0
-    )`);
+  const result = await executor.run(pruneStatement({ scenarioId, keep, check, revisionId }));
   return Number((result as { rowsAffected?: number }).rowsAffected ?? 0);
 }
 

@@ -217,6 +217,15 @@ describe("stored runs are bounded", () => {
     expect(stored.bytes).toBe(stored.gz!.byteLength);
   });
 
+  it("concurrent check runs are all stored, and the group still ends at RUNS_KEPT", async () => {
+    const id = ids["Cheaper switch"];
+    const isolation = { check: "isolation", inputs: { from: "TX", to: "RX", band: [2.4e9, 2.48e9], min_db: 30 } };
+    const answers = await Promise.all(Array.from({ length: 6 }, () => postRun(id, isolation)));
+    expect(answers.map((r) => r.status)).toEqual([201, 201, 201, 201, 201, 201]);
+    const rows = await db.select({ id: checkRuns.id }).from(checkRuns).where(and(eq(checkRuns.scenarioId, id), eq(checkRuns.check, "isolation")));
+    expect(rows).toHaveLength(2);
+  });
+
   it("runs stored as JSON text before the migration stay readable, and clearing keeps the rule", async () => {
     const id = ids.Baseline;
     const [revision] = await db.select({ id: scenarios.latestRevisionId }).from(scenarios).where(eq(scenarios.id, id));
