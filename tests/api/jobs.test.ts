@@ -135,6 +135,18 @@ describe("solves run off the request's thread", () => {
   });
 });
 
+describe("time limit", () => {
+  it("a job past its time limit is stopped with 504 job_timeout", async () => {
+    const { runInPool, taskLimits } = await import("@/lib/server/jobs/pool");
+    const task = { kind: "solve" as const, content: chain(40, 50_001) as never, parts: {}, format: "json" as const, scenarioName: "chain", ...taskLimits() };
+    // the heavy chain takes seconds; 50 ms is far below that on any machine
+    await expect(runInPool(task, { timeLimitMs: 50 })).rejects.toMatchObject({ code: "job_timeout", status: 504 });
+    // the pool still works after the thread was ended
+    const small = await runInPool({ ...task, content: chain(3, 11) as never });
+    expect(small.ok).toBe(true);
+  });
+});
+
 describe("only what is needed is loaded", () => {
   it("a solve reads the parts its scenario names, not the project's others", async () => {
     const { getPartTexts, partFilesOf } = await import("@/db/queries/parts");
