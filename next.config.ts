@@ -3,7 +3,7 @@ import type { NextConfig } from "next";
 const nextConfig: NextConfig = {
   // No "X-Powered-By: Next.js": it only tells an attacker what to try.
   poweredByHeader: false,
-  serverExternalPackages: ["@libsql/client", "@node-rs/argon2", "smtp-server", "nodemailer"],
+  serverExternalPackages: ["@libsql/client", "@node-rs/argon2", "smtp-server", "nodemailer", "piscina", "bullmq", "ioredis"],
   experimental: {
     serverActions: { bodySizeLimit: "2mb" },
   },

@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 // types only (erased at build time): the JSON columns hold these shapes
 import type { RuleSpec, Scenario } from "../engine/types";
 import type { CheckName } from "../lib/domain/checks/inputs";
@@ -290,6 +290,7 @@ export const checkRuns = sqliteTable(
     check: text("check").notNull().$type<CheckName>(),
     inputs: text("inputs", { mode: "json" }).$type<Record<string, unknown>>(),
     verdict: text("verdict", { enum: ["pass", "fail", "warn"] }).notNull(),
+    /** figures of runs stored before issue 14 (JSON text); newer runs leave it null and fill figures_gz */
     figures: text("figures", { mode: "json" }).$type<CheckFigures>(),
     /**
      * What the verdict is of (docs/checks.md "Verdict identity"): the revision's content hash, the SHA-256
@@ -299,9 +300,20 @@ export const checkRuns = sqliteTable(
     contentHash: text("content_hash"),
     rulesHash: text("rules_hash"),
     engineVersion: text("engine_version"),
+    /** the figures as gzip'd JSON (lib/server/check-runs.ts): a few times smaller than the text */
+    figuresGz: blob("figures_gz", { mode: "buffer" }),
+    /** the figures' one-line summary, so that lists never read the figures */
+    headline: text("headline"),
+    /** the stored size of the figures in bytes (either column), for the storage view */
+    figuresBytes: integer("figures_bytes").notNull().default(0),
+    /** kept by the retention rule whatever its age: a sign-off or bundle refers to it */
+    pinned: integer("pinned", { mode: "boolean" }).notNull().default(false),
     createdAt: createdAt(),
   },
-  (table) => [index("check_runs_scenario_id_idx").on(table.scenarioId, table.createdAt)],
+  (table) => [
+    index("check_runs_scenario_id_idx").on(table.scenarioId, table.createdAt),
+    index("check_runs_retention_idx").on(table.scenarioId, table.check, table.revisionId, table.createdAt),
+  ],
 );
 export type CheckRun = typeof checkRuns.$inferSelect;
 export type NewCheckRun = typeof checkRuns.$inferInsert;

@@ -28,28 +28,34 @@ has_skrf() {
 has_chromium() {
   [ -x /usr/bin/chromium ]
 }
+# tests/api/queue.test.ts starts Debian's redis-server on a loopback port (REDIS_URL, BullMQ)
+has_redis() {
+  [ -x /usr/bin/redis-server ] && command -v redis-cli >/dev/null 2>&1
+}
 
 missing=()
 has_chromium || missing+=("chromium")
 has_skrf || missing+=("python3-scikit-rf" "python3-numpy")
+has_redis || missing+=("redis-server")
 
 if [ "${#missing[@]}" -gt 0 ]; then
   if [ "$(id -u)" -eq 0 ] && command -v apt-get >/dev/null 2>&1; then
     echo "Installing missing system packages: ${missing[*]}"
     apt-get update
-    DEBIAN_FRONTEND=noninteractive apt-get install -y chromium python3-scikit-rf python3-numpy
+    DEBIAN_FRONTEND=noninteractive apt-get install -y chromium python3-scikit-rf python3-numpy redis-server
   else
     {
       echo "Missing system packages: ${missing[*]}"
       echo "  /usr/bin/chromium runs the browser tests; Debian's /usr/bin/python3 with scikit-rf and numpy"
-      echo "  is the reference for the engine tests. Install them as root (Debian or Ubuntu):"
-      echo "    sudo apt-get update && sudo apt-get install -y chromium python3-scikit-rf python3-numpy"
+      echo "  is the reference for the engine tests; redis-server backs the queue tests. Install them as root:"
+      echo "    sudo apt-get update && sudo apt-get install -y chromium python3-scikit-rf python3-numpy redis-server"
       echo "  then run npm test again. (Never use 'npx playwright install': the tests use Debian's chromium.)"
     } >&2
     exit 1
   fi
   has_chromium || { echo "chromium is still missing after apt-get install" >&2; exit 1; }
   has_skrf || { echo "/usr/bin/python3 still cannot import numpy and skrf after apt-get install" >&2; exit 1; }
+  has_redis || { echo "redis-server is still missing after apt-get install" >&2; exit 1; }
 fi
 
 step="running vitest (unit, API and engine tests)"

@@ -10,8 +10,11 @@ import { can, type Role } from "@/lib/base/permission-table";
 import { addBlock, setSwitchState, setSystemPort, type PartSummary } from "@/lib/browser/scenario-model";
 import { CARD_WIDTH } from "@/components/chart";
 import type { LeakTraceResult } from "@/engine/checks";
-import type { CheckName } from "@/lib/domain/checks/inputs";
-import { checkRunUrls, fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
+import { CHECK_TITLES, type CheckName } from "@/lib/domain/checks/inputs";
+import type { JobView } from "@/lib/domain/jobs";
+import { checkRunUrls, fetchJson, jobUrls, requestJson, scenarioUrls } from "@/lib/browser/api-client";
+import { JobProgress } from "./job-progress";
+import { RunStorage } from "./run-storage";
 import { ChecksPanel } from "./checks-panel";
 import { highlightOfPath, type ChartHighlight } from "./leak-trace-view";
 import type { CheckRunView } from "@/lib/domain/checks/types";
@@ -61,6 +64,32 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
   const [pathRank, setPathRank] = useState<number | null>(null);
   const [leak, setLeak] = useState<LeakTraceResult | null>(null);
   const box = useRef<HTMLDivElement>(null);
+  const [job, setJob] = useState<JobView | null>(null);
+  const jobRef = useRef<JobView | null>(null);
+
+  /** Polls a long job until it finishes: its run when done, null when cancelled; throws its error when it failed. */
+  const followJob = useCallback(
+    async (started: JobView): Promise<CheckRunView | null> => {
+      let current = started;
+      jobRef.current = current;
+      setJob(current);
+      try {
+        while (current.state === "queued" || current.state === "running") {
+          await new Promise((resolve) => setTimeout(resolve, 400));
+          current = (await requestJson<{ job: JobView }>(jobUrls.one(projectId, started.id))).job;
+          jobRef.current = current;
+          setJob(current);
+        }
+      } finally {
+        jobRef.current = null;
+        setJob(null);
+      }
+      if (current.state === "cancelled") return null;
+      if (current.state === "failed" || !current.runId) throw new Error(current.error?.message ?? "The job failed.");
+      return (await requestJson<{ run: CheckRunView }>(checkRunUrls.one(projectId, scenarioId, current.runId))).run;
+    },
+    [projectId, scenarioId],
+  );
 
   // a new revision (a save, a rule edit on the Rules panel) makes earlier runs verdicts of an older revision
   useEffect(() => {
@@ -92,9 +121,13 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
       setRunning(check);
       setError(null);
       try {
-        const { run } = await requestJson<{ run: CheckRunView }>(checkRunUrls.list(projectId, scenarioId), { method: "POST", json: { check, inputs, revisionId } });
+        const answer = await requestJson<{ run?: CheckRunView; job?: JobView }>(checkRunUrls.list(projectId, scenarioId), { method: "POST", json: { check, inputs, revisionId } });
+        // a long check (state sweep) answers with a job: follow it until it has stored its run
+        const run = answer.run ?? (answer.job ? await followJob(answer.job) : null);
+        if (!run) return;
         await mutate(checkRunUrls.one(projectId, scenarioId, run.id), { run }, { revalidate: false });
         await mutate(checkRunUrls.list(projectId, scenarioId));
+        await mutate(jobUrls.storage(projectId, scenarioId));
         setSelected(run.id);
         if (run.check === "leak_trace") {
           const result = run.figures.result;
@@ -111,8 +144,14 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
         setRunning(null);
       }
     },
-    [mutate, projectId, revisionId, scenarioId],
+    [mutate, projectId, revisionId, scenarioId, followJob],
   );
+
+  const cancelJob = useCallback(() => {
+    const current = jobRef.current;
+    if (!current) return;
+    void requestJson(jobUrls.one(projectId, current.id), { method: "DELETE" }).catch(() => undefined);
+  }, [projectId]);
 
   const edit = (result: { ok: true; scenario: Scenario } | { ok: false; reason: string }, done: string) => {
     if (result.ok) {
@@ -163,6 +202,7 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
           Helm: {notice}
         </p>
       ) : null}
+      {job ? <JobProgress job={job} title={CHECK_TITLES[job.kind as CheckName] ?? job.kind} onCancel={cancelJob} /> : null}
       <ChecksPanel
         projectId={projectId}
         scenarioId={scenarioId}
@@ -178,6 +218,7 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
       />
       {revisionNumber > 0 ? <p className="mt-1 text-xs text-muted">Checks run on the saved revision r{revisionNumber}; unsaved edits are not included.</p> : null}
       {readOnly && !can(role, "check.run") ? <Alert tone="info">Your role cannot run checks.</Alert> : null}
+      <RunStorage projectId={projectId} scenarioId={scenarioId} canClear={can(role, "runs.clear")} />
     </div>
   );
 }

@@ -1,15 +1,22 @@
 import "server-only";
 import { and, desc, eq, sql } from "drizzle-orm";
-import { db, type Executor } from "@/db/client";
+import { gunzipSync } from "node:zlib";
+import { db, runInTransaction, type Executor } from "@/db/client";
 import { checkRuns, scenarioRevisions, users } from "@/db/schema";
 import type { Verdict } from "@/engine/checks";
 import type { CheckName } from "@/lib/domain/checks/inputs";
 import type { CheckFigures, CheckRunSummary, CheckRunView } from "@/lib/domain/checks/types";
+import { recordAudit } from "@/lib/server/audit";
+import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
 import { allow, type ProjectAccess } from "@/lib/server/permissions";
 import { requireScenarioRow } from "./revisions";
 
-/** Store one run (the caller has authorised check.run and computed the outcome). */
+/**
+ * Store one run (the caller has authorised check.run and computed the outcome), its figures as gzip'd
+ * JSON, then apply the retention rule to its (scenario, check, revision): the `keep` newest runs stay, and
+ * every pinned run (one a sign-off or bundle refers to); older ones are deleted. One atomic batch.
+ */
 export async function insertCheckRun(
   run: {
     id: string;
@@ -19,14 +26,77 @@ export async function insertCheckRun(
     check: CheckName;
     inputs: Record<string, unknown>;
     verdict: Verdict;
-    figures: CheckFigures;
+    headline: string;
+    figuresGz: Uint8Array;
     contentHash: string;
     rulesHash: string;
     engineVersion: string;
   },
-  executor: Executor = db,
+  { keep }: { keep: number },
 ): Promise<void> {
-  await executor.insert(checkRuns).values(run);
+  const { figuresGz, ...rest } = run;
+  // one batch (atomic, one implicit transaction) rather than an interactive transaction: concurrent check
+  // runs then never wait on each other's open transaction and fail as "database is locked"
+  await db.batch([
+    db.insert(checkRuns).values({ ...rest, figuresGz: Buffer.from(figuresGz), figuresBytes: figuresGz.byteLength }),
+    db.run(pruneStatement({ scenarioId: run.scenarioId, keep, check: run.check, revisionId: run.revisionId })),
+  ]);
+}
+
+function pruneStatement({ scenarioId, keep, check, revisionId }: { scenarioId: string; keep: number; check?: CheckName; revisionId?: string }) {
+  const group = check !== undefined && revisionId !== undefined ? sql` and ${checkRuns.check} = ${check} and ${checkRuns.revisionId} = ${revisionId}` : sql``;
+  // rank within (check, revision), newest first; rowid orders runs of the same second (created_at has whole seconds)
+  return sql`
+    delete from ${checkRuns} where id in (
+      select id from (
+        select id, pinned, row_number() over (partition by "check", revision_id order by created_at desc, rowid desc) as rank
+        from ${checkRuns} where ${checkRuns.scenarioId} = ${scenarioId}${group}
+      ) where rank > ${keep} and pinned = 0
+    )`;
+}
+
+/**
+ * Deletes a scenario's runs beyond the `keep` newest of each (check, revision), pinned runs excepted;
+ * with `check` and `revisionId`, only in that group.
+ *
+ * @returns the number of runs deleted
+ */
+export async function pruneRuns(executor: Executor, { scenarioId, keep, check, revisionId }: { scenarioId: string; keep: number; check?: CheckName; revisionId?: string }): Promise<number> {
+  const result = await executor.run(pruneStatement({ scenarioId, keep, check, revisionId }));
+  return Number((result as { rowsAffected?: number }).rowsAffected ?? 0);
+}
+
+/** Storage of a scenario's runs: count and bytes, and how many of them the retention rule would delete. */
+export type RunStorage = { runs: number; bytes: number; pinned: number; clearable: number; clearableBytes: number; keptPerCheck: number };
+
+/** What a scenario's check runs take (anyone in the project may see it). */
+export async function runStorage({ access, scenarioId, keep }: { access: ProjectAccess; scenarioId: string; keep: number }): Promise<RunStorage> {
+  allow(access, "scenario.read");
+  await requireScenarioRow(db, { projectId: access.projectId, scenarioId });
+  const [row] = (await db.all(sql`
+    select count(*) as runs, coalesce(sum(figures_bytes), 0) as bytes, coalesce(sum(pinned), 0) as pinned,
+      coalesce(sum(case when rank > ${keep} and pinned = 0 then 1 else 0 end), 0) as clearable,
+      coalesce(sum(case when rank > ${keep} and pinned = 0 then figures_bytes else 0 end), 0) as clearableBytes
+    from (
+      select figures_bytes, pinned, row_number() over (partition by "check", revision_id order by created_at desc, rowid desc) as rank
+      from ${checkRuns} where ${checkRuns.scenarioId} = ${scenarioId}
+    )`)) as { runs: number; bytes: number; pinned: number; clearable: number; clearableBytes: number }[];
+  return { runs: Number(row.runs), bytes: Number(row.bytes), pinned: Number(row.pinned), clearable: Number(row.clearable), clearableBytes: Number(row.clearableBytes), keptPerCheck: keep };
+}
+
+/**
+ * Clears a scenario's runs beyond the retention rule (owners: project.update); audited.
+ *
+ * @returns how many runs were deleted
+ */
+export async function clearRuns({ access, actor, scenarioId, keep }: { access: ProjectAccess; actor: SessionUser; scenarioId: string; keep: number }): Promise<number> {
+  allow(access, "runs.clear");
+  const scenario = await requireScenarioRow(db, { projectId: access.projectId, scenarioId });
+  return runInTransaction(async (tx) => {
+    const deleted = await pruneRuns(tx, { scenarioId, keep });
+    await recordAudit(tx, { actor, projectId: access.projectId, action: "check_runs.clear", target: scenario.name, detail: { scenarioId, deleted, kept: keep } });
+    return deleted;
+  });
 }
 
 const runColumns = {
@@ -37,18 +107,24 @@ const runColumns = {
   check: checkRuns.check,
   inputs: checkRuns.inputs,
   verdict: checkRuns.verdict,
-  figures: checkRuns.figures,
   contentHash: checkRuns.contentHash,
   rulesHash: checkRuns.rulesHash,
   engineVersion: checkRuns.engineVersion,
+  headline: checkRuns.headline,
   userName: users.name,
   createdAt: checkRuns.createdAt,
 };
 
-type RunRow = { [K in keyof typeof runColumns]: unknown };
+type RunRow = { [K in keyof typeof runColumns]: unknown } & { figures?: unknown; figuresGz?: unknown };
+
+/** The stored figures: gzip'd JSON in figures_gz, or the JSON text of runs stored before it existed. */
+function readFigures(row: { figures?: unknown; figuresGz?: unknown }): CheckFigures {
+  if (row.figuresGz) return JSON.parse(gunzipSync(row.figuresGz as Uint8Array).toString("utf8")) as CheckFigures;
+  return (row.figures ?? { headline: "", result: null }) as CheckFigures;
+}
 
 function toView(row: RunRow): CheckRunView {
-  const figures = (row.figures ?? { headline: "", result: null }) as CheckFigures;
+  const figures = "figures" in row || "figuresGz" in row ? readFigures(row) : ({ headline: (row.headline as string | null) ?? "", result: null } as unknown as CheckFigures);
   return {
     id: row.id as string,
     scenarioId: row.scenarioId as string,
@@ -57,7 +133,7 @@ function toView(row: RunRow): CheckRunView {
     check: row.check as CheckName,
     inputs: (row.inputs as Record<string, unknown> | null) ?? {},
     verdict: row.verdict as Verdict,
-    headline: figures.headline ?? "",
+    headline: (row.headline as string | null) ?? figures.headline ?? "",
     contentHash: (row.contentHash as string | null) ?? null,
     rulesHash: (row.rulesHash as string | null) ?? null,
     engineVersion: (row.engineVersion as string | null) ?? null,
@@ -119,7 +195,7 @@ export async function getCheckRun({ access, scenarioId, runId }: { access: Proje
   allow(access, "scenario.read");
   await requireScenarioRow(db, { projectId: access.projectId, scenarioId }); // 404s a foreign scenario
   const [row] = await db
-    .select(runColumns)
+    .select({ ...runColumns, figures: checkRuns.figures, figuresGz: checkRuns.figuresGz })
     .from(checkRuns)
     .leftJoin(scenarioRevisions, eq(scenarioRevisions.id, checkRuns.revisionId))
     .leftJoin(users, eq(users.id, checkRuns.userId))

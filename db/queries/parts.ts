@@ -1,6 +1,6 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { and, asc, eq } from "drizzle-orm";
+import { and, asc, eq, inArray } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { parts, scenarioRevisions, scenarios, type Part } from "@/db/schema";
 import { parseTouchstone, TouchstoneError, type TouchstoneData } from "@/engine/touchstone";
@@ -37,9 +37,27 @@ function summarise(row: Part, withText: boolean): PartSummaryRow {
   };
 }
 
-/** Touchstone texts of a project's parts keyed as blocks name them (`parts/<fileName>`). */
-export async function getPartTexts({ projectId, executor = db }: { projectId: string; executor?: Executor }): Promise<Record<string, string>> {
-  const rows = await executor.select({ fileName: parts.fileName, text: parts.text }).from(parts).where(eq(parts.projectId, projectId));
+/** The part files a scenario's blocks name (`parts/<fileName>`), each once: what a solve of it reads. */
+export function partFilesOf(content: { blocks?: readonly { kind?: string; file?: string; data?: string }[] } | null | undefined): string[] {
+  const files = new Set<string>();
+  for (const block of content?.blocks ?? []) {
+    if (block.kind === "touchstone" && block.data === undefined && typeof block.file === "string") files.add(block.file);
+  }
+  return [...files];
+}
+
+/**
+ * Touchstone texts of a project's parts keyed as blocks name them (`parts/<fileName>`). With `files`
+ * (as blocks name them, see partFilesOf) only those are read: a solve never loads parts it does not use.
+ */
+export async function getPartTexts({ projectId, files, executor = db }: { projectId: string; files?: readonly string[]; executor?: Executor }): Promise<Record<string, string>> {
+  let where = eq(parts.projectId, projectId);
+  if (files) {
+    const names = files.filter((f) => f.startsWith("parts/")).map((f) => f.slice("parts/".length));
+    if (names.length === 0) return {};
+    where = and(where, inArray(parts.fileName, names))!;
+  }
+  const rows = await executor.select({ fileName: parts.fileName, text: parts.text }).from(parts).where(where);
   return Object.fromEntries(rows.map((r) => [`parts/${r.fileName}`, r.text]));
 }
 

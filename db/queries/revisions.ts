@@ -12,7 +12,7 @@ import { AppError } from "@/lib/base/errors";
 import { authorize } from "@/lib/server/permissions";
 import type { DraftScenario } from "@/lib/base/validation/scenarios";
 import { stampRuleChanges } from "@/lib/domain/rules/stamp";
-import { getPartTexts } from "./parts";
+import { getPartTexts, partFilesOf } from "./parts";
 
 export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed" | "import" | "migrate";
 
@@ -79,7 +79,7 @@ export async function insertRevision(
   const number = row.number + 1;
   // the row's name is the scenario's name; the file's `name` follows it
   const stored = { ...(content as Scenario), name: row.name };
-  const warnings = scenarioWarnings(stored, await getPartTexts({ projectId, executor: tx }));
+  const warnings = scenarioWarnings(stored, await getPartTexts({ projectId, files: partFilesOf(stored), executor: tx }));
   const id = randomUUID();
   const now = new Date();
   const contentHash = hashScenarioContent(stored);

@@ -1,6 +1,6 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { asc, eq } from "drizzle-orm";
+import { asc, eq, sql } from "drizzle-orm";
 import { db, runInTransaction } from "@/db/client";
 import { scenarioRevisions, scenarios, users, type Role } from "@/db/schema";
 import { scenarioFromTemplate } from "@/lib/domain/scenarios/templates";
@@ -58,8 +58,10 @@ export async function listScenarios({ userId, projectId }: { userId: string; pro
       revisionNumber: scenarios.latestRevisionNumber,
       updatedAt: scenarios.updatedAt,
       createdAt: scenarios.createdAt,
-      content: scenarioRevisions.content,
-      warnings: scenarioRevisions.warnings,
+      // counted in SQLite: the list never reads revision contents into the server
+      blockCount: sql<number>`coalesce(json_array_length(${scenarioRevisions.content}, '$.blocks'), 0)`,
+      portNames: sql<string | null>`(select json_group_array(json_extract(p.value, '$.name')) from json_each(${scenarioRevisions.content}, '$.ports') as p)`,
+      warningCount: sql<number>`coalesce(json_array_length(${scenarioRevisions.warnings}), 0)`,
       updatedByName: users.name,
     })
     .from(scenarios)
@@ -67,14 +69,12 @@ export async function listScenarios({ userId, projectId }: { userId: string; pro
     .leftJoin(users, eq(users.id, scenarioRevisions.authorId))
     .where(eq(scenarios.projectId, projectId))
     .orderBy(asc(scenarios.name));
-  return rows.map(({ content: scenario, warnings, ...row }) => {
-    return {
-      ...row,
-      blockCount: scenario?.blocks?.length ?? 0,
-      portNames: (scenario?.ports ?? []).map((p) => p.name),
-      warningCount: warnings?.length ?? 0,
-    };
-  });
+  return rows.map(({ portNames, blockCount, warningCount, ...row }) => ({
+    ...row,
+    blockCount: Number(blockCount),
+    portNames: portNames ? (JSON.parse(portNames) as (string | null)[]).filter((n): n is string => typeof n === "string") : [],
+    warningCount: Number(warningCount),
+  }));
 }
 
 /** A scenario with its latest revision (or the revision asked for) and the viewer's role. */

@@ -14,17 +14,37 @@ export type PartSource = {
   parts?: Record<string, string>;
 };
 
-const CACHE_LIMIT = 64;
-const cache = new Map<string, TouchstoneData>();
+/** Default memory cap of the parsed-part cache: 256 MiB (a server sets its own with setPartCacheLimit). */
+export const DEFAULT_PART_CACHE_BYTES = 256 * 1024 ** 2;
+
+type CacheEntry = { data: TouchstoneData; bytes: number };
+// Map keeps insertion order: the first key is the least recently used (a hit moves its entry to the end)
+const cache = new Map<string, CacheEntry>();
+let cacheBytes = 0;
+let cacheLimit = DEFAULT_PART_CACHE_BYTES;
 
 function cacheKey(text: string, ports: number | undefined, name: string): string {
-  // the name picks the port count of a v1.1 file (".s3p"), so it is part of the key
+  // the text is the content key (the Map hashes it); the name picks the port count of a v1.1 file (".s3p")
   return `${ports ?? ""}\u0000${name}\u0000${text}`;
+}
+
+/** What an entry holds: its key (UTF-16, 2 bytes a character) and the typed arrays of the parsed data. */
+function entryBytes(key: string, data: TouchstoneData): number {
+  return 2 * key.length + data.s.data.byteLength + data.frequencies.byteLength;
+}
+
+function evictTo(limit: number): void {
+  while (cacheBytes > limit && cache.size > 0) {
+    const [key, entry] = cache.entries().next().value as [string, CacheEntry];
+    cache.delete(key);
+    cacheBytes -= entry.bytes;
+  }
 }
 
 /**
  * Parses Touchstone text, returning a cached result when the same text (and port hint) was parsed
- * before. The result is shared: callers must not write into it.
+ * before. The cache is least-recently-used within a byte cap (setPartCacheLimit): a part larger than the
+ * cap is parsed but not kept. The result is shared: callers must not write into it.
  *
  * @param text - Touchstone 1.1 or 2.0 text
  * @param name - file name used for the port count of v1.1 files (".s2p") and in error messages
@@ -41,17 +61,38 @@ export function parseTouchstoneCached(text: string, name: string, ports?: number
     // refresh its place so that the most recently used parts stay
     cache.delete(key);
     cache.set(key, hit);
-    return hit;
+    return hit.data;
   }
   const parsed = parseTouchstone(text, { name, ports });
-  cache.set(key, parsed);
-  if (cache.size > CACHE_LIMIT) cache.delete(cache.keys().next().value as string);
+  const bytes = entryBytes(key, parsed);
+  if (bytes <= cacheLimit) {
+    evictTo(cacheLimit - bytes);
+    cache.set(key, { data: parsed, bytes });
+    cacheBytes += bytes;
+  }
   return parsed;
 }
 
 /** Empties the part cache (tests, or a server freeing memory). */
 export function clearPartCache(): void {
   cache.clear();
+  cacheBytes = 0;
+}
+
+/**
+ * Sets the byte cap of the part cache, evicting the least recently used parts until it holds.
+ *
+ * @param bytes - the cap (0 keeps nothing)
+ * @example setPartCacheLimit(64 * 1024 ** 2);
+ */
+export function setPartCacheLimit(bytes: number): void {
+  cacheLimit = Math.max(0, bytes);
+  evictTo(cacheLimit);
+}
+
+/** What the part cache holds now: entries and bytes (as counted by the cap), and the cap. */
+export function partCacheStats(): { entries: number; bytes: number; limitBytes: number } {
+  return { entries: cache.size, bytes: cacheBytes, limitBytes: cacheLimit };
 }
 
 /**

@@ -1,6 +1,24 @@
 import "server-only";
 import { z } from "zod";
 import { isLoopbackUrl, originPolicyFromEnv } from "./origins";
+import { parseByteSize } from "@/engine/cli-support";
+import { DEFAULT_MAX_SOLVE_BYTES } from "@/engine/system/estimate";
+import { DEFAULT_PART_CACHE_BYTES } from "@/engine/system/parts";
+
+/** A memory size as people write it ("2GiB", "512MB", bytes), or the fallback when unset. */
+const byteSize = (name: string, fallback: number) =>
+  z
+    .string()
+    .optional()
+    .transform((value, ctx) => {
+      if (value === undefined || value.trim() === "") return fallback;
+      try {
+        return parseByteSize(value, name);
+      } catch (error) {
+        ctx.addIssue({ code: "custom", message: error instanceof Error ? error.message : String(error) });
+        return z.NEVER;
+      }
+    });
 
 // Read once; every other module calls getEnv() instead of touching process.env.
 const optionalFlag = z
@@ -40,6 +58,18 @@ export function parseEnv(raw: Record<string, string | undefined>) {
     SIGNUP_MODE: z.enum(["open", "invite"]).default("open"),
     // Unset: seed the demo only when APP_URL is a loopback address (a newcomer's machine).
     SEED_DEMO: optionalFlag,
+    // Jobs (lib/server/jobs): the size limit of one solve, the time limit of one job, the worker threads,
+    // the parsed-part cache of each thread, runs kept per check and revision, and the optional queue.
+    MAX_SOLVE_MEMORY: byteSize("MAX_SOLVE_MEMORY", DEFAULT_MAX_SOLVE_BYTES),
+    JOB_TIME_LIMIT_SECONDS: z.coerce.number().positive().max(86_400).default(60),
+    JOB_THREADS: z.coerce.number().int().min(1).max(64).optional(),
+    PART_CACHE_SIZE: byteSize("PART_CACHE_SIZE", DEFAULT_PART_CACHE_BYTES),
+    RUNS_KEPT: z.coerce.number().int().min(1).max(1000).default(3),
+    REDIS_URL: z
+      .string()
+      .optional()
+      .transform((value) => (value === undefined || value.trim() === "" ? undefined : value.trim()))
+      .refine((value) => value === undefined || /^rediss?:\/\//.test(value), { message: "REDIS_URL must start with redis:// or rediss://" }),
     TRUST_PROXY: z
       .string()
       .optional()
@@ -84,6 +114,18 @@ export function parseEnv(raw: Record<string, string | undefined>) {
     seedDemo: value.SEED_DEMO ?? localAppUrl,
     /** SEED_DEMO=1 on an address others can reach: the log warns and every page shows a banner. */
     demoOnPublicAddress: value.SEED_DEMO === true && !localAppUrl,
+    /** bytes a solve may take by the engine's estimate (MAX_SOLVE_MEMORY; 422 above it) */
+    maxSolveBytes: value.MAX_SOLVE_MEMORY,
+    /** milliseconds one job may run before it is cancelled (JOB_TIME_LIMIT_SECONDS) */
+    jobTimeLimitMs: value.JOB_TIME_LIMIT_SECONDS * 1000,
+    /** worker threads of the job pool (JOB_THREADS; default: cores − 1, at least 1) */
+    jobThreads: value.JOB_THREADS,
+    /** byte cap of each worker's parsed-part cache (PART_CACHE_SIZE) */
+    partCacheBytes: value.PART_CACHE_SIZE,
+    /** check runs kept per (scenario, check, revision) besides pinned ones (RUNS_KEPT) */
+    runsKept: value.RUNS_KEPT,
+    /** long jobs go through BullMQ on this Redis when set (REDIS_URL) */
+    redisUrl: value.REDIS_URL,
   };
 }
 

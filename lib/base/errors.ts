@@ -10,6 +10,9 @@ export type ErrorCode =
   | "unsupported_media_type"
   | "unprocessable"
   | "too_many_requests"
+  | "too_large"
+  | "job_timeout"
+  | "job_cancelled"
   | "internal";
 
 /** One error type for the whole app: a code, an HTTP status and a message a person can act on. */

@@ -29,6 +29,7 @@ export const PERMISSIONS = {
   "rule.read": ["owner", "engineer", "reviewer"],
   "rule.edit": ["owner", "engineer"],
   "check.run": ["owner", "engineer", "reviewer"],
+  "runs.clear": ["owner"],
   "bundle.export": ["owner", "engineer", "reviewer"],
   "bundle.import": ["owner", "engineer"],
   "signoff.read": ["owner", "engineer", "reviewer"],

@@ -63,3 +63,8 @@ export const checkRunUrls = {
   list: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs`,
   one: (projectId: string, scenarioId: string, runId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs/${runId}`,
 };
+
+export const jobUrls = {
+  one: (projectId: string, jobId: string) => `/api/projects/${projectId}/jobs/${jobId}`,
+  storage: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs/storage`,
+};

@@ -12,6 +12,7 @@ import * as runsRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId
 import * as runRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/[runId]/route";
 import * as revisionsRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/revisions/route";
 import * as rulesRoute from "@/app/api/projects/[projectId]/rules/route";
+import * as jobRoute from "@/app/api/projects/[projectId]/jobs/[jobId]/route";
 import { db } from "@/db/client";
 import { checkRuns, scenarioRevisions, scenarios, users } from "@/db/schema";
 import { DEMO_USERS, seedDemo } from "@/db/seed";
@@ -47,6 +48,17 @@ async function history(cookie: string, scenarioId: string): Promise<CheckRunSumm
   const res = await call(runsRoute.GET, makeRequest("GET", base(scenarioId), { cookie }), { projectId, scenarioId });
   expect(res.status).toBe(200);
   return ((await res.json()) as { runs: CheckRunSummary[] }).runs;
+}
+
+/** Polls GET …/jobs/:id until the job has finished (no clock: the loop yields to the job between polls). */
+async function waitForJob(cookie: string, jobId: string): Promise<{ state: string; runId: string | null; error: unknown }> {
+  for (;;) {
+    const res = await call(jobRoute.GET, makeRequest("GET", `/api/projects/${projectId}/jobs/${jobId}`, { cookie }), { projectId, jobId });
+    expect(res.status).toBe(200);
+    const { job } = (await res.json()) as { job: { state: string; runId: string | null; error: unknown } };
+    if (!["queued", "running"].includes(job.state)) return job;
+    await new Promise((resolve) => setTimeout(resolve, 20));
+  }
 }
 
 /** `portolan check --json` on files written from a revision, as a second, independent path through the engine (the CLI reads files). */
@@ -176,8 +188,13 @@ describe("running checks", () => {
   it("a state sweep tabulates both T/R switch settings for both switches (4 combinations)", async () => {
     const id = scenarioIds["Cheaper switch"];
     const res = await post(cookies.engineer, id, { check: "state_sweep", inputs: {} });
-    expect(res.status).toBe(201);
-    const result = ((await res.json()) as { run: CheckRunView }).run.figures.result as StateSweepResult;
+    // a state sweep is a long job: 202 with a job id, followed until it is done (lib/server/jobs)
+    expect(res.status).toBe(202);
+    const { job } = (await res.json()) as { job: { id: string } };
+    const done = await waitForJob(cookies.engineer, job.id);
+    expect(done.state).toBe("done");
+    const runRes = await call(runRoute.GET, makeRequest("GET", `${base(id)}/${done.runId}`, { cookie: cookies.engineer }), { projectId, scenarioId: id, runId: done.runId! });
+    const result = ((await runRes.json()) as { run: CheckRunView }).run.figures.result as StateSweepResult;
     // two 2-throw switches (TR, ASW): 2 × 2 combinations
     expect(result.combinations).toBe(4);
     expect(result.rows).toHaveLength(4);

@@ -24,6 +24,7 @@ const EXPECTED: Record<Action, { owner: boolean; engineer: boolean; reviewer: bo
   "rule.read": { owner: Y, engineer: Y, reviewer: Y },
   "rule.edit": { owner: Y, engineer: Y, reviewer: N },
   "check.run": { owner: Y, engineer: Y, reviewer: Y },
+  "runs.clear": { owner: Y, engineer: N, reviewer: N },
   "bundle.export": { owner: Y, engineer: Y, reviewer: Y },
   "bundle.import": { owner: Y, engineer: Y, reviewer: N },
   "signoff.read": { owner: Y, engineer: Y, reviewer: Y },

@@ -1,19 +1,18 @@
 import "server-only";
-import { getPartTexts } from "@/db/queries/parts";
+import { getPartTexts, partFilesOf } from "@/db/queries/parts";
 import { loadProject } from "@/db/queries/projects";
 import { loadScenario } from "@/db/queries/scenarios";
 import { waiversOfRevision } from "@/db/queries/signoffs";
 import { db } from "@/db/client";
-import { BUNDLE_PATHS, BundleError, bundleFiles, computeBundleResults, sha256, writeBundleZip, type BundleIdentity } from "@/engine/bundle";
-import { EngineInputError, SingularSystemError } from "@/engine/types";
+import type { BundleIdentity } from "@/engine/bundle";
 import packageJson from "@/package.json";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
-import { AppError } from "@/lib/base/errors";
 import { allow, type ProjectAccess } from "@/lib/server/permissions";
 import { fileStem } from "@/lib/domain/scenarios/file-stem";
 import { revisionRules } from "@/lib/server/verdicts";
 import { renderReportHtml } from "./report-html";
+import { refusalError, runInPool, taskLimits } from "@/lib/server/jobs/pool";
 
 export type ExportedBundle = { fileName: string; bytes: Uint8Array; identity: BundleIdentity; revisionNumber: number; contentHash: string };
 
@@ -28,18 +27,21 @@ export async function exportBundle({
   access,
   scenarioId,
   revisionId,
+  signal,
 }: {
   actor: SessionUser;
   /** the actor's access to the project, resolved once by the route */
   access: ProjectAccess;
   scenarioId: string;
   revisionId?: string;
+  /** the request's signal: the job stops when the client goes away */
+  signal?: AbortSignal;
 }): Promise<ExportedBundle> {
   allow(access, "bundle.export");
   const { projectId } = access;
   const project = await loadProject(access);
   const { scenario, revision } = await loadScenario(access, { scenarioId, revisionId });
-  const allParts = await getPartTexts({ projectId });
+  const parts = await getPartTexts({ projectId, files: partFilesOf(revision.content) });
   // judged by the revision's effective rule set, as the app judges it; waivers of its sign-offs come along
   const { ruleSet } = await revisionRules({ projectId, content: revision.content });
   const waivers = (await waiversOfRevision({ scenarioId, contentHash: revision.contentHash })).map((w) => ({
@@ -48,22 +50,6 @@ export async function exportBundle({
     comment: w.comment,
     rules: w.rules,
   }));
-  let results;
-  try {
-    results = computeBundleResults(revision.content, allParts, ruleSet, waivers);
-  } catch (error) {
-    if (error instanceof EngineInputError || error instanceof SingularSystemError) {
-      throw new AppError("unprocessable", 422, `Revision ${revision.number} cannot be solved, so it cannot be bundled: ${error.message}`);
-    }
-    throw error;
-  }
-  let files: Map<string, string>;
-  try {
-    files = bundleFiles(revision.content, allParts, results);
-  } catch (error) {
-    if (error instanceof BundleError) throw new AppError("unprocessable", 422, error.message);
-    throw error;
-  }
   const identity: BundleIdentity = {
     app: { name: "portolan", version: packageJson.version },
     created_at: new Date().toISOString(),
@@ -72,15 +58,19 @@ export async function exportBundle({
     scenario: { id: scenario.id, name: scenario.name },
     revision: { id: revision.id, number: revision.number, content_hash: revision.contentHash },
   };
-  const hashes = [...files].map(([path, text]) => ({ path, sha256: sha256(text) }));
-  files.set(BUNDLE_PATHS.report, renderReportHtml({ identity, results, files: hashes }));
-  const bytes = await writeBundleZip(identity, files);
+  // solve, checks, report and zip run in a job thread (lib/server/jobs), never on the request's thread
+  const output = await runInPool({ kind: "bundle", content: revision.content, parts, identity, ruleSet, waivers, ...taskLimits() }, { signal });
+  if (!output.ok) {
+    throw refusalError(output, output.code === "too_large" || output.message.startsWith("The scenario uses") ? "" : `Revision ${revision.number} cannot be solved, so it cannot be bundled: `);
+  }
+  if (output.kind !== "bundle") throw new Error(`a bundle job answered ${output.kind}`);
+  const { bytes } = output;
   await recordAudit(db, {
     actor,
     projectId,
     action: "bundle.export",
     target: scenario.name,
-    detail: { scenarioId, revision: revision.number, contentHash: revision.contentHash, rulesHash: results.checks.rule_set.sha256, verdict: results.checks.verdict, bytes: bytes.length },
+    detail: { scenarioId, revision: revision.number, contentHash: revision.contentHash, rulesHash: output.rulesHash, verdict: output.verdict, bytes: bytes.length },
   });
   return { fileName: `${fileStem(scenario.name)}-r${revision.number}-bundle.zip`, bytes, identity, revisionNumber: revision.number, contentHash: revision.contentHash };
 }

@@ -14,7 +14,7 @@ export const GET = apiRoute<Params>(async (ctx) => {
   const revisionId = raw === null || raw === "" ? undefined : parseWith(idSchema, raw);
   const user = await ctx.requireUser();
   const access = await resolveAccess({ userId: user.id, projectId: ctx.params.projectId });
-  const bundle = await exportBundle({ actor: user, access, scenarioId: ctx.params.scenarioId, revisionId });
+  const bundle = await exportBundle({ actor: user, access, scenarioId: ctx.params.scenarioId, revisionId, signal: ctx.request.signal });
   return new Response(new Blob([new Uint8Array(bundle.bytes)]), {
     status: 200,
     headers: {
