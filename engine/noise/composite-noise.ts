@@ -119,6 +119,12 @@ export function systemNoise(sys: PreparedSystem, opts: NoiseOptions = {}): Syste
     const n = blockS[b].n;
     const off = sys.blockOffset[b];
     const needU = terms.thermal > 0 || nCols > 0;
+    if (M === 1 && !terms.explicit) {
+      const powerAt = new Float64Array(n);
+      for (let x = 0; x < nCols; x++) powerAt[colPort[x]] += colPower[x];
+      addOneOutput(c, rows[0], sd, n, nf, P, off, terms.thermal, terms.thermalAt, powerAt);
+      continue;
+    }
     for (let k = 0; k < nf; k++) {
       const thermal = terms.thermal > 0 && (!terms.thermalAt || terms.thermalAt[k] === 1) ? terms.thermal : 0;
       const so = 2 * k * n * n;
@@ -222,6 +228,47 @@ export function systemNoise(sys: PreparedSystem, opts: NoiseOptions = {}): Syste
     blocks: { models: noise.models, temperatures: noise.temperatures, notes: noise.notes },
     warnings: [...solT.warnings, ...noise.notes],
   };
+}
+
+/**
+ * One output's C_jj, block by block (a kernel of its own so that it is optimised apart from systemNoise):
+ * c[k] += kT·(|t|² − |t·S|²) + Σ_ports power·|(t·S)_port|², all real.
+ */
+function addOneOutput(
+  c: Float64Array,
+  t: Float64Array,
+  sd: Float64Array,
+  n: number,
+  nf: number,
+  P: number,
+  off: number,
+  kT: number,
+  thermalAt: Uint8Array | null,
+  powerAt: Float64Array,
+): void {
+  for (let k = 0; k < nf; k++) {
+    const thermal = kT > 0 && (!thermalAt || thermalAt[k] === 1) ? kT : 0;
+    const so = 2 * k * n * n;
+    const rowBase = 2 * (k * P + off);
+    let sum = 0;
+    if (thermal !== 0) for (let p = 0; p < n; p++) sum += thermal * (t[rowBase + 2 * p] ** 2 + t[rowBase + 2 * p + 1] ** 2);
+    for (let col = 0; col < n; col++) {
+      const weight = powerAt[col] - thermal;
+      if (weight === 0) continue;
+      let re = 0;
+      let im = 0;
+      for (let p = 0; p < n; p++) {
+        const tr = t[rowBase + 2 * p];
+        const ti = t[rowBase + 2 * p + 1];
+        const sr = sd[so + 2 * (p * n + col)];
+        const si = sd[so + 2 * (p * n + col) + 1];
+        re += tr * sr - ti * si;
+        im += tr * si + ti * sr;
+      }
+      sum += weight * (re * re + im * im);
+    }
+    c[2 * k] += sum;
+  }
 }
 
 /**
