@@ -12,6 +12,7 @@ import { ScenarioChecks } from "@/components/checks/scenario-checks";
 import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
 import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
+import { formatDate } from "@/lib/base/dates";
 import { RevisionHistory } from "./revision-history";
 import { useAutosave } from "./use-autosave";
 import type { PartView } from "@/lib/domain/parts/types";
@@ -34,7 +35,7 @@ export type ScenarioWorkspaceProps = {
  */
 export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: initialParts, readOnly, role }: ScenarioWorkspaceProps) {
   const router = useRouter();
-  const { draft, base, saveState, conflict, saveError, reportError, warnings, generation, edit: onChange, saveNow, loadLatest, forget } = useAutosave({
+  const { draft, base, saveState, conflict, saveError, reportError, warnings, generation, edit: onChange, saveNow, loadLatest, forget, offeredDraft, restoreDraft, discardDraft } = useAutosave({
     projectId,
     scenarioId: info.id,
     revision,
@@ -110,6 +111,25 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
           Composite of r{base.number} (Touchstone)
         </a>
       </div>
+      {offeredDraft ? (
+        <Alert
+          tone="warn"
+          title="Unsaved edits from an earlier visit"
+          actions={
+            <div className="flex flex-wrap gap-2">
+              <Button size="sm" onClick={restoreDraft}>
+                Restore my edits
+              </Button>
+              <Button size="sm" variant="secondary" onClick={discardDraft}>
+                Discard them
+              </Button>
+            </div>
+          }
+        >
+          This browser kept edits to r{offeredDraft.baseNumber} made {formatDate(offeredDraft.editedAt)} that were never saved
+          {offeredDraft.baseRevisionId !== base.id ? `; the scenario has been saved since (now r${base.number}), so restoring them will ask how to resolve the conflict` : ""}.
+        </Alert>
+      ) : null}
       {conflict ? (
         <Alert
           tone="error"

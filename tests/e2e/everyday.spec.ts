@@ -1,0 +1,112 @@
+import { expect as baseExpect, test, type Locator, type Page } from "@playwright/test";
+import { demoUsers, signIn, type DemoRole } from "./helpers";
+
+// Everyday flows of issue 18 on the seeded demo (db/seed.ts): edits that are never lost, links that
+// land after sign-in, not-found pages, keyboard paths.
+const DEMO_PROJECT = "Kestrel telemetry front end";
+
+test.describe.configure({ timeout: 180_000 });
+const expect = baseExpect.configure({ timeout: 40_000 });
+test.use({ viewport: { width: 1600, height: 1100 } });
+
+async function signInAs(page: Page, role: DemoRole): Promise<void> {
+  await signIn(page, demoUsers[role].email, demoUsers[role].password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 60_000 });
+}
+
+async function demoProjectId(page: Page): Promise<string> {
+  const response = await page.request.get("/api/projects");
+  expect(response.status()).toBe(200);
+  const { projects } = (await response.json()) as { projects: { id: string; name: string }[] };
+  const project = projects.find((p) => p.name === DEMO_PROJECT);
+  expect(project).toBeDefined();
+  return project!.id;
+}
+
+const origin = (page: Page) => ({ origin: new URL(page.url()).origin });
+const block = (page: Page, id: string): Locator => page.locator(`[aria-label^="Block ${id},"]`);
+const saveState = (page: Page): Locator => page.getByRole("status", { name: /^Save state:/ });
+
+async function createScenario(page: Page, projectId: string, name: string, template = "pad-chain"): Promise<string> {
+  const response = await page.request.post(`/api/projects/${projectId}/scenarios`, { data: { name, template }, headers: origin(page) });
+  expect(response.status()).toBe(201);
+  return ((await response.json()) as { scenario: { id: string } }).scenario.id;
+}
+
+async function savedBlockIds(page: Page, projectId: string, scenarioId: string): Promise<string[]> {
+  const body = (await (await page.request.get(`/api/projects/${projectId}/scenarios/${scenarioId}`)).json()) as { revision: { content: { blocks: { id: string }[] } } };
+  return body.revision.content.blocks.map((b) => b.id);
+}
+
+async function addLoad(page: Page): Promise<void> {
+  await page.getByRole("button", { name: /^Add block/ }).click();
+  await page.getByRole("option", { name: /^Load/ }).click();
+  await expect(block(page, "LOAD1")).toBeVisible();
+}
+
+test.describe("1. no edit is lost", () => {
+  test("an in-app link asks first, and leaving saves the edits instead of dropping them", async ({ page }) => {
+    await signInAs(page, "engineer");
+    const projectId = await demoProjectId(page);
+    const scenarioId = await createScenario(page, projectId, "E2E leave guard");
+    await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
+    await expect(block(page, "PAD1")).toBeVisible();
+    // hold the autosave so that the edit is certainly unsaved when the link is clicked
+    let release: () => void = () => undefined;
+    const held = new Promise<void>((resolve) => (release = resolve));
+    await page.route(`**/scenarios/${scenarioId}/revisions`, async (route) => {
+      await held;
+      await route.continue();
+    });
+    await addLoad(page);
+
+    // "no" keeps the page and the edit
+    page.once("dialog", (dialog) => {
+      expect(dialog.message()).toContain("unsaved edits");
+      void dialog.dismiss();
+    });
+    await page.getByRole("navigation", { name: "Project sections" }).getByRole("link", { name: "Parts", exact: true }).click();
+    await expect(page).toHaveURL(new RegExp(`/scenarios/${scenarioId}$`));
+    await expect(block(page, "LOAD1")).toBeVisible();
+
+    // "yes" leaves; the pending edit goes out as it leaves
+    page.once("dialog", (dialog) => void dialog.accept());
+    await page.getByRole("navigation", { name: "Project sections" }).getByRole("link", { name: "Parts", exact: true }).click();
+    await expect(page).toHaveURL(new RegExp(`/projects/${projectId}/parts$`));
+    release();
+    await expect.poll(() => savedBlockIds(page, projectId, scenarioId), { timeout: 30_000 }).toContain("LOAD1");
+    await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
+    await expect(block(page, "LOAD1")).toBeVisible();
+    await expect(saveState(page)).toHaveText("Saved");
+  });
+
+  test("edits of a closed tab are kept as the working draft and offered back", async ({ browser }) => {
+    const context = await browser.newContext({ viewport: { width: 1600, height: 1100 } });
+    const page = await context.newPage();
+    await signInAs(page, "engineer");
+    const projectId = await demoProjectId(page);
+    const scenarioId = await createScenario(page, projectId, "E2E closed tab");
+    // the server never gets the edit: every save of this tab fails
+    await page.route(`**/scenarios/${scenarioId}/revisions`, (route) => route.abort());
+    await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
+    await expect(block(page, "PAD1")).toBeVisible();
+    await addLoad(page);
+    await expect(saveState(page)).toHaveText("Not saved: error");
+    await page.close(); // a closed tab: no question asked (runBeforeUnload is off)
+
+    const again = await context.newPage();
+    await again.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
+    const offer = again.getByRole("status").filter({ hasText: "Unsaved edits from an earlier visit" });
+    await expect(offer).toBeVisible();
+    await expect(block(again, "LOAD1")).toHaveCount(0);
+    await offer.getByRole("button", { name: "Restore my edits" }).click();
+    await expect(block(again, "LOAD1")).toBeVisible();
+    await expect(saveState(again)).toHaveText("Saved", { timeout: 20_000 });
+    expect(await savedBlockIds(again, projectId, scenarioId)).toContain("LOAD1");
+    // saved: nothing is offered any more
+    await again.reload();
+    await expect(block(again, "LOAD1")).toBeVisible();
+    await expect(again.getByText("Unsaved edits from an earlier visit")).toHaveCount(0);
+    await context.close();
+  });
+});
