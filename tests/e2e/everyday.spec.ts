@@ -110,3 +110,34 @@ test.describe("1. no edit is lost", () => {
     await context.close();
   });
 });
+
+test.describe("2. links land where they point", () => {
+  test("a signed-out person opening a scenario link signs in and lands on that scenario", async ({ browser }) => {
+    const owner = await browser.newContext();
+    const ownerPage = await owner.newPage();
+    await signInAs(ownerPage, "owner");
+    const projectId = await demoProjectId(ownerPage);
+    const scenarioId = await createScenario(ownerPage, projectId, "E2E deep link");
+    await owner.close();
+
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    const target = `/projects/${projectId}/scenarios/${scenarioId}`;
+    await page.goto(target);
+    await expect(page).toHaveURL((u) => u.pathname === "/sign-in" && u.searchParams.get("next") === target);
+    await page.getByLabel("Email").fill(demoUsers.engineer.email);
+    await page.getByLabel("Password", { exact: true }).fill(demoUsers.engineer.password);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await expect(page).toHaveURL((u) => u.pathname === target, { timeout: 60_000 });
+    await expect(block(page, "PAD1")).toBeVisible();
+    await context.close();
+  });
+
+  test("a next pointing at another site is ignored", async ({ page }) => {
+    await page.goto("/sign-in?next=https%3A%2F%2Fevil.example%2Fx");
+    await page.getByLabel("Email").fill(demoUsers.reviewer.email);
+    await page.getByLabel("Password", { exact: true }).fill(demoUsers.reviewer.password);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await expect(page).toHaveURL((u) => u.origin === new URL(page.url()).origin && u.pathname === "/projects", { timeout: 60_000 });
+  });
+});
