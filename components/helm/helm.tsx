@@ -8,6 +8,7 @@ import { Compass } from "lucide-react";
 import type { RuleSpec } from "@/engine/types";
 import { Kbd } from "@/components/ui";
 import { fetchJson } from "@/lib/browser/api-client";
+import { rankHelmItem } from "./rank";
 import { cn } from "@/components/ui/cn";
 import { buildCommands, type HelmCommand, type HelmProject, type HelmStep } from "./commands";
 import { useHelmRegistry } from "./helm-context";
@@ -171,6 +172,7 @@ export function Helm() {
         onOpenChange={changeOpen}
         label="Helm"
         shouldFilter={step?.kind !== "text"}
+        filter={rankHelmItem}
         loop
         overlayClassName="fixed inset-0 z-40 bg-ink/25"
         contentClassName="fixed top-[10vh] left-1/2 z-50 w-[min(40rem,94vw)] -translate-x-1/2 rounded-card border-[1.5px] border-ink bg-surface shadow-xl"
