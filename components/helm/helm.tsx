@@ -2,13 +2,14 @@
 
 import { Command } from "cmdk";
 import { usePathname, useRouter } from "next/navigation";
-import { useCallback, useEffect, useMemo, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import useSWR from "swr";
 import { Compass } from "lucide-react";
 import type { RuleSpec } from "@/engine/types";
 import { Kbd } from "@/components/ui";
 import { fetchJson } from "@/lib/browser/api-client";
 import { rankHelmItem } from "./rank";
+import { MAIN_CONTENT_ID } from "@/components/shell/app-header";
 import { cn } from "@/components/ui/cn";
 import { buildCommands, type HelmCommand, type HelmProject, type HelmStep } from "./commands";
 import { useHelmRegistry } from "./helm-context";
@@ -46,13 +47,29 @@ export function Helm() {
   const { data: partsData } = useSWR<{ parts: { id: string; name: string; fileName: string }[] }>(open && projectId ? `/api/projects/${projectId}/parts` : null, fetchJson);
   const { data: rulesData } = useSWR<{ rules: { spec: RuleSpec }[] }>(open && projectId ? `/api/projects/${projectId}/rules` : null, fetchJson);
 
+  // where the focus was when the helm opened (Ctrl+K has no trigger button to return to)
+  const returnFocus = useRef<HTMLElement | null>(null);
+
   /** Open or close, starting afresh each time (no half-answered command survives a close). */
   const changeOpen = useCallback(
     (next: boolean) => {
       setPending(null);
       setSearch("");
       setError(null);
-      if (next) setRecent(readRecent());
+      if (next) {
+        setRecent(readRecent());
+        returnFocus.current = document.activeElement instanceof HTMLElement && document.activeElement !== document.body ? document.activeElement : null;
+      } else {
+        // After the dialog's own close handling: back where the person was, or (when that is gone, e.g.
+        // the command navigated) the page's main content, never the document body.
+        const back = returnFocus.current;
+        returnFocus.current = null;
+        window.setTimeout(() => {
+          if (document.activeElement && document.activeElement !== document.body) return;
+          if (back && back.isConnected) back.focus();
+          else document.getElementById(MAIN_CONTENT_ID)?.focus();
+        }, 0);
+      }
       setOpen(next);
     },
     [setOpen],
