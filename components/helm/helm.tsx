@@ -174,7 +174,7 @@ export function Helm() {
       <button
         type="button"
         onClick={() => changeOpen(true)}
-        aria-label="Open the helm"
+        title="Open the helm (Ctrl+K)"
         aria-keyshortcuts="Control+K Meta+K"
         className="fixed right-4 bottom-4 z-30 inline-flex items-center gap-2 rounded-full border-[1.5px] border-ink bg-surface px-3 py-1.5 text-sm text-ink shadow-[2px_2px_0_0_var(--pt-rule)] hover:bg-sunken focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-focus"
       >

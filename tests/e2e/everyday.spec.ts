@@ -141,3 +141,87 @@ test.describe("2. links land where they point", () => {
     await expect(page).toHaveURL((u) => u.origin === new URL(page.url()).origin && u.pathname === "/projects", { timeout: 60_000 });
   });
 });
+
+test.describe("6. not found is not found", () => {
+  test("missing pages, bad ids and projects the person cannot see answer 404 with a branded page and a way back", async ({ browser }) => {
+    // a project the engineer is not a member of
+    const ownerContext = await browser.newContext();
+    const ownerPage = await ownerContext.newPage();
+    await signInAs(ownerPage, "owner");
+    const created = await ownerPage.request.post("/api/projects", { data: { name: "E2E private project" }, headers: origin(ownerPage) });
+    expect(created.status()).toBe(201);
+    const privateId = ((await created.json()) as { project: { id: string } }).project.id;
+    await ownerContext.close();
+
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInAs(page, "engineer");
+    const projectId = await demoProjectId(page);
+    for (const path of ["/no-such-page", `/projects/${projectId}/scenarios/no-such-scenario`, `/projects/${privateId}`, `/projects/${privateId}/scenarios`, "/projects/no-such-project"]) {
+      const response = await page.goto(path);
+      expect(response?.status(), path).toBe(404);
+      await expect(page.getByRole("main")).toBeVisible();
+      await expect(page.getByRole("heading", { level: 1 })).toContainText(/not found/i);
+      await expect(page.getByRole("link", { name: "Back to your projects" })).toBeVisible();
+    }
+    // the way back works
+    await page.getByRole("link", { name: "Back to your projects" }).click();
+    await expect(page).toHaveURL(/\/projects$/);
+    // a page that exists still answers 200
+    expect((await page.goto(`/projects/${projectId}/scenarios`))?.status()).toBe(200);
+    await context.close();
+  });
+});
+
+test.describe("7. keyboard", () => {
+  test("the link-target select waits for Enter, and the focus lands on Unlink after linking", async ({ page }) => {
+    await signInAs(page, "engineer");
+    const projectId = await demoProjectId(page);
+    const scenarioId = await createScenario(page, projectId, "E2E keyboard link");
+    await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
+    await expect(block(page, "PAD1")).toBeVisible();
+    await addLoad(page);
+    // the new block has the focus, so the inspector shows its ports
+    await expect(page.locator('.react-flow__node[data-id="LOAD1"]')).toBeFocused();
+    const select = page.getByRole("combobox", { name: "Link LOAD1:1 to" });
+    await select.focus();
+    await page.keyboard.press("ArrowDown");
+    // one arrow key only chooses: nothing is linked yet
+    await expect(page.getByText("linked to", { exact: false }).filter({ hasText: "LOAD1" })).toHaveCount(0);
+    await expect(select).toBeVisible();
+    const chosen = await select.inputValue();
+    expect(chosen).not.toBe("");
+    await page.keyboard.press("Enter");
+    const unlink = page.getByRole("button", { name: `Unlink LOAD1:1 from ${chosen}` });
+    await expect(unlink).toBeVisible();
+    await expect(unlink).toBeFocused();
+  });
+
+  test("in the helm, typing a command's exact name and Enter runs that command", async ({ page }) => {
+    await signInAs(page, "engineer");
+    const projectId = await demoProjectId(page);
+    const scenarioId = await createScenario(page, projectId, "E2E helm ranking");
+    await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
+    await expect(block(page, "PAD1")).toBeVisible();
+    const opener = page.getByRole("button", { name: /^Helm/ });
+    await opener.focus();
+    await page.keyboard.press("Enter");
+    const dialog = page.getByRole("dialog");
+    await expect(dialog).toBeVisible();
+    await page.keyboard.type("isolation");
+    await expect(dialog.getByRole("option").first()).toContainText("Run isolation check");
+    // closing the helm gives the focus back to where it was
+    await page.keyboard.press("Escape");
+    await expect(dialog).toHaveCount(0);
+    await expect(opener).toBeFocused();
+  });
+
+  test("the last owner is not offered to leave the project", async ({ page }) => {
+    await signInAs(page, "owner");
+    const created = await page.request.post("/api/projects", { data: { name: "E2E sole owner" }, headers: origin(page) });
+    const id = ((await created.json()) as { project: { id: string } }).project.id;
+    await page.goto(`/projects/${id}/members`);
+    await expect(page.getByText("Only owner: make someone else owner to leave")).toBeVisible();
+    await expect(page.getByRole("button", { name: /^Leave/ })).toHaveCount(0);
+  });
+});
