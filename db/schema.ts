@@ -21,6 +21,8 @@ export const users = sqliteTable("users", {
   passwordHash: text("password_hash").notNull(),
   isSiteAdmin: integer("is_site_admin", { mode: "boolean" }).notNull().default(false),
   notifySignoff: integer("notify_signoff", { mode: "boolean" }).notNull().default(true),
+  /** Set by a site admin: the account cannot sign in and has no sessions or working tokens. */
+  deactivatedAt: integer("deactivated_at", { mode: "timestamp_ms" }),
   createdAt: createdAt(),
 });
 export type User = typeof users.$inferSelect;
@@ -35,6 +37,11 @@ export const sessions = sqliteTable(
       .notNull()
       .references(() => users.id, { onDelete: "cascade" }),
     expiresAt: integer("expires_at").notNull(),
+    /**
+     * When the session was started (the account page lists one's sessions by it). Null for sessions
+     * from before the column: SQLite cannot add a column with an expression default.
+     */
+    createdAt: integer("created_at", { mode: "timestamp_ms" }),
   },
   (table) => [index("sessions_user_id_idx").on(table.userId)],
 );

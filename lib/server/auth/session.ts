@@ -6,6 +6,9 @@ import type { Cookie, Session, User } from "lucia";
 import { AppError } from "@/lib/base/errors";
 import { getEnv } from "@/lib/base/env";
 import { REQUEST_PATH_HEADER, signInPathFor } from "@/lib/base/origins";
+import { eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { sessions } from "@/db/schema";
 import { getLucia, SESSION_COOKIE_NAME } from "./lucia";
 import { generateToken, hashToken } from "./tokens";
 
@@ -30,7 +33,9 @@ function toSessionInfo(session: Session): SessionInfo {
 export async function createSessionForUser(userId: string): Promise<{ token: string; cookie: Cookie }> {
   const lucia = getLucia();
   const token = generateToken();
-  await lucia.createSession(userId, {}, { sessionId: hashToken(token) });
+  const sessionId = hashToken(token);
+  await lucia.createSession(userId, {}, { sessionId });
+  await getDb().update(sessions).set({ createdAt: new Date() }).where(eq(sessions.id, sessionId));
   return { token, cookie: lucia.createSessionCookie(token) };
 }
 
