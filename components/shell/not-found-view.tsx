@@ -8,6 +8,8 @@ export type NotFoundViewProps = {
   /** where "back" goes: the nearest page the person can certainly see */
   backHref?: string;
   backLabel?: string;
+  /** 2 inside a page that already has its h1 (the project header) */
+  headingLevel?: 1 | 2;
 };
 
 /**
@@ -19,12 +21,14 @@ export function NotFoundView({
   description = "There is nothing at this address, or it is not shared with you.",
   backHref = "/projects",
   backLabel = "Back to your projects",
+  headingLevel = 1,
 }: NotFoundViewProps) {
+  const Heading = headingLevel === 1 ? "h1" : "h2";
   return (
     <div className="mx-auto my-12 flex max-w-prose flex-col items-center gap-4 text-center">
       <CompassRose size={56} className="text-muted" />
       <p className="figures text-sm font-semibold tracking-widest text-muted">404</p>
-      <h1 className="text-2xl font-semibold text-ink">{title}</h1>
+      <Heading className="text-2xl font-semibold text-ink">{title}</Heading>
       <div className="text-sm text-muted">{description}</div>
       <Link className="text-link text-sm font-medium" href={backHref}>
         {backLabel}
