@@ -22,6 +22,9 @@ export const AUDIT_KINDS: Record<string, string> = {
   demo: "Demo",
 };
 
+export const PROJECT_AUDIT_KINDS = ["project", "member", "invitation", "scenario", "part", "rule", "signoff", "bundle"];
+export const SITE_AUDIT_KINDS = ["user", "account", "api_token", "settings"];
+
 export function auditKindOf(action: string): string {
   return action.split(".")[0] ?? action;
 }
@@ -133,4 +136,12 @@ export function toCsv(rows: string[][]): string {
     return /[",\r\n]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
   };
   return rows.map((r) => r.map(field).join(",")).join("\r\n") + "\r\n";
+}
+
+/** The CSV of an audit log: one row per event, the sentence beside the raw action for machines. */
+export function auditCsv(rows: (AuditEventFields & { createdAt: Date; actorName: string | null; actorEmail: string | null })[]): string {
+  return toCsv([
+    ["time_utc", "person", "email", "what", "action", "target"],
+    ...rows.map((r) => [r.createdAt.toISOString(), r.actorName ?? "", r.actorEmail ?? "", describeAuditEvent(r), r.action, r.target ?? ""]),
+  ]);
 }
