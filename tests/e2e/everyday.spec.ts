@@ -228,3 +228,78 @@ test.describe("7. keyboard", () => {
     await expect(page.getByRole("button", { name: /^Leave/ })).toHaveCount(0);
   });
 });
+
+test.describe("4. accounts", () => {
+  test("a person renames their account and signs out another browser from the sessions list", async ({ browser }) => {
+    const other = await browser.newContext();
+    const otherPage = await other.newPage();
+    await signInAs(otherPage, "reviewer");
+
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInAs(page, "reviewer");
+    await page.goto("/account");
+    const sessions = page.getByRole("list", { name: "Your sessions" });
+    await expect(sessions.getByText("This browser")).toBeVisible();
+    const others = sessions.getByRole("button", { name: /^Sign out/ });
+    expect(await others.count()).toBeGreaterThanOrEqual(1);
+    // end every other session: the other browser is signed out
+    while ((await others.count()) > 0) {
+      await others.first().click();
+      await expect(page.getByText("That session has ended")).toBeVisible();
+    }
+    expect((await otherPage.request.get("/api/auth/session")).status()).toBe(401);
+
+    await page.getByLabel("Name", { exact: true }).fill("Rhea Reviewer-Renamed");
+    await page.getByRole("button", { name: "Save name" }).click();
+    await expect(page.getByText("Your name is now Rhea Reviewer-Renamed.")).toBeVisible();
+    // the wrong current password is refused, naming the field
+    await page.getByLabel("Current password").fill("not the password");
+    await page.getByLabel("New password").fill("a brand new long password");
+    await page.getByRole("button", { name: "Change password" }).click();
+    await expect(page.getByText("The current password is not right.")).toBeVisible();
+    await context.close();
+    await other.close();
+  });
+});
+
+test.describe("5. readable audit", () => {
+  test("the owner reads the project log in words, filters it by kind and downloads it as CSV", async ({ page }) => {
+    await signInAs(page, "owner");
+    const projectId = await demoProjectId(page);
+    await createScenario(page, projectId, "E2E audit words");
+    await page.goto(`/projects/${projectId}/audit`);
+    await expect(page.getByRole("cell", { name: "Created the scenario E2E audit words from pad-chain" })).toBeVisible();
+    await expect(page.getByText(/[{}]"/)).toHaveCount(0);
+    await page.getByLabel("Kind").selectOption("member");
+    await page.getByRole("button", { name: "Filter" }).click();
+    await expect(page).toHaveURL(/kind=member/);
+    await expect(page.getByRole("cell", { name: /E2E audit words/ })).toHaveCount(0);
+    const csv = await page.request.get(`/api/projects/${projectId}/audit?format=csv`);
+    expect(csv.status()).toBe(200);
+    expect(csv.headers()["content-type"]).toContain("text/csv");
+    const text = await csv.text();
+    expect(text.split("\r\n")[0]).toBe("time_utc,person,email,what,action,target");
+    expect(text).toContain("Created the scenario E2E audit words from pad-chain");
+  });
+});
+
+test.describe("8. small screens", () => {
+  test.use({ viewport: { width: 390, height: 844 } });
+
+  test("at 390 px the header folds into a menu with sign-out on screen, and pages do not scroll sideways", async ({ page }) => {
+    await signInAs(page, "owner");
+    const projectId = await demoProjectId(page);
+    for (const path of ["/projects", "/account", `/projects/${projectId}/members`]) {
+      await page.goto(path);
+      const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+      expect(overflow, path).toBeLessThanOrEqual(0);
+    }
+    await expect(page.getByRole("navigation", { name: "Main", exact: true })).toBeHidden();
+    await page.getByRole("button", { name: /Menu/ }).click();
+    const signOut = page.getByRole("button", { name: "Sign out" });
+    await expect(signOut).toBeInViewport();
+    await page.getByRole("navigation", { name: "Main (menu)" }).getByRole("link", { name: "Account" }).click();
+    await expect(page).toHaveURL(/\/account$/);
+  });
+});
