@@ -84,7 +84,8 @@ export function PasswordForm() {
           Change password
         </Button>
       </div>
-      {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
+      {/* a refusal that names a field is shown at the field only */}
+      {message && !message.fields ? <Alert tone={message.tone}>{message.text}</Alert> : null}
     </form>
   );
 }
