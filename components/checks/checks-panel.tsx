@@ -2,6 +2,7 @@
 
 import useSWR from "swr";
 import { Alert, Button, Spinner, VerdictBadge } from "@/components/ui";
+import { formatDate } from "@/lib/base/dates";
 import { cn } from "@/components/ui/cn";
 import { checkRunUrls, fetchJson } from "@/lib/browser/api-client";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
@@ -82,6 +83,10 @@ export function ChecksPanel(props: ChecksPanelProps) {
                       <span className="text-muted">r{r.revisionNumber ?? "?"}</span>
                     </span>
                     <span className="truncate text-muted">{r.headline}</span>
+                    <span className="truncate text-muted">
+                      {r.userName ? `by ${r.userName}, ` : ""}
+                      {formatDate(r.createdAt)}
+                    </span>
                   </button>
                 </li>
               ))}
