@@ -303,3 +303,35 @@ test.describe("8. small screens", () => {
     await expect(page).toHaveURL(/\/account$/);
   });
 });
+
+test.describe("3. reviewer's path", () => {
+  test("the sign-offs list shows the requester's note, a Review action and the revision's evidence; run history names who ran", async ({ browser }) => {
+    const eng = await browser.newContext();
+    const engPage = await eng.newPage();
+    await signInAs(engPage, "engineer");
+    const projectId = await demoProjectId(engPage);
+    const scenarioId = await createScenario(engPage, projectId, "E2E reviewer path");
+    const members = (await (await engPage.request.get(`/api/projects/${projectId}/members`)).json()) as { members: { userId: string; email: string }[] };
+    const rhea = members.members.find((m) => m.email === demoUsers.reviewer.email)!;
+    const requested = await engPage.request.post(`/api/projects/${projectId}/signoffs`, {
+      data: { scenarioId, reviewerIds: [rhea.userId], note: "Please check the pad loss at 2.4 GHz." },
+      headers: origin(engPage),
+    });
+    expect(requested.status()).toBe(201);
+    await eng.close();
+
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInAs(page, "reviewer");
+    await page.goto(`/projects/${projectId}/signoffs`);
+    const row = page.getByTestId("signoff-row").filter({ hasText: "E2E reviewer path" });
+    await expect(row.getByText("Please check the pad loss at 2.4 GHz.")).toBeVisible();
+    const evidence = await page.request.get((await row.getByRole("link", { name: /^Evidence/ }).getAttribute("href"))!);
+    expect(evidence.status()).toBe(200);
+    expect(evidence.headers()["content-type"]).toContain("application/zip");
+    await row.getByRole("link", { name: /^Review/ }).click();
+    await expect(page).toHaveURL(new RegExp(`/scenarios/${scenarioId}`));
+    await expect(page.getByRole("region", { name: "Sign-off" })).toBeVisible();
+    await context.close();
+  });
+});
