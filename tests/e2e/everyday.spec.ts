@@ -250,7 +250,7 @@ test.describe("4. accounts", () => {
     }
     expect((await otherPage.request.get("/api/auth/session")).status()).toBe(401);
 
-    await page.getByLabel("Name", { exact: true }).fill("Rhea Reviewer-Renamed");
+    await page.getByRole("region", { name: "Name" }).getByLabel("Name").fill("Rhea Reviewer-Renamed");
     await page.getByRole("button", { name: "Save name" }).click();
     await expect(page.getByText("Your name is now Rhea Reviewer-Renamed.")).toBeVisible();
     // the wrong current password is refused, naming the field
@@ -290,7 +290,7 @@ test.describe("8. small screens", () => {
   test("at 390 px the header folds into a menu with sign-out on screen, and pages do not scroll sideways", async ({ page }) => {
     await signInAs(page, "owner");
     const projectId = await demoProjectId(page);
-    for (const path of ["/projects", "/account", `/projects/${projectId}/members`]) {
+    for (const path of ["/projects", "/account", `/projects/${projectId}`, `/projects/${projectId}/members`, `/projects/${projectId}/audit`]) {
       await page.goto(path);
       const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
       expect(overflow, path).toBeLessThanOrEqual(0);
