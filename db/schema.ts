@@ -308,6 +308,9 @@ export type NewCheckRun = typeof checkRuns.$inferInsert;
 // ---------------------------------------------------------------------------------------------------
 // Sign-offs (issue 7).
 
+/** One check's verdict as it stood when a sign-off was requested. */
+export type VerdictSnapshotEntry = { check: string; verdict: "pass" | "fail" | "warn"; headline: string; runAt: string; runBy: string | null };
+
 export const SIGNOFF_STATES = ["requested", "approved", "changes_requested"] as const;
 export type SignoffState = (typeof SIGNOFF_STATES)[number];
 
@@ -338,6 +341,8 @@ export const signoffs = sqliteTable(
     /** the requester's note when asking, then the reviewer's comment when deciding */
     requestNote: text("request_note").notNull().default(""),
     comment: text("comment").notNull().default(""),
+    /** the latest run of each check on the revision when the sign-off was requested (null: before this column) */
+    verdictSnapshot: text("verdict_snapshot", { mode: "json" }).$type<VerdictSnapshotEntry[]>(),
     createdAt: createdAt(),
     decidedAt: integer("decided_at", { mode: "timestamp_ms" }),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" })

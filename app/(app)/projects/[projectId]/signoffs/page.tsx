@@ -55,7 +55,14 @@ function SignoffTable({ items, projectId }: { items: SignoffView[]; projectId: s
             <Td className="figures whitespace-nowrap text-xs">
               {formatDate(s.createdAt)} by {s.requestedBy?.name ?? "a former member"}
             </Td>
-            <Td className="text-sm">{s.requestNote || <span className="text-muted">no note</span>}</Td>
+            <Td className="text-sm">
+              {s.requestNote || <span className="text-muted">no note</span>}
+              {s.verdictSnapshot && s.verdictSnapshot.length > 0 ? (
+                <p className="mt-1 text-xs text-muted">
+                  Asked on: {s.verdictSnapshot.map((v) => `${v.check.replace(/_/g, " ")} ${v.verdict}`).join(", ")}
+                </p>
+              ) : null}
+            </Td>
             <Td className="text-sm">{s.comment}</Td>
             <Td className="text-sm whitespace-nowrap">
               {/* the scenario page's sign-off card decides; the bundle is the evidence of exactly that revision */}

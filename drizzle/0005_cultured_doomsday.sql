@@ -1,0 +1,1 @@
+ALTER TABLE `signoffs` ADD `verdict_snapshot` text;
