@@ -117,6 +117,24 @@ export type PasswordReset = typeof passwordResets.$inferSelect;
 export type NewPasswordReset = typeof passwordResets.$inferInsert;
 
 /** Who did what. `project_id` is null for site-wide events (sign-up, settings) and after a project is deleted. */
+/** A requested change of a user's e-mail address, waiting for the link mailed to the new address. */
+export const emailChanges = sqliteTable(
+  "email_changes",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    /** lower-cased and trimmed, like users.email */
+    newEmail: text("new_email").notNull(),
+    tokenHash: text("token_hash").notNull(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("email_changes_token_hash_idx").on(table.tokenHash)],
+);
+
 export const auditEvents = sqliteTable(
   "audit_events",
   {

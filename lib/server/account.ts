@@ -1,8 +1,13 @@
 import "server-only";
-import { createHash } from "node:crypto";
+import { createHash, randomUUID } from "node:crypto";
 import { and, asc, eq, ne } from "drizzle-orm";
 import { db, runInTransaction } from "@/db/client";
-import { sessions, users } from "@/db/schema";
+import { emailChanges, sessions, users } from "@/db/schema";
+import { normaliseEmail } from "@/db/queries/users";
+import { sendMail } from "@/lib/server/mail/send";
+import { emailChangeMail } from "@/lib/server/mail/templates";
+import { MAIL_LIMITS, takeMailAllowance } from "@/lib/server/mail/rate-limit";
+import { generateToken, hashToken } from "@/lib/server/auth/tokens";
 import { AppError } from "@/lib/base/errors";
 import { recordAudit } from "@/lib/server/audit";
 import { hashPassword, verifyPassword } from "@/lib/server/auth/password";
@@ -82,5 +87,53 @@ export async function setAccountActive({ actor, userId, active, now = new Date()
     const ended = active ? [] : await tx.delete(sessions).where(eq(sessions.userId, userId)).returning({ id: sessions.id });
     await recordAudit(tx, { actor, action: active ? "user.reactivate" : "user.deactivate", target: target.email, detail: active ? {} : { endedSessions: ended.length } });
     return { id: target.id, email: target.email, active, endedSessions: ended.length };
+  });
+}
+
+export const EMAIL_CHANGE_LIFETIME_MS = 24 * 60 * 60 * 1000;
+
+/**
+ * Ask to move the account to a new address: the current password is required (a borrowed session
+ * cannot take the account over), and nothing changes until the link mailed to the new address is used.
+ * `delivery` settles when the mail has been handed to SMTP.
+ */
+export async function requestEmailChange({ actor, newEmail, currentPassword, now = new Date() }: { actor: SessionUser; newEmail: string; currentPassword: string; now?: Date }): Promise<{ delivery: Promise<void> }> {
+  const to = normaliseEmail(newEmail);
+  const [row] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, actor.id));
+  if (!row || !(await verifyPassword(row.passwordHash, currentPassword))) {
+    throw new AppError("validation_failed", 400, "The current password is not right.", { currentPassword: "The current password is not right." });
+  }
+  if (to === actor.email) throw new AppError("validation_failed", 400, "That is already your address.", { newEmail: "That is already your address." });
+  const [taken] = await db.select({ id: users.id }).from(users).where(eq(users.email, to));
+  if (taken) throw new AppError("conflict", 409, "Another account uses that address.", { newEmail: "Another account uses that address." });
+  if (!(await takeMailAllowance([{ key: `email_change:to:${to}`, limit: MAIL_LIMITS.resetPerRecipient }], now.getTime()))) {
+    throw new AppError("too_many_requests", 429, "Too many confirmation e-mails to that address this hour. Try again later.");
+  }
+  const token = generateToken();
+  await runInTransaction(async (tx) => {
+    await tx.insert(emailChanges).values({ id: randomUUID(), userId: actor.id, newEmail: to, tokenHash: hashToken(token), expiresAt: new Date(now.getTime() + EMAIL_CHANGE_LIFETIME_MS) });
+    await recordAudit(tx, { actor, action: "user.email_change_request", target: actor.email, detail: { to } });
+  });
+  const delivery = sendMail(emailChangeMail({ to, name: actor.name, token })).catch((error: unknown) => {
+    console.error("[mail] e-mail change confirmation failed:", error instanceof Error ? error.message : String(error));
+  });
+  return { delivery };
+}
+
+const EMAIL_LINK_INVALID = "This confirmation link has expired or was already used. Ask for a new one on your account page.";
+
+/** Use an e-mail change link: single use, expiring; the address must still be free. */
+export async function confirmEmailChange({ token, now = new Date() }: { token: string; now?: Date }): Promise<{ userId: string; email: string }> {
+  return runInTransaction(async (tx) => {
+    const [row] = await tx.select().from(emailChanges).where(eq(emailChanges.tokenHash, hashToken(token)));
+    if (!row || row.usedAt || row.expiresAt.getTime() <= now.getTime()) throw new AppError("unprocessable", 422, EMAIL_LINK_INVALID, { token: EMAIL_LINK_INVALID });
+    const [taken] = await tx.select({ id: users.id }).from(users).where(eq(users.email, row.newEmail));
+    if (taken) throw new AppError("conflict", 409, "Another account uses that address now.", { token: "Another account uses that address now." });
+    const [user] = await tx.select({ email: users.email }).from(users).where(eq(users.id, row.userId));
+    if (!user) throw new AppError("unprocessable", 422, EMAIL_LINK_INVALID, { token: EMAIL_LINK_INVALID });
+    await tx.update(emailChanges).set({ usedAt: now }).where(eq(emailChanges.id, row.id));
+    await tx.update(users).set({ email: row.newEmail }).where(eq(users.id, row.userId));
+    await recordAudit(tx, { actor: { id: row.userId, email: row.newEmail }, action: "user.email_change", target: row.newEmail, detail: { from: user.email, to: row.newEmail } });
+    return { userId: row.userId, email: row.newEmail };
   });
 }

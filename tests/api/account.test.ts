@@ -1,6 +1,6 @@
-import { beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
-import { call, createAccount, makeRequest, sessionCookieFrom, setUpDatabase, type ErrorJson } from "./helpers";
+import { call, createAccount, makeRequest, sessionCookieFrom, setUpDatabase, startMailCatcher, waitFor, type ErrorJson } from "./helpers";
 import * as signUp from "@/app/api/auth/sign-up/route";
 import * as signIn from "@/app/api/auth/sign-in/route";
 import * as sessionRoute from "@/app/api/auth/session/route";
@@ -13,7 +13,9 @@ import * as userProjectsRoute from "@/app/api/admin/users/[userId]/projects/rout
 import * as adminAuditRoute from "@/app/api/admin/audit/route";
 import * as projectsRoute from "@/app/api/projects/route";
 import { db } from "@/db/client";
-import { auditEvents, sessions, users } from "@/db/schema";
+import { auditEvents, outboxMessages, sessions, users } from "@/db/schema";
+import * as emailRoute from "@/app/api/account/email/route";
+import * as confirmEmailRoute from "@/app/api/auth/email-change/confirm/route";
 
 // Issue 18 item 4: one's own account (password, name, sessions) and the site admin's account controls.
 // Expected behaviour follows the issue text and common practice for account security (OWASP ASVS 4.0
@@ -21,6 +23,7 @@ import { auditEvents, sessions, users } from "@/db/schema";
 // has no live sessions).
 
 let admin: { cookie: string; id: string };
+let mail: Awaited<ReturnType<typeof startMailCatcher>>;
 
 async function signInCookie(email: string, password: string): Promise<string> {
   const response = await call(signIn.POST, makeRequest("POST", "/api/auth/sign-in", { body: { email, password } }));
@@ -30,8 +33,13 @@ async function signInCookie(email: string, password: string): Promise<string> {
 
 const whoAmI = async (cookie: string) => (await call(sessionRoute.GET, makeRequest("GET", "/api/auth/session", { cookie }))).status;
 
+afterAll(async () => {
+  await mail.close();
+});
+
 beforeAll(async () => {
   await setUpDatabase();
+  mail = await startMailCatcher();
   await call(signUp.POST, makeRequest("POST", "/api/auth/sign-up", { body: { name: "Ada Admin", email: "admin@example.test", password: "admin password" } }));
   const response = await call(signIn.POST, makeRequest("POST", "/api/auth/sign-in", { body: { email: "admin@example.test", password: "admin password" } }));
   admin = { cookie: sessionCookieFrom(response)!, id: ((await response.json()) as { user: { id: string } }).user.id };
@@ -148,5 +156,39 @@ describe("site admin", () => {
     const bad = await call(adminAuditRoute.GET, makeRequest("GET", "/api/admin/audit?page=0&from=2026-13-01", { cookie: admin.cookie }));
     expect(bad.status).toBe(400);
     expect(Object.keys(((await bad.json()) as ErrorJson).error.fields ?? {}).sort()).toEqual(["from", "page"]);
+  });
+});
+
+describe("e-mail address change", () => {
+  it("needs the current password, changes nothing until the link mailed to the new address is used, and the link works once", async () => {
+    const person = await createAccount({ email: "vic@example.test", password: "vic long password" });
+    const post = (body: unknown) => call(emailRoute.POST, makeRequest("POST", "/api/account/email", { cookie: person.cookie, body }));
+    const wrong = await post({ newEmail: "victor@example.test", currentPassword: "nope nope nope" });
+    expect(wrong.status).toBe(400);
+    expect(((await wrong.json()) as ErrorJson).error.fields?.currentPassword).toBeDefined();
+    const taken = await post({ newEmail: "admin@example.test", currentPassword: "vic long password" });
+    expect(taken.status).toBe(409);
+    const bad = await post({ newEmail: "not an address", currentPassword: "vic long password" });
+    expect(bad.status).toBe(400);
+    expect(((await bad.json()) as ErrorJson).error.fields?.newEmail).toBeDefined();
+
+    const ok = await post({ newEmail: "Victor@Example.test", currentPassword: "vic long password" });
+    expect(ok.status).toBe(202);
+    const [before] = await db.select().from(users).where(eq(users.id, person.user.id));
+    expect(before.email).toBe("vic@example.test");
+    const message = await waitFor(async () => (await db.select().from(outboxMessages)).find((m) => m.toAddress.includes("victor@example.test")) ?? null);
+    const token = /\/confirm-email\/([A-Za-z0-9_-]+)/.exec(message.text ?? "")?.[1];
+    expect(token).toBeDefined();
+
+    const confirm = () => call(confirmEmailRoute.POST, makeRequest("POST", "/api/auth/email-change/confirm", { body: { token } }));
+    const done = await confirm();
+    expect(done.status).toBe(200);
+    expect(((await done.json()) as { email: string }).email).toBe("victor@example.test");
+    const [after] = await db.select().from(users).where(eq(users.id, person.user.id));
+    expect(after.email).toBe("victor@example.test");
+    expect((await confirm()).status).toBe(422);
+    await signInCookie("victor@example.test", "vic long password");
+    const events = await db.select().from(auditEvents).where(eq(auditEvents.action, "user.email_change"));
+    expect(events[0].detail).toEqual({ from: "vic@example.test", to: "victor@example.test" });
   });
 });

@@ -11,7 +11,7 @@ type Message = { tone: "error" | "success"; text: string; fields?: Record<string
 const failure = (error: unknown, fallback: string): Message =>
   error instanceof ApiError ? { tone: "error", text: error.message, fields: error.fields } : { tone: "error", text: fallback };
 
-/** The account's name (e-mail changes are not offered yet: they need a confirmation mail to the new address). */
+/** The account's name. */
 export function ProfileForm({ initialName }: { initialName: string }) {
   const router = useRouter();
   const [name, setName] = useState(initialName);
@@ -42,6 +42,47 @@ export function ProfileForm({ initialName }: { initialName: string }) {
         </Button>
       </div>
       {message && !message.fields?.name ? <Alert tone={message.tone}>{message.text}</Alert> : null}
+    </form>
+  );
+}
+
+/** Move the account to another address: confirmed by a link mailed to that address. */
+export function EmailForm({ current }: { current: string }) {
+  const [busy, setBusy] = useState(false);
+  const [message, setMessage] = useState<Message>(null);
+  const submit = async (event: FormEvent<HTMLFormElement>) => {
+    event.preventDefault();
+    const form = event.currentTarget;
+    const data = new FormData(form);
+    setBusy(true);
+    setMessage(null);
+    try {
+      const result = await requestJson<{ pending: string }>("/api/account/email", {
+        method: "POST",
+        json: { newEmail: String(data.get("newEmail") ?? ""), currentPassword: String(data.get("currentPassword") ?? "") },
+      });
+      form.reset();
+      setMessage({ tone: "success", text: `We sent a link to ${result.pending}. Your address stays ${current} until you open it (it expires in 24 hours).` });
+    } catch (error) {
+      setMessage(failure(error, "The change could not be asked for."));
+    } finally {
+      setBusy(false);
+    }
+  };
+  return (
+    <form onSubmit={submit} className="flex flex-col gap-3" noValidate>
+      <Field label="New e-mail address" error={message?.fields?.newEmail}>
+        <Input name="newEmail" type="email" autoComplete="email" required />
+      </Field>
+      <Field label="Current password" error={message?.fields?.currentPassword}>
+        <Input name="currentPassword" type="password" autoComplete="current-password" required />
+      </Field>
+      <div>
+        <Button type="submit" size="sm" loading={busy}>
+          Send confirmation link
+        </Button>
+      </div>
+      {message && !message.fields ? <Alert tone={message.tone}>{message.text}</Alert> : null}
     </form>
   );
 }

@@ -7,7 +7,7 @@ import { listApiTokens } from "@/lib/server/auth/api-tokens";
 import { requireUser } from "@/lib/server/auth/session";
 import { ApiTokensSection } from "./api-tokens-section";
 import { NotificationsForm } from "./notifications-form";
-import { PasswordForm, ProfileForm, SessionsList } from "./account-security";
+import { EmailForm, PasswordForm, ProfileForm, SessionsList } from "./account-security";
 import { listOwnSessions } from "@/lib/server/account";
 import { getCurrentSession } from "@/lib/server/auth/session";
 
@@ -37,6 +37,17 @@ export default async function AccountPage() {
         </CardHeader>
         <CardBody>
           <ProfileForm initialName={user.name} />
+        </CardBody>
+      </Card>
+      <Card aria-labelledby="email-heading">
+        <CardHeader>
+          <div>
+            <CardTitle id="email-heading">E-mail address</CardTitle>
+            <CardDescription>Now {user.email}. A new address is used once you open the link we send to it.</CardDescription>
+          </div>
+        </CardHeader>
+        <CardBody>
+          <EmailForm current={user.email} />
         </CardBody>
       </Card>
       <Card aria-labelledby="password-heading">
