@@ -335,3 +335,55 @@ test.describe("3. reviewer's path", () => {
     await context.close();
   });
 });
+
+test.describe("4. site admin", () => {
+  // The demo has no site admin (demo accounts lose it at start): this story makes Olive one directly in
+  // the e2e database for its duration, and takes it back at the end.
+  async function setSiteAdmin(email: string, on: boolean): Promise<void> {
+    const { createClient } = await import("@libsql/client");
+    const client = createClient({ url: "file:data/e2e-playwright.db" });
+    await client.execute({ sql: "UPDATE users SET is_site_admin = ? WHERE email = ?", args: [on ? 1 : 0, email] });
+    client.close();
+  }
+
+  test("deactivating an account ends its sessions at once, after a confirmation; the admin pages pass the accessibility scan", async ({ browser }) => {
+    await setSiteAdmin(demoUsers.owner.email, true);
+    try {
+      const emil = await browser.newContext();
+      const emilPage = await emil.newPage();
+      await signInAs(emilPage, "engineer");
+      expect((await emilPage.request.get("/api/auth/session")).status()).toBe(200);
+
+      const context = await browser.newContext();
+      const page = await context.newPage();
+      await signInAs(page, "owner");
+      const AxeBuilder = (await import("@axe-core/playwright")).default;
+      for (const path of ["/admin/users", "/admin/settings", "/admin/audit"]) {
+        await page.goto(path);
+        const { violations } = await new AxeBuilder({ page }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"]).analyze();
+        expect(violations.filter((v) => v.impact === "serious" || v.impact === "critical").map((v) => `${path}: ${v.id}`)).toEqual([]);
+      }
+      await page.goto("/admin/users");
+      const row = page.getByRole("row").filter({ hasText: demoUsers.engineer.email });
+      await expect(row.getByRole("list", { name: /^Projects of/ })).toContainText(DEMO_PROJECT);
+      await row.getByRole("button", { name: /^Deactivate/ }).click();
+      const dialog = page.getByRole("dialog");
+      await expect(dialog).toContainText("signed out everywhere at once");
+      await dialog.getByRole("button", { name: "Deactivate" }).click();
+      await expect(row.getByText("deactivated")).toBeVisible();
+      expect((await emilPage.request.get("/api/auth/session")).status()).toBe(401);
+
+      await page.goto("/admin/audit");
+      await expect(page.getByRole("cell", { name: new RegExp(`^Deactivated ${demoUsers.engineer.email.replace(".", "\\.")}`) })).toBeVisible();
+
+      await page.goto("/admin/users");
+      await page.getByRole("row").filter({ hasText: demoUsers.engineer.email }).getByRole("button", { name: /^Reactivate/ }).click();
+      await page.getByRole("dialog").getByRole("button", { name: "Reactivate" }).click();
+      await expect(page.getByRole("row").filter({ hasText: demoUsers.engineer.email }).getByText("active", { exact: true })).toBeVisible();
+      await emil.close();
+      await context.close();
+    } finally {
+      await setSiteAdmin(demoUsers.owner.email, false);
+    }
+  });
+});
