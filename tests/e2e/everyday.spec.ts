@@ -254,10 +254,17 @@ test.describe("4. accounts", () => {
     await page.getByRole("button", { name: "Save name" }).click();
     await expect(page.getByText("Your name is now Rhea Reviewer-Renamed.")).toBeVisible();
     // the wrong current password is refused, naming the field
-    await page.getByLabel("Current password").fill("not the password");
-    await page.getByLabel("New password").fill("a brand new long password");
-    await page.getByRole("button", { name: "Change password" }).click();
-    await expect(page.getByText("The current password is not right.")).toBeVisible();
+    const password = page.getByRole("region", { name: "Password" });
+    await password.getByLabel("Current password").fill("not the password");
+    await password.getByLabel("New password").fill("a brand new long password");
+    await password.getByRole("button", { name: "Change password" }).click();
+    await expect(password.getByText("The current password is not right.")).toBeVisible();
+    // a new address waits for the link mailed to it
+    const email = page.getByRole("region", { name: "E-mail address" });
+    await email.getByLabel("New e-mail address").fill("rhea.new@portolan.example");
+    await email.getByLabel("Current password").fill(demoUsers.reviewer.password);
+    await email.getByRole("button", { name: "Send confirmation link" }).click();
+    await expect(email.getByText(/We sent a link to rhea\.new@portolan\.example/)).toBeVisible();
     await context.close();
     await other.close();
   });
