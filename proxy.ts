@@ -1,5 +1,5 @@
 import { NextResponse, type NextRequest } from "next/server";
-import { isAllowedOrigin, originPolicyFromEnv } from "@/lib/base/origins";
+import { isAllowedOrigin, originPolicyFromEnv, REQUEST_PATH_HEADER } from "@/lib/base/origins";
 
 // Runs before every page, route handler and server action (Next 16 Proxy, Node.js runtime): a fresh CSP
 // nonce per request, the security headers, a 400 for URLs that cannot be decoded, and a 403 (not a 500)
@@ -71,6 +71,9 @@ export function proxy(request: NextRequest): NextResponse {
     // Next reads the nonce from the request's CSP header and puts it on its own scripts; the root layout reads x-nonce.
     requestHeaders.set("x-nonce", nonce);
     requestHeaders.set("content-security-policy", csp);
+    // The page asked for, so that a signed-out visitor is sent to sign-in with it as `next` (server
+    // components cannot see the URL otherwise). Set here, never taken from the client.
+    requestHeaders.set(REQUEST_PATH_HEADER, `${request.nextUrl.pathname}${request.nextUrl.search}`);
     // Without trusted proxies, X-Forwarded-Host is whatever the client wrote: Next's own server-action
     // check must compare the Origin with the real Host instead.
     if (policy.trustProxyHops === 0) {

@@ -21,6 +21,8 @@ export const users = sqliteTable("users", {
   passwordHash: text("password_hash").notNull(),
   isSiteAdmin: integer("is_site_admin", { mode: "boolean" }).notNull().default(false),
   notifySignoff: integer("notify_signoff", { mode: "boolean" }).notNull().default(true),
+  /** Set by a site admin: the account cannot sign in and has no sessions or working tokens. */
+  deactivatedAt: integer("deactivated_at", { mode: "timestamp_ms" }),
   createdAt: createdAt(),
 });
 export type User = typeof users.$inferSelect;
@@ -35,6 +37,11 @@ export const sessions = sqliteTable(
       .notNull()
       .references(() => users.id, { onDelete: "cascade" }),
     expiresAt: integer("expires_at").notNull(),
+    /**
+     * When the session was started (the account page lists one's sessions by it). Null for sessions
+     * from before the column: SQLite cannot add a column with an expression default.
+     */
+    createdAt: integer("created_at", { mode: "timestamp_ms" }),
   },
   (table) => [index("sessions_user_id_idx").on(table.userId)],
 );
@@ -110,6 +117,24 @@ export type PasswordReset = typeof passwordResets.$inferSelect;
 export type NewPasswordReset = typeof passwordResets.$inferInsert;
 
 /** Who did what. `project_id` is null for site-wide events (sign-up, settings) and after a project is deleted. */
+/** A requested change of a user's e-mail address, waiting for the link mailed to the new address. */
+export const emailChanges = sqliteTable(
+  "email_changes",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    /** lower-cased and trimmed, like users.email */
+    newEmail: text("new_email").notNull(),
+    tokenHash: text("token_hash").notNull(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("email_changes_token_hash_idx").on(table.tokenHash)],
+);
+
 export const auditEvents = sqliteTable(
   "audit_events",
   {
@@ -321,6 +346,9 @@ export type NewCheckRun = typeof checkRuns.$inferInsert;
 // ---------------------------------------------------------------------------------------------------
 // Sign-offs (issue 7).
 
+/** One check's verdict as it stood when a sign-off was requested. */
+export type VerdictSnapshotEntry = { check: string; verdict: "pass" | "fail" | "warn"; headline: string; runAt: string; runBy: string | null };
+
 export const SIGNOFF_STATES = ["requested", "approved", "changes_requested"] as const;
 export type SignoffState = (typeof SIGNOFF_STATES)[number];
 
@@ -361,6 +389,8 @@ export const signoffs = sqliteTable(
     waiver: text("waiver", { mode: "json" }).$type<SignoffWaiver>(),
     /** the verdict the decision was taken on */
     evidence: text("evidence", { mode: "json" }).$type<SignoffEvidence>(),
+    /** the latest run of each check on the revision when the sign-off was requested (null: before this column) */
+    verdictSnapshot: text("verdict_snapshot", { mode: "json" }).$type<VerdictSnapshotEntry[]>(),
     createdAt: createdAt(),
     decidedAt: integer("decided_at", { mode: "timestamp_ms" }),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" })

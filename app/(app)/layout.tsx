@@ -12,7 +12,7 @@ export default async function WorkspaceLayout({ children }: { children: ReactNod
     <HelmProvider>
       <div className="flex min-h-dvh flex-col">
         <AppHeader user={user} signOutAction={signOutAction} showOutbox={isOutboxAvailable()} />
-        <main id={MAIN_CONTENT_ID} className="mx-auto flex w-full max-w-[96rem] flex-1 flex-col px-4 py-6 sm:px-6">
+        <main id={MAIN_CONTENT_ID} tabIndex={-1} className="mx-auto flex w-full outline-none max-w-[96rem] flex-1 flex-col px-4 py-6 sm:px-6">
           {children}
         </main>
         <Helm />

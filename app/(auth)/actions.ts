@@ -31,13 +31,20 @@ export async function signInAction(_previous: FormState, formData: FormData): Pr
   return state;
 }
 
+/** The sign-in page with a message flag and, when there is one, the page to land on afterwards. */
+function signInWith(flag: string, next: string): string {
+  return next ? `/sign-in?${flag}=1&next=${encodeURIComponent(next)}` : `/sign-in?${flag}=1`;
+}
+
 export async function signUpAction(_previous: FormState, formData: FormData): Promise<FormState> {
+  let next = "";
   const state = await runAction(formData, async (values) => {
     const input = parseForm(signUpSchema, values);
     await requestSignUp(input);
+    next = safeNextPath(values.next, "");
   });
-  // The same answer whether or not the address had an account: go and sign in.
-  if (state.status === "success") redirect("/sign-in?signed-up=1");
+  // The same answer whether or not the address had an account: go and sign in (then on to `next`).
+  if (state.status === "success") redirect(signInWith("signed-up", next));
   return state;
 }
 
@@ -76,8 +83,10 @@ const acceptFormSchema = z.object({
 
 export async function acceptInvitationAction(_previous: FormState, formData: FormData): Promise<FormState> {
   let projectId = "";
+  let next = "";
   const state = await runAction(formData, async (values) => {
-    const cleaned = Object.fromEntries(Object.entries(values).filter(([, v]) => v !== ""));
+    next = safeNextPath(values.next, "");
+    const cleaned = Object.fromEntries(Object.entries(values).filter(([k, v]) => v !== "" && k !== "next"));
     const input = parseForm(acceptFormSchema, cleaned);
     const { user } = await getCurrentSession();
     const result = await acceptInvitation({ ...input, currentUser: user });
@@ -86,7 +95,8 @@ export async function acceptInvitationAction(_previous: FormState, formData: For
   });
   if (state.status === "success") {
     if (!projectId) throw new AppError("internal", 500, "Invitation accepted without a project.");
-    redirect(`/projects/${projectId}`);
+    // a link into the project (a scenario, a sign-off) lands there; otherwise the project's page
+    redirect(next && next.startsWith(`/projects/${projectId}`) ? next : `/projects/${projectId}`);
   }
   return state;
 }

@@ -120,6 +120,9 @@ function BlockNodeView({ data, selected }: NodeProps<BlockNodeType>) {
               style={handleStyle(side, at)}
               // always connectable: an illegal link is refused by the workspace with a message, not silently
               isConnectable={!readOnly}
+              // a named graphic: the handle is a mouse target (the keyboard way is the inspector's port list),
+              // and an aria-label needs a role to be announced at all
+              role="img"
               aria-label={`Port ${ref}${label && label !== String(port) ? ` (${label})` : ""}${sys ? `, system port ${sys.name}` : ""}${linked ? ", linked" : ""}`}
               title={`${ref}${label && label !== String(port) ? ` — ${label}` : ""}. Drag to another port to link; right-click for system port.`}
               onContextMenu={(e) => {

@@ -2,6 +2,7 @@
 
 import useSWR from "swr";
 import { Alert, Badge, Button, Spinner, VerdictBadge } from "@/components/ui";
+import { formatDate } from "@/lib/base/dates";
 import { cn } from "@/components/ui/cn";
 import { checkRunUrls, fetchJson } from "@/lib/browser/api-client";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
@@ -114,6 +115,10 @@ export function ChecksPanel(props: ChecksPanelProps) {
                       ) : null}
                     </span>
                     <span className="truncate text-muted">{r.headline}</span>
+                    <span className="truncate text-muted">
+                      {r.userName ? `by ${r.userName}, ` : ""}
+                      {formatDate(r.createdAt)}
+                    </span>
                   </button>
                 </li>
               ))}

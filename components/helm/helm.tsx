@@ -2,12 +2,14 @@
 
 import { Command } from "cmdk";
 import { usePathname, useRouter } from "next/navigation";
-import { useCallback, useEffect, useMemo, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import useSWR from "swr";
 import { Compass } from "lucide-react";
 import type { RuleSpec } from "@/engine/types";
 import { Kbd } from "@/components/ui";
 import { fetchJson } from "@/lib/browser/api-client";
+import { rankHelmItem } from "./rank";
+import { MAIN_CONTENT_ID } from "@/components/shell/app-header";
 import { cn } from "@/components/ui/cn";
 import { buildCommands, type HelmCommand, type HelmProject, type HelmStep } from "./commands";
 import { useHelmRegistry } from "./helm-context";
@@ -45,13 +47,29 @@ export function Helm() {
   const { data: partsData } = useSWR<{ parts: { id: string; name: string; fileName: string }[] }>(open && projectId ? `/api/projects/${projectId}/parts` : null, fetchJson);
   const { data: rulesData } = useSWR<{ rules: { spec: RuleSpec }[] }>(open && projectId ? `/api/projects/${projectId}/rules` : null, fetchJson);
 
+  // where the focus was when the helm opened (Ctrl+K has no trigger button to return to)
+  const returnFocus = useRef<HTMLElement | null>(null);
+
   /** Open or close, starting afresh each time (no half-answered command survives a close). */
   const changeOpen = useCallback(
     (next: boolean) => {
       setPending(null);
       setSearch("");
       setError(null);
-      if (next) setRecent(readRecent());
+      if (next) {
+        setRecent(readRecent());
+        returnFocus.current = document.activeElement instanceof HTMLElement && document.activeElement !== document.body ? document.activeElement : null;
+      } else {
+        // After the dialog's own close handling: back where the person was, or (when that is gone, e.g.
+        // the command navigated) the page's main content, never the document body.
+        const back = returnFocus.current;
+        returnFocus.current = null;
+        window.setTimeout(() => {
+          if (document.activeElement && document.activeElement !== document.body) return;
+          if (back && back.isConnected) back.focus();
+          else document.getElementById(MAIN_CONTENT_ID)?.focus();
+        }, 0);
+      }
       setOpen(next);
     },
     [setOpen],
@@ -156,7 +174,7 @@ export function Helm() {
       <button
         type="button"
         onClick={() => changeOpen(true)}
-        aria-label="Open the helm"
+        title="Open the helm (Ctrl+K)"
         aria-keyshortcuts="Control+K Meta+K"
         className="fixed right-4 bottom-4 z-30 inline-flex items-center gap-2 rounded-full border-[1.5px] border-ink bg-surface px-3 py-1.5 text-sm text-ink shadow-[2px_2px_0_0_var(--pt-rule)] hover:bg-sunken focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-focus"
       >
@@ -171,6 +189,7 @@ export function Helm() {
         onOpenChange={changeOpen}
         label="Helm"
         shouldFilter={step?.kind !== "text"}
+        filter={rankHelmItem}
         loop
         overlayClassName="fixed inset-0 z-40 bg-ink/25"
         contentClassName="fixed top-[10vh] left-1/2 z-50 w-[min(40rem,94vw)] -translate-x-1/2 rounded-card border-[1.5px] border-ink bg-surface shadow-xl"

@@ -1,6 +1,6 @@
 "use client";
 
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import type { PortRef, Scenario } from "@/engine/types";
 import { Button, Input, Select } from "@/components/ui";
 import { portLabelsOf } from "@/lib/browser/catalogue";
@@ -90,6 +90,15 @@ function PortRow({
 }) {
   const peer = linkedPeer(scenario, refId);
   const sys = systemPortAt(scenario, refId);
+  // after linking from the select, the focus goes to this port's Unlink button (the select is gone)
+  const unlinkRef = useRef<HTMLButtonElement>(null);
+  const justLinked = useRef(false);
+  useEffect(() => {
+    if (peer && justLinked.current) {
+      justLinked.current = false;
+      unlinkRef.current?.focus();
+    }
+  }, [peer]);
   const title = `Port ${refId}${label && label !== refId.split(":").pop() ? ` (${label})` : ""}`;
   return (
     <li className="flex flex-col gap-1.5 rounded-card border border-rule bg-surface px-2.5 py-2" aria-label={title}>
@@ -98,14 +107,24 @@ function PortRow({
         <span className="text-xs text-muted">{peer ? `linked to ${peer}` : sys ? "system port" : "free (matched termination)"}</span>
       </div>
       {peer ? (
-        <Button size="sm" variant="secondary" disabled={readOnly} onClick={() => commit(removeLinkAt(scenario, refId))} aria-label={`Unlink ${refId} from ${peer}`}>
+        <Button ref={unlinkRef} size="sm" variant="secondary" disabled={readOnly} onClick={() => commit(removeLinkAt(scenario, refId))} aria-label={`Unlink ${refId} from ${peer}`}>
           Unlink
         </Button>
       ) : sys ? (
         <SystemPortEditor key={`${sys.name}:${sys.z0 ?? ""}`} scenario={scenario} parts={parts} refId={refId} readOnly={readOnly} commit={commit} />
       ) : (
         <div className="flex flex-wrap items-center gap-2">
-          <LinkTo scenario={scenario} parts={parts} refId={refId} readOnly={readOnly} commit={commit} notify={notify} />
+          <LinkTo
+            scenario={scenario}
+            parts={parts}
+            refId={refId}
+            readOnly={readOnly}
+            commit={(next) => {
+              justLinked.current = true;
+              commit(next);
+            }}
+            notify={notify}
+          />
           <Button
             size="sm"
             variant="secondary"
@@ -141,23 +160,53 @@ function LinkTo({
   notify: PortListProps["notify"];
 }) {
   const options = freePorts(scenario, parts, refId);
+  const [choice, setChoice] = useState("");
+  // A closed select changes its value on arrow keys: from the keyboard a choice is only a choice until
+  // Enter (or the Link button); with the mouse, picking an option links at once.
+  const byKeyboard = useRef(false);
+  const link = (target: string) => {
+    if (!target) return;
+    const r = addLink(scenario, refId, target, parts);
+    setChoice("");
+    if (r.ok) commit(r.scenario);
+    else notify(r.reason);
+  };
   return (
-    <label className="flex min-w-44 flex-1 items-center gap-2 text-xs text-muted">
-      Link to
-      <Select
-        aria-label={`Link ${refId} to`}
-        disabled={readOnly || options.length === 0}
-        value=""
-        onChange={(e) => {
-          const target = e.target.value;
-          if (!target) return;
-          const r = addLink(scenario, refId, target, parts);
-          if (r.ok) commit(r.scenario);
-          else notify(r.reason);
-        }}
-        options={[{ value: "", label: options.length === 0 ? "no free port" : "choose a port…" }, ...options.map((o) => ({ value: o, label: o }))]}
-      />
-    </label>
+    <div className="flex min-w-44 flex-1 items-center gap-2">
+      <label className="flex flex-1 items-center gap-2 text-xs text-muted">
+        Link to
+        <Select
+          aria-label={`Link ${refId} to`}
+          aria-description="Choose a port, then Enter links"
+          disabled={readOnly || options.length === 0}
+          value={choice}
+          onPointerDown={() => {
+            byKeyboard.current = false;
+          }}
+          onKeyDown={(e) => {
+            if (e.key === "Enter") {
+              if (choice) {
+                e.preventDefault();
+                link(choice);
+              }
+              return;
+            }
+            if (e.key !== "Tab") byKeyboard.current = true;
+          }}
+          onChange={(e) => {
+            const target = e.target.value;
+            if (byKeyboard.current) setChoice(target);
+            else link(target);
+          }}
+          options={[{ value: "", label: options.length === 0 ? "no free port" : "choose a port…" }, ...options.map((o) => ({ value: o, label: o }))]}
+        />
+      </label>
+      {choice ? (
+        <Button size="sm" onClick={() => link(choice)} aria-label={`Link ${refId} to ${choice}`}>
+          Link
+        </Button>
+      ) : null}
+    </div>
   );
 }
 

@@ -22,6 +22,19 @@ function heat(db: number): number {
   return Math.min(1, Math.max(0, (db + 60) / 60));
 }
 
+/** Above this heat the figure is written light on a dark cell, at or below it dark on a light cell. */
+const HEAT_SPLIT = 0.55;
+
+/**
+ * Percent of sea in a cell's background. Two bands, so the figure always reads at 4.5:1 or better
+ * (WCAG 2.1 SC 1.4.3, contrast ratio from relative luminance) in both themes: ink on 0–45 % sea
+ * (worst 4.69:1, dark theme), on-ink on 90–100 % sea (worst 4.79:1, light theme). A continuous
+ * 0–100 % ramp put ink on 60 % sea at 2.58:1 in the dark theme.
+ */
+function heatMix(h: number): number {
+  return Math.round(h <= HEAT_SPLIT ? (h / HEAT_SPLIT) * 45 : 90 + ((h - HEAT_SPLIT) / (1 - HEAT_SPLIT)) * 10);
+}
+
 /** The port-to-port matrix |S_ij| dB at one plan frequency as a heat map; each cell shows its trace when picked. */
 export function PortMatrix({ view, index, onIndexChange, active, onPick }: PortMatrixProps) {
   const n = view.s.n;
@@ -84,9 +97,9 @@ export function PortMatrix({ view, index, onIndexChange, active, onPick }: PortM
                         className={cn(
                           "figures h-9 w-[4.75rem] rounded border text-right text-xs",
                           isActive ? "border-ink border-2" : "border-rule",
-                          h > 0.55 ? "text-on-ink" : "text-ink",
+                          h > HEAT_SPLIT ? "text-on-ink" : "text-ink",
                         )}
-                        style={{ background: `color-mix(in srgb, var(--pt-sea) ${Math.round(h * 100)}%, var(--pt-surface))`, paddingRight: 6 }}
+                        style={{ background: `color-mix(in srgb, var(--pt-sea) ${heatMix(h)}%, var(--pt-surface))`, paddingRight: 6 }}
                       >
                         {text}
                       </button>

@@ -154,6 +154,8 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
       const { scenario: next, id } = addBlock(latest.current, choice.kind, centre(), choice.part);
       commit(next);
       setSelection({ blocks: [id], links: [] });
+      // the new block takes the focus (the add-block list has closed), so arrow keys and Delete act on it
+      window.setTimeout(() => document.querySelector<HTMLElement>(`.react-flow__node[data-id="${CSS.escape(id)}"]`)?.focus(), 50);
     },
     [centre, commit, readOnly],
   );

@@ -13,6 +13,7 @@ import { ScenarioRulesPanel } from "@/components/rules/scenario-rules-panel";
 import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
 import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
+import { formatDate } from "@/lib/base/dates";
 import { RevisionHistory } from "./revision-history";
 import { useAutosave } from "./use-autosave";
 import type { PartView } from "@/lib/domain/parts/types";
@@ -35,7 +36,7 @@ export type ScenarioWorkspaceProps = {
  */
 export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: initialParts, readOnly, role }: ScenarioWorkspaceProps) {
   const router = useRouter();
-  const { draft, base, saveState, conflict, saveError, reportError, warnings, generation, edit: onChange, saveNow, loadLatest, forget } = useAutosave({
+  const { draft, base, saveState, conflict, saveError, reportError, warnings, generation, edit: onChange, saveNow, loadLatest, forget, offeredDraft, restoreDraft, discardDraft } = useAutosave({
     projectId,
     scenarioId: info.id,
     revision,
@@ -111,6 +112,25 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
           Composite of r{base.number} (Touchstone)
         </a>
       </div>
+      {offeredDraft ? (
+        <Alert
+          tone="warn"
+          title="Unsaved edits from an earlier visit"
+          actions={
+            <div className="flex flex-wrap gap-2">
+              <Button size="sm" onClick={restoreDraft}>
+                Restore my edits
+              </Button>
+              <Button size="sm" variant="secondary" onClick={discardDraft}>
+                Discard them
+              </Button>
+            </div>
+          }
+        >
+          This browser kept edits to r{offeredDraft.baseNumber} made {formatDate(offeredDraft.editedAt)} that were never saved
+          {offeredDraft.baseRevisionId !== base.id ? `; the scenario has been saved since (now r${base.number}), so restoring them will ask how to resolve the conflict` : ""}.
+        </Alert>
+      ) : null}
       {conflict ? (
         <Alert
           tone="error"

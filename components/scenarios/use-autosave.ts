@@ -5,6 +5,7 @@ import type { Scenario } from "@/engine/types";
 import type { SaveState } from "@/components/scenario-editor";
 import { ApiError, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import type { RevisionView, ScenarioView } from "@/lib/domain/scenarios/types";
+import { clearWorkingDraft, readWorkingDraft, writeWorkingDraft, type WorkingDraft } from "@/lib/browser/working-draft";
 
 /** Wait after the last edit before saving, ms. */
 const AUTOSAVE_DELAY_MS = 1500;
@@ -33,7 +34,16 @@ export type Autosave = {
   loadLatest: () => Promise<void>;
   /** the edits went elsewhere (saved as a new scenario): leaving no longer asks */
   forget: () => void;
+  /** unsaved edits of an earlier visit (reload, closed tab, failed save), kept in this browser */
+  offeredDraft: WorkingDraft | null;
+  /** put the offered draft back on the chart as unsaved edits (saved as usual after that) */
+  restoreDraft: () => void;
+  /** throw the offered draft away */
+  discardDraft: () => void;
 };
+
+/** Asked before an in-app link leaves the page while edits are unsaved. */
+export const LEAVE_QUESTION = "This scenario has unsaved edits. Leave the page anyway? They are kept in this browser as a working draft and offered back when you open the scenario again.";
 
 /**
  * The autosave machine of the scenario page, in one place. States: saved → (edit) unsaved → (delay or
@@ -50,6 +60,7 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
   const [saveError, setSaveError] = useState<string | null>(null);
   const [warnings, setWarnings] = useState<string[]>(revision.warnings);
   const [generation, setGeneration] = useState(0);
+  const [offeredDraft, setOfferedDraft] = useState<WorkingDraft | null>(null);
 
   // refs so that timers and in-flight saves see the latest values
   const draftRef = useRef(draft);
@@ -59,6 +70,11 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
   const conflictRef = useRef<SaveConflict | null>(null);
   const timer = useRef<number | null>(null);
   const saveRef = useRef<() => Promise<void>>(async () => undefined);
+
+  // every unsaved edit is also the working draft in localStorage, until a save catches up with it
+  const keepDraft = useCallback(() => {
+    writeWorkingDraft({ scenarioId, baseRevisionId: baseRef.current.id, baseNumber: baseRef.current.number, scenario: draftRef.current, editedAt: new Date().toISOString() });
+  }, [scenarioId]);
 
   const schedule = useCallback(() => {
     if (timer.current !== null) window.clearTimeout(timer.current);
@@ -84,6 +100,8 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
       setSaveError(null);
       dirtyRef.current = draftRef.current !== sent;
       setSaveState(dirtyRef.current ? "unsaved" : "saved");
+      if (dirtyRef.current) keepDraft();
+      else clearWorkingDraft(scenarioId);
     } catch (e) {
       if (e instanceof ApiError && e.status === 409) {
         const current = (e.body as { current?: { revisionId: string; number: number; authorName: string | null } } | null)?.current;
@@ -100,18 +118,40 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
     }
     // edits made while the save was under way go out next
     if (dirtyRef.current && !conflictRef.current) schedule();
-  }, [projectId, readOnly, scenarioId, schedule]);
+  }, [keepDraft, projectId, readOnly, scenarioId, schedule]);
 
   useEffect(() => {
     saveRef.current = save;
   }, [save]);
 
+  // Leaving the page inside the app (another tab of the project, the helm) unmounts the hook: the
+  // pending edits go out now rather than being dropped with the timer; the working draft stays until
+  // the save succeeds.
   useEffect(
     () => () => {
       if (timer.current !== null) window.clearTimeout(timer.current);
+      timer.current = null;
+      if (dirtyRef.current && !conflictRef.current) void saveRef.current();
     },
     [],
   );
+
+  // An earlier visit's unsaved edits are offered back (after mount: localStorage is browser-only).
+  useEffect(() => {
+    if (readOnly) return;
+    const stored = readWorkingDraft(scenarioId);
+    if (!stored) return;
+    if (JSON.stringify(stored.scenario) === JSON.stringify(revision.content)) {
+      clearWorkingDraft(scenarioId); // nothing in it that the revision does not have
+      return;
+    }
+    // One extra render on opening the page: the server cannot know this browser's storage, so the
+    // offer cannot be in the first (hydrated) render.
+    // eslint-disable-next-line react-hooks/set-state-in-effect
+    setOfferedDraft(stored);
+    // only on opening the page: later revisions come from this page's own saves
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, []);
 
   const edit = useCallback(
     (next: Scenario) => {
@@ -119,11 +159,12 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
       draftRef.current = next;
       dirtyRef.current = true;
       setDraft(next);
+      keepDraft();
       if (conflictRef.current) return; // keep the edits; the banner decides what happens to them
       setSaveState("unsaved");
       schedule();
     },
-    [readOnly, schedule],
+    [keepDraft, readOnly, schedule],
   );
 
   // leaving with unsaved edits asks first
@@ -132,8 +173,27 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
       if (!dirtyRef.current) return;
       event.preventDefault();
     };
+    // In-app links (Next's <Link> included) do not fire beforeunload: a click on a link that leaves this
+    // page asks too. Capture phase on the document runs before React's handlers, so a "no" stops both
+    // the client-side navigation and the browser's own.
+    const onClick = (event: MouseEvent) => {
+      if (!dirtyRef.current || event.defaultPrevented || event.button !== 0) return;
+      if (event.metaKey || event.ctrlKey || event.shiftKey || event.altKey) return; // a new tab or window: this page stays
+      const anchor = (event.target as Element | null)?.closest?.("a[href]");
+      if (!(anchor instanceof HTMLAnchorElement)) return;
+      if (anchor.hasAttribute("download") || (anchor.target && anchor.target !== "_self")) return;
+      const url = new URL(anchor.href, window.location.href);
+      if (url.origin === window.location.origin && url.pathname === window.location.pathname) return; // same page (hash, query)
+      if (window.confirm(LEAVE_QUESTION)) return;
+      event.preventDefault();
+      event.stopPropagation();
+    };
     window.addEventListener("beforeunload", onBeforeUnload);
-    return () => window.removeEventListener("beforeunload", onBeforeUnload);
+    document.addEventListener("click", onClick, true);
+    return () => {
+      window.removeEventListener("beforeunload", onBeforeUnload);
+      document.removeEventListener("click", onClick, true);
+    };
   }, []);
 
   const loadLatest = useCallback(async () => {
@@ -149,6 +209,7 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
     setSaveError(null);
     setSaveState("saved");
     setGeneration((g) => g + 1); // a fresh undo history: the old one describes discarded edits
+    clearWorkingDraft(scenarioId);
   }, [projectId, scenarioId]);
 
   const saveNow = useCallback(() => {
@@ -159,7 +220,28 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
 
   const forget = useCallback(() => {
     dirtyRef.current = false;
-  }, []);
+    clearWorkingDraft(scenarioId);
+  }, [scenarioId]);
 
-  return { draft, base, saveState, conflict, saveError, reportError: setSaveError, warnings, generation, edit, saveNow, loadLatest, forget };
+  const restoreDraft = useCallback(() => {
+    if (!offeredDraft || readOnly) return;
+    // The edits go back onto the revision they started from: if that is not the latest any more, the
+    // save answers with the usual conflict, which offers reload or "save as new scenario".
+    draftRef.current = offeredDraft.scenario;
+    baseRef.current = { id: offeredDraft.baseRevisionId, number: offeredDraft.baseNumber };
+    dirtyRef.current = true;
+    setDraft(offeredDraft.scenario);
+    setBase(baseRef.current);
+    setOfferedDraft(null);
+    setSaveState("unsaved");
+    setGeneration((g) => g + 1);
+    schedule();
+  }, [offeredDraft, readOnly, schedule]);
+
+  const discardDraft = useCallback(() => {
+    clearWorkingDraft(scenarioId);
+    setOfferedDraft(null);
+  }, [scenarioId]);
+
+  return { draft, base, saveState, conflict, saveError, reportError: setSaveError, warnings, generation, edit, saveNow, loadLatest, forget, offeredDraft, restoreDraft, discardDraft };
 }

@@ -40,7 +40,7 @@ export function AppHeader({ user, signOutAction, showOutbox, actions, hrefs }: A
       >
         Skip to content
       </a>
-      <div className="mx-auto flex h-14 max-w-[96rem] items-center gap-4 px-4 sm:px-6">
+      <div className="mx-auto flex h-14 max-w-[96rem] items-center gap-2 px-3 sm:gap-4 sm:px-6">
         <Link
           href={user ? projects : "/"}
           className="rounded-md focus-visible:outline-2 focus-visible:outline-offset-4 focus-visible:outline-focus"
@@ -49,7 +49,8 @@ export function AppHeader({ user, signOutAction, showOutbox, actions, hrefs }: A
           <Wordmark roseSize={24} />
         </Link>
         {links.length > 0 ? (
-          <nav aria-label="Main" className="ml-2">
+          // below 640 px the links move into the account menu (the header would overflow otherwise)
+          <nav aria-label="Main" className="ml-2 hidden sm:block">
             <NavLinks links={links} />
           </nav>
         ) : null}
@@ -57,7 +58,7 @@ export function AppHeader({ user, signOutAction, showOutbox, actions, hrefs }: A
           {actions}
           <ThemeToggle />
           {user ? (
-            <UserMenu name={user.name} email={user.email} isSiteAdmin={user.isSiteAdmin} signOutAction={signOutAction} />
+            <UserMenu name={user.name} email={user.email} isSiteAdmin={user.isSiteAdmin} signOutAction={signOutAction} links={links} />
           ) : (
             <Link href={hrefs?.signIn ?? "/sign-in"} className="text-link text-sm font-medium">
               Sign in

@@ -1,6 +1,7 @@
 "use client";
 
 import { useEffect, useId, useRef, useState } from "react";
+import Link from "next/link";
 import { ChevronDown, LogOut } from "lucide-react";
 import { cn } from "@/components/ui/cn";
 
@@ -10,6 +11,8 @@ export type UserMenuProps = {
   isSiteAdmin?: boolean;
   /** Server action that ends the session; the menu posts a form to it. */
   signOutAction?: () => Promise<void>;
+  /** The header's navigation, repeated in the menu on narrow screens (where the header hides it). */
+  links?: { href: string; label: string }[];
 };
 
 function initialsOf(name: string, email: string): string {
@@ -20,7 +23,7 @@ function initialsOf(name: string, email: string): string {
 }
 
 /** The signed-in person's menu: who they are, and sign out. Escape or a click elsewhere closes it. */
-export function UserMenu({ name, email, isSiteAdmin = false, signOutAction }: UserMenuProps) {
+export function UserMenu({ name, email, isSiteAdmin = false, signOutAction, links = [] }: UserMenuProps) {
   const [open, setOpen] = useState(false);
   const rootRef = useRef<HTMLDivElement>(null);
   const buttonRef = useRef<HTMLButtonElement>(null);
@@ -61,19 +64,36 @@ export function UserMenu({ name, email, isSiteAdmin = false, signOutAction }: Us
           {initialsOf(name, email)}
         </span>
         <span className="hidden max-w-[12rem] truncate sm:inline">{name || email}</span>
-        <span className="sr-only">Account menu</span>
+        <span className="sr-only">{links.length > 0 ? "Menu" : "Account menu"}</span>
         <ChevronDown aria-hidden="true" className="h-3.5 w-3.5 text-muted" />
       </button>
       <div
         id={menuId}
         hidden={!open}
-        className="absolute right-0 z-50 mt-1.5 w-64 rounded-card border border-rule bg-surface p-1.5 shadow-lg"
+        className="absolute right-0 z-50 mt-1.5 w-[min(16rem,calc(100vw-1.5rem))] rounded-card border border-rule bg-surface p-1.5 shadow-lg"
       >
         <div className="border-b border-rule px-2.5 pt-1.5 pb-2.5">
           <p className="truncate text-sm font-medium text-ink">{name}</p>
           <p className="truncate text-xs text-muted">{email}</p>
           {isSiteAdmin ? <p className="mt-1 text-xs font-medium text-sea">Site admin</p> : null}
         </div>
+        {links.length > 0 ? (
+          <nav aria-label="Main (menu)" className="border-b border-rule py-1.5 sm:hidden">
+            <ul>
+              {links.map((l) => (
+                <li key={l.href}>
+                  <Link
+                    href={l.href}
+                    onClick={() => setOpen(false)}
+                    className="block rounded-md px-2.5 py-1.5 text-sm text-ink hover:bg-ink/8 focus-visible:outline-2 focus-visible:outline-focus"
+                  >
+                    {l.label}
+                  </Link>
+                </li>
+              ))}
+            </ul>
+          </nav>
+        ) : null}
         {signOutAction ? (
           <form action={signOutAction} className="pt-1.5">
             <button

@@ -10,7 +10,9 @@ export type TableProps = ComponentProps<"table"> & {
 
 export function Table({ className, wrapperClassName, dense = false, ...rest }: TableProps) {
   return (
-    <div className={cn("w-full overflow-x-auto rounded-card border border-rule bg-surface", wrapperClassName)}>
+    // relative: the frame is the containing block of absolutely placed text in cells (screen-reader-only
+    // labels), which would otherwise sit outside the scrolling frame and widen the page on a phone
+    <div className={cn("relative w-full overflow-x-auto rounded-card border border-rule bg-surface", wrapperClassName)}>
       <table data-dense={dense || undefined} className={cn("group/table w-full border-collapse text-sm", className)} {...rest} />
     </div>
   );

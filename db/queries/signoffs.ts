@@ -3,7 +3,7 @@ import { randomUUID } from "node:crypto";
 import { and, desc, eq, inArray, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { db, runInTransaction } from "@/db/client";
-import { memberships, projects, scenarioRevisions, scenarios, signoffs, users, type SignoffEvidence, type SignoffState, type SignoffWaiver } from "@/db/schema";
+import { checkRuns, memberships, projects, scenarioRevisions, scenarios, signoffs, users, type SignoffEvidence, type SignoffState, type SignoffWaiver, type VerdictSnapshotEntry } from "@/db/schema";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
@@ -29,6 +29,8 @@ export type SignoffView = {
   /** the state to file it under: "stale" wins over the recorded state */
   displayState: SignoffState | "stale";
   requestNote: string;
+  /** the verdicts the request was made on (latest run of each check on that revision) */
+  verdictSnapshot: VerdictSnapshotEntry[] | null;
   comment: string;
   /** failing rules the reviewer waived on approval, each with a reason */
   waiver: SignoffWaiver | null;
@@ -58,6 +60,7 @@ function baseQuery() {
       latestHash: latest.contentHash,
       state: signoffs.state,
       requestNote: signoffs.requestNote,
+      verdictSnapshot: signoffs.verdictSnapshot,
       comment: signoffs.comment,
       waiver: signoffs.waiver,
       evidence: signoffs.evidence,
@@ -96,6 +99,7 @@ function toView(row: Row): SignoffView {
     stale,
     displayState: stale ? "stale" : row.state,
     requestNote: row.requestNote,
+    verdictSnapshot: row.verdictSnapshot ?? null,
     comment: row.comment,
     waiver: row.waiver ?? null,
     evidence: row.evidence ?? null,
@@ -177,6 +181,20 @@ export async function requestSignoff({
       throw new AppError("conflict", 409, `${who.name} already has an open sign-off request for this revision.`, { reviewerIds: who.id });
     }
     const [project] = await tx.select({ name: projects.name }).from(projects).where(eq(projects.id, projectId));
+    // the verdicts the request is made on: the latest run of each check on this revision, newest first
+    const runs = await tx
+      .select({ check: checkRuns.check, verdict: checkRuns.verdict, figures: checkRuns.figures, createdAt: checkRuns.createdAt, userName: users.name })
+      .from(checkRuns)
+      .leftJoin(users, eq(users.id, checkRuns.userId))
+      .where(eq(checkRuns.revisionId, revision.id))
+      .orderBy(desc(checkRuns.createdAt), desc(sql`${checkRuns}.rowid`));
+    const seen = new Set<string>();
+    const verdictSnapshot: VerdictSnapshotEntry[] = [];
+    for (const r of runs) {
+      if (seen.has(r.check)) continue;
+      seen.add(r.check);
+      verdictSnapshot.push({ check: r.check, verdict: r.verdict, headline: (r.figures as { headline?: string } | null)?.headline ?? "", runAt: r.createdAt.toISOString(), runBy: r.userName ?? null });
+    }
     const newIds: string[] = [];
     const now = new Date();
     for (const id of ids) {
@@ -192,6 +210,7 @@ export async function requestSignoff({
         reviewerId: id,
         state: "requested",
         requestNote: note,
+        verdictSnapshot,
         createdAt: now,
         updatedAt: now,
       });

@@ -7,7 +7,7 @@ import { recordAudit, type AuditActor } from "@/lib/server/audit";
 import { AppError } from "@/lib/base/errors";
 
 /** What may leave the server about a user: never the password hash. */
-export type PublicUser = Pick<User, "id" | "email" | "name" | "isSiteAdmin" | "notifySignoff" | "createdAt">;
+export type PublicUser = Pick<User, "id" | "email" | "name" | "isSiteAdmin" | "notifySignoff" | "deactivatedAt" | "createdAt">;
 
 const publicColumns = {
   id: users.id,
@@ -15,6 +15,7 @@ const publicColumns = {
   name: users.name,
   isSiteAdmin: users.isSiteAdmin,
   notifySignoff: users.notifySignoff,
+  deactivatedAt: users.deactivatedAt,
   createdAt: users.createdAt,
 };
 

@@ -98,6 +98,19 @@ const UNSAFE_IN_NEXT = /[\u0000-\u001F\u007F\\]/;
  * parsed with the URL parser against the app's origin and kept only if the result stays on that origin;
  * what is returned is the parsed, percent-encoded path, query and fragment (safe for a Location header).
  */
+/** Request header the proxy sets to the path (and query) of the page asked for; see requireUser. */
+export const REQUEST_PATH_HEADER = "x-portolan-path";
+
+/**
+ * The sign-in page for a signed-out visitor of `path`, carrying it as `next` when it is worth landing
+ * on (not the projects list, which is where sign-in goes anyway).
+ */
+export function signInPathFor(path: string | null | undefined, appOrigin: string): string {
+  const target = safeRedirectPath(path, appOrigin, "");
+  if (!target || target === "/projects" || target === "/") return "/sign-in";
+  return `/sign-in?next=${encodeURIComponent(target)}`;
+}
+
 export function safeRedirectPath(value: string | null | undefined, appOrigin: string, fallback = "/projects"): string {
   if (!value || value.length > 2000 || UNSAFE_IN_NEXT.test(value)) return fallback;
   if (!value.startsWith("/") || value.startsWith("//")) return fallback;

@@ -168,10 +168,12 @@ describe("importing a bundle", () => {
     expect(response.status).toBe(201);
     const result = (await response.json()) as { scenario: { id: string; name: string }; revision: { content: Scenario }; parts: { fileName: string; reused: boolean }[]; contentHashMatches: boolean };
     expect(result.contentHashMatches).toBe(true);
+    // issue 18: the imported scenario's name says it was imported, from which revision and project
+    expect(result.scenario.name).toBe(`${original.name} (imported r1 from Telemetry)`);
     expect(result.parts).toEqual([{ fileName: "telemetry-patch.s1p", reused: false, renamedFrom: null }]);
     const got = await call(scenarioRoute.GET, makeRequest("GET", `/api/projects/${otherProjectId}/scenarios/${result.scenario.id}`, { cookie: engineer.cookie }), { projectId: otherProjectId, scenarioId: result.scenario.id });
     const gotBody = (await got.json()) as { revision: { content: Scenario; origin: string } };
-    expect(gotBody.revision.content).toEqual(original);
+    expect(gotBody.revision.content).toEqual({ ...original, name: result.scenario.name });
     expect(gotBody.revision.origin).toBe("import");
     const [part] = await db.select().from(parts).where(eq(parts.projectId, otherProjectId));
     expect(part.text).toBe(PART_TEXT);

@@ -9,7 +9,7 @@ import * as signoffsRoute from "@/app/api/projects/[projectId]/signoffs/route";
 import * as decideRoute from "@/app/api/projects/[projectId]/signoffs/[signoffId]/decide/route";
 import * as notificationsRoute from "@/app/api/account/notifications/route";
 import { db } from "@/db/client";
-import { auditEvents, memberships, outboxMessages, type OutboxMessage } from "@/db/schema";
+import { auditEvents, checkRuns, memberships, outboxMessages, type OutboxMessage } from "@/db/schema";
 import type { Scenario } from "@/engine/types";
 
 type Account = Awaited<ReturnType<typeof createAccount>>;
@@ -215,5 +215,37 @@ describe("sign-off from request to decision", () => {
     expect(badDecision.status).toBe(400);
     const stranger = await createAccount({ email: "stranger@example.test" });
     expect((await call(signoffsRoute.GET, makeRequest("GET", base(), { cookie: stranger.cookie }), { projectId })).status).toBe(404);
+  });
+});
+
+describe("the verdicts a request was made on (issue 18)", () => {
+  it("a request stores the latest run of each check on that revision, and later runs do not change it", async () => {
+    // a fresh revision, so no reviewer has an open request for this content
+    const latest = (await (await call(revisionsRoute.GET, makeRequest("GET", `/api/projects/${projectId}/scenarios/${scenarioId}/revisions`, { cookie: engineer.cookie }), { projectId, scenarioId })).json()) as { revisions: { id: string }[] };
+    const saved = await call(
+      revisionsRoute.POST,
+      makeRequest("POST", `/api/projects/${projectId}/scenarios/${scenarioId}/revisions`, { cookie: engineer.cookie, body: { baseRevisionId: latest.revisions[0].id, scenario: pads(4.5) } }),
+      { projectId, scenarioId },
+    );
+    expect(saved.status).toBe(201);
+    const rev = ((await saved.json()) as { revision: { id: string } }).revision.id;
+    // two isolation runs (the later one counts) and one match run, as the check-runs route stores them
+    const at = (s: number) => new Date(Date.UTC(2026, 11, 4, 3, 0, s));
+    await db.insert(checkRuns).values([
+      { id: "run-iso-1", scenarioId, revisionId: rev, userId: engineer.user.id, check: "isolation", verdict: "fail", figures: { headline: "old", result: null } as never, createdAt: at(1) },
+      { id: "run-iso-2", scenarioId, revisionId: rev, userId: engineer.user.id, check: "isolation", verdict: "pass", figures: { headline: "isolation 41.2 dB ≥ 30 dB", result: null } as never, createdAt: at(2) },
+      { id: "run-match", scenarioId, revisionId: rev, userId: owner.user.id, check: "match", verdict: "warn", figures: { headline: "return loss 9.8 dB", result: null } as never, createdAt: at(3) },
+    ]);
+    const response = await request(engineer.cookie, { scenarioId, reviewerIds: [reviewer.user.id] });
+    expect(response.status).toBe(201);
+    const [created] = ((await response.json()) as { signoffs: { verdictSnapshot: { check: string; verdict: string; headline: string; runBy: string | null }[] }[] }).signoffs;
+    expect(created.verdictSnapshot).toEqual([
+      { check: "match", verdict: "warn", headline: "return loss 9.8 dB", runAt: at(3).toISOString(), runBy: owner.user.name },
+      { check: "isolation", verdict: "pass", headline: "isolation 41.2 dB ≥ 30 dB", runAt: at(2).toISOString(), runBy: engineer.user.name },
+    ]);
+    await db.insert(checkRuns).values({ id: "run-iso-3", scenarioId, revisionId: rev, userId: engineer.user.id, check: "isolation", verdict: "fail", figures: { headline: "later", result: null } as never, createdAt: at(9) });
+    const again = (await list(engineer.cookie)) as unknown as { revisionNumber: number; verdictSnapshot: { headline: string }[] | null }[];
+    const snapshot = again.find((s) => s.verdictSnapshot && s.verdictSnapshot.length === 2)!.verdictSnapshot!;
+    expect(snapshot.map((e) => e.headline)).toEqual(["return loss 9.8 dB", "isolation 41.2 dB ≥ 30 dB"]);
   });
 });

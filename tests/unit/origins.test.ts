@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { forwardedClientAddress, isAllowedOrigin, isLoopbackUrl, safeRedirectPath, type OriginPolicy } from "@/lib/base/origins";
+import { forwardedClientAddress, isAllowedOrigin, isLoopbackUrl, safeRedirectPath, signInPathFor, type OriginPolicy } from "@/lib/base/origins";
 import { parseEnv } from "@/lib/base/env";
 
 const APP = "https://portolan.example";
@@ -53,6 +53,24 @@ describe("safeRedirectPath", () => {
 });
 
 // Issue 12 item 7: the whole origin (scheme, host and port) is compared; X-Forwarded-* only behind TRUST_PROXY.
+describe("signInPathFor", () => {
+  // The `next` parameter is a URL query value: it must round-trip through URLSearchParams (WHATWG URL
+  // standard, application/x-www-form-urlencoded parsing) to the same path.
+  it("carries a deep link as next, encoded so that the query parses back to the same path", () => {
+    const target = "/projects/p1/signoffs?review=s1&x=a b#evidence";
+    const to = signInPathFor(target, APP);
+    const parsed = new URL(to, APP);
+    expect(parsed.pathname).toBe("/sign-in");
+    expect(parsed.searchParams.get("next")).toBe(safeRedirectPath(target, APP));
+  });
+
+  it("drops next for the projects list and for anything that is not a same-origin path", () => {
+    for (const value of [null, "", "/", "/projects", "https://evil.example/x", "//evil.example", "/\\evil.example"]) {
+      expect(signInPathFor(value, APP)).toBe("/sign-in");
+    }
+  });
+});
+
 describe("isAllowedOrigin", () => {
   const explicit: OriginPolicy = { appOrigin: APP, extraOrigin: null, explicit: true, trustProxyHops: 0 };
   const request = (headers: Record<string, string>, url = "http://10.0.0.5:3000/api/projects") => ({ url, headers: new Headers(headers) });

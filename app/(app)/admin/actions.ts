@@ -1,16 +1,13 @@
 "use server";
 
 import { revalidatePath } from "next/cache";
-import { z } from "zod";
 import { runInTransaction } from "@/db/client";
 import { setSignupMode } from "@/db/queries/settings";
-import { setSiteAdmin } from "@/db/queries/users";
 import { assertSiteAdmin } from "@/lib/server/admin";
 import { parseForm, runAction } from "@/lib/server/actions";
 import { requireUser } from "@/lib/server/auth/session";
 import type { FormState } from "@/lib/base/form-state";
 import { updateSettingsSchema } from "@/lib/base/validation/admin";
-import { idSchema } from "@/lib/base/validation/common";
 
 export async function updateSettingsAction(_previous: FormState, formData: FormData): Promise<FormState> {
   return runAction(formData, async (values) => {
@@ -20,18 +17,5 @@ export async function updateSettingsAction(_previous: FormState, formData: FormD
     await runInTransaction((tx) => setSignupMode({ mode: signupMode, actor: user, executor: tx }));
     revalidatePath("/admin/settings");
     return { status: "success", message: signupMode === "open" ? "Anyone can now create an account." : "New accounts now need an invitation." };
-  });
-}
-
-const siteAdminSchema = z.object({ userId: idSchema, isSiteAdmin: z.enum(["true", "false"]).transform((v) => v === "true") });
-
-export async function setSiteAdminAction(_previous: FormState, formData: FormData): Promise<FormState> {
-  return runAction(formData, async (values) => {
-    const user = await requireUser();
-    assertSiteAdmin(user);
-    const { userId, isSiteAdmin } = parseForm(siteAdminSchema, values);
-    const updated = await setSiteAdmin({ userId, isSiteAdmin, actor: user });
-    revalidatePath("/admin/users");
-    return { status: "success", message: `${updated.email} is ${updated.isSiteAdmin ? "now" : "no longer"} a site admin.` };
   });
 }

@@ -13,6 +13,7 @@ export default async function AdminLayout({ children }: { children: ReactNode })
         tabs={[
           { href: "/admin/users", label: "Users" },
           { href: "/admin/settings", label: "Settings" },
+          { href: "/admin/audit", label: "Audit log" },
         ]}
       />
       <div>{children}</div>

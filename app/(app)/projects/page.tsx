@@ -18,7 +18,7 @@ export default async function ProjectsPage() {
   return (
     <div className="flex flex-col gap-6">
       <PageHeader title="Projects" description="The projects you are a member of, and your role in each." />
-      <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
         <section aria-labelledby="project-list-heading" className="flex flex-col gap-3">
           <h2 id="project-list-heading" className="sr-only">
             Your projects

@@ -32,7 +32,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
         {signupOpen ? (
           <p className="text-muted">
             New here?{" "}
-            <Link className="text-link" href="/sign-up">
+            <Link className="text-link" href={next === "/projects" ? "/sign-up" : `/sign-up?next=${encodeURIComponent(next)}`}>
               Create an account
             </Link>
           </p>

@@ -8,11 +8,12 @@ import { IDLE } from "@/lib/base/form-state";
 import { signUpAction } from "../actions";
 import { FormMessage } from "../form-message";
 
-export function SignUpForm() {
+export function SignUpForm({ next }: { next: string }) {
   const [state, action, pending] = useActionState(signUpAction, IDLE);
   return (
     <form action={action} className="flex flex-col gap-4" noValidate>
       <FormMessage state={state} />
+      {next ? <input type="hidden" name="next" value={next} /> : null}
       <Field label="Name" error={state.fields?.name}>
         <Input name="name" autoComplete="name" required defaultValue={state.values?.name} />
       </Field>

@@ -10,3 +10,10 @@ export const updateSettingsSchema = z.object({
 export const updateUserSchema = z.object({
   isSiteAdmin: z.boolean({ error: "isSiteAdmin must be true or false." }),
 });
+
+export const setAccountActiveSchema = z
+  .object({
+    /** false deactivates the account (its sessions end at once), true reactivates it */
+    active: z.boolean({ error: "active must be true or false." }),
+  })
+  .strict();

@@ -108,6 +108,7 @@ export async function signIn({
     throw new AppError("unauthenticated", 401, "Wrong e-mail or password.", { email: "Wrong e-mail or password." });
   }
   await clearSignInFailures(keys);
+  if (user.deactivatedAt) throw new AppError("forbidden", 403, "This account has been deactivated by a site admin.", { email: "This account has been deactivated by a site admin." });
   const { token, cookie } = await createSessionForUser(user.id);
   return { user: toSessionUser(user), token, cookie, deviceCookie: await issueDeviceCookie(user.email) };
 }

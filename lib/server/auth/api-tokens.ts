@@ -107,11 +107,11 @@ const INVALID_TOKEN = "The API token is not valid: it may be mistyped, expired o
 export async function authenticateApiToken(token: string, now = new Date()): Promise<{ user: SessionUser; scope: TokenScope }> {
   if (!token.startsWith(API_TOKEN_PREFIX) || token.length > 200) throw new AppError("unauthenticated", 401, INVALID_TOKEN);
   const [row] = await db
-    .select({ token: apiTokens, user: { id: users.id, email: users.email, name: users.name } })
+    .select({ token: apiTokens, user: { id: users.id, email: users.email, name: users.name }, deactivatedAt: users.deactivatedAt })
     .from(apiTokens)
     .innerJoin(users, eq(users.id, apiTokens.userId))
     .where(eq(apiTokens.tokenHash, hashToken(token)));
-  if (!row || row.token.revokedAt || row.token.expiresAt.getTime() <= now.getTime()) throw new AppError("unauthenticated", 401, INVALID_TOKEN);
+  if (!row || row.deactivatedAt || row.token.revokedAt || row.token.expiresAt.getTime() <= now.getTime()) throw new AppError("unauthenticated", 401, INVALID_TOKEN);
   // Recorded at most once a minute per token, to keep reads from writing on every request.
   if (!row.token.lastUsedAt || now.getTime() - row.token.lastUsedAt.getTime() > 60_000) {
     await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, row.token.id));

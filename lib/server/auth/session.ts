@@ -1,9 +1,14 @@
 import "server-only";
 import { cache } from "react";
-import { cookies } from "next/headers";
+import { cookies, headers } from "next/headers";
 import { redirect } from "next/navigation";
 import type { Cookie, Session, User } from "lucia";
 import { AppError } from "@/lib/base/errors";
+import { getEnv } from "@/lib/base/env";
+import { REQUEST_PATH_HEADER, signInPathFor } from "@/lib/base/origins";
+import { eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { sessions } from "@/db/schema";
 import { getLucia, SESSION_COOKIE_NAME } from "./lucia";
 import { generateToken, hashToken } from "./tokens";
 
@@ -28,7 +33,9 @@ function toSessionInfo(session: Session): SessionInfo {
 export async function createSessionForUser(userId: string): Promise<{ token: string; cookie: Cookie }> {
   const lucia = getLucia();
   const token = generateToken();
-  await lucia.createSession(userId, {}, { sessionId: hashToken(token) });
+  const sessionId = hashToken(token);
+  await lucia.createSession(userId, {}, { sessionId });
+  await getDb().update(sessions).set({ createdAt: new Date() }).where(eq(sessions.id, sessionId));
   return { token, cookie: lucia.createSessionCookie(token) };
 }
 
@@ -89,10 +96,14 @@ export const getCurrentSession = cache(async (): Promise<CurrentSession> => {
   return { user: result.user, session: result.session };
 });
 
-/** Pages and server actions: the signed-in user, or a redirect to the sign-in page. */
+/**
+ * Pages and server actions: the signed-in user, or a redirect to the sign-in page with the page asked
+ * for as `next` (a same-origin path only, checked again where it is used), so that a link from an
+ * e-mail lands where it points after sign-in.
+ */
 export async function requireUser(): Promise<SessionUser> {
   const { user } = await getCurrentSession();
-  if (!user) redirect("/sign-in");
+  if (!user) redirect(signInPathFor((await headers()).get(REQUEST_PATH_HEADER), getEnv().originPolicy.appOrigin));
   return user;
 }
 

@@ -3,7 +3,7 @@ import { randomUUID } from "node:crypto";
 import { and, eq } from "drizzle-orm";
 import { runInTransaction, type Executor } from "@/db/client";
 import { createPart, readPartText } from "@/db/queries/parts";
-import { insertRevision, type RevisionDetail } from "@/db/queries/revisions";
+import { hashScenarioContent, insertRevision, type RevisionDetail } from "@/db/queries/revisions";
 import { parts, scenarios } from "@/db/schema";
 import { BundleError, engineScenario, openBundle, usedPartFiles, type BundleManifest } from "@/engine/bundle";
 import { parseScenario } from "@/engine/scenario";
@@ -56,6 +56,14 @@ async function freePartName(tx: Executor, projectId: string, fileName: string): 
  * whose file name and text already exist in the project are reused; a different part of the same name is
  * stored under a free name ("ant-2.s1p") and the scenario's blocks point at it. One transaction.
  */
+/** "Baseline (imported r3 from Kestrel)", shortened to the 200-character limit of scenario names. */
+export function importedScenarioName(name: string, revision: number, fromProject: string): string {
+  const suffix = ` (imported r${revision} from ${fromProject})`;
+  const short = ` (imported r${revision})`;
+  if (name.length + suffix.length <= 200) return `${name}${suffix}`;
+  return `${name.slice(0, 200 - short.length - 1).trimEnd()}…${short}`;
+}
+
 export async function importBundle({ actor, projectId, bytes }: { actor: SessionUser; projectId: string; bytes: Uint8Array }): Promise<ImportResult> {
   await authorize({ userId: actor.id, projectId, action: "bundle.import" });
   let bundle;
@@ -115,13 +123,16 @@ export async function importBundle({ actor, projectId, bytes }: { actor: Session
     }
     const stored: DraftScenario = renames.size === 0 ? content : { ...content, blocks: content.blocks.map((b) => (b.file && renames.has(b.file) ? { ...b, file: renames.get(b.file) } : b)) };
     const scenarioId = randomUUID();
-    await tx.insert(scenarios).values({ id: scenarioId, projectId, name: name.data, createdBy: actor.id });
+    // The name says where the scenario came from (not a second "Baseline"). The stored file takes the
+    // new name (it follows the scenario's), so "arrived intact" compares the content under its old name.
+    const listName = importedScenarioName(name.data, bundle.manifest.revision.number, bundle.manifest.project.name);
+    await tx.insert(scenarios).values({ id: scenarioId, projectId, name: listName, createdBy: actor.id });
     const revision = await insertRevision(tx, { scenarioId, projectId, content: stored, authorId: actor.id, origin: "import" });
     await recordAudit(tx, {
       actor,
       projectId,
       action: "bundle.import",
-      target: name.data,
+      target: listName,
       detail: {
         scenarioId,
         fromProject: bundle.manifest.project.name,
@@ -132,11 +143,11 @@ export async function importBundle({ actor, projectId, bytes }: { actor: Session
       },
     });
     return {
-      scenario: { id: scenarioId, name: name.data },
+      scenario: { id: scenarioId, name: listName },
       revision,
       parts: imported,
       manifest,
-      contentHashMatches: revision.contentHash === bundle.manifest.revision.content_hash,
+      contentHashMatches: hashScenarioContent({ ...revision.content, name: name.data }) === bundle.manifest.revision.content_hash,
     };
   });
 }

@@ -23,7 +23,7 @@ th,td{border:1px solid #CDBF9F;padding:4px 6px;text-align:left;vertical-align:to
 th{background:#EDE5D1;font-weight:600}
 .num,.mono{font-family:ui-monospace,"SFMono-Regular",Menlo,Consolas,monospace;font-variant-numeric:tabular-nums}
 .num{text-align:right;white-space:nowrap}
-.pass{color:#2F7A68;font-weight:700}.fail{color:#B8432B;font-weight:700}.warn{color:#B5852A;font-weight:700}
+.pass{color:#276B5A;font-weight:700}.fail{color:#A63A24;font-weight:700}.warn{color:#7D5812;font-weight:700}
 .muted{color:#55606B}.small{font-size:12px}
 .caution{border:2px solid #B8432B;background:#FBF1EC;padding:8px 12px;margin:12px 0}
 .caution ul{margin:4px 0 0 18px;padding:0}

@@ -76,3 +76,18 @@ export function welcomeMail({ to, name }: { to: string; name: string }): MailInp
   const html = `<p>Hello ${escapeHtml(name)},</p><p>Your Portolan account for this address is ready. <a href="${escapeHtml(signIn)}">Sign in</a>.</p><p>If you did not create it, tell your Portolan administrator.</p>`;
   return { to, subject, text, html };
 }
+
+/** Sent to the new address when someone asks to move their account to it. */
+export function emailChangeMail({ to, name, token }: { to: string; name: string; token: string }): MailInput {
+  const link = appLink(`/confirm-email/${token}`);
+  const subject = "Confirm your new Portolan e-mail address";
+  const text = [
+    `${name} asked to use this address for their Portolan account.`,
+    "",
+    `Confirm it: ${link}`,
+    "",
+    "The link works once and expires in 24 hours. Until it is used, the account keeps its old address. If you did not ask for this, ignore this message.",
+  ].join("\n");
+  const html = `<p>${escapeHtml(name)} asked to use this address for their Portolan account.</p><p><a href="${escapeHtml(link)}">Confirm the new address</a></p><p>The link works once and expires in 24 hours. Until it is used, the account keeps its old address. If you did not ask for this, ignore this message.</p>`;
+  return { to, subject, text, html };
+}

@@ -3,7 +3,8 @@ import { Badge } from "@/components/ui/badge";
 import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
 import { listUsers } from "@/db/queries/users";
 import { requireSiteAdmin } from "@/lib/server/auth/session";
-import { SiteAdminToggle } from "./site-admin-toggle";
+import { AccountActiveToggle, SiteAdminToggle } from "./site-admin-toggle";
+import { listProjectsForUser } from "@/db/queries/projects";
 import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Users" };
@@ -11,6 +12,8 @@ export const metadata: Metadata = { title: "Users" };
 export default async function AdminUsersPage() {
   const admin = await requireSiteAdmin();
   const users = await listUsers();
+  // a person's projects, so an admin sees what deactivating them would leave without its member
+  const projectsOf = new Map(await Promise.all(users.map(async (u) => [u.id, await listProjectsForUser({ userId: u.id })] as const)));
   return (
     <Table>
       <THead>
@@ -18,6 +21,8 @@ export default async function AdminUsersPage() {
           <Th>Name</Th>
           <Th>Email</Th>
           <Th>Since</Th>
+          <Th>Projects</Th>
+          <Th>Status</Th>
           <Th>Site admin</Th>
         </Tr>
       </THead>
@@ -30,6 +35,25 @@ export default async function AdminUsersPage() {
             </Td>
             <Td className="text-muted">{user.email}</Td>
             <Td className="figures whitespace-nowrap text-muted">{formatDate(user.createdAt, "day")}</Td>
+            <Td className="text-sm">
+              {(projectsOf.get(user.id) ?? []).length === 0 ? (
+                <span className="text-muted">none</span>
+              ) : (
+                <ul aria-label={`Projects of ${user.name}`}>
+                  {(projectsOf.get(user.id) ?? []).map((p) => (
+                    <li key={p.id}>
+                      {p.name} <span className="text-muted">({p.role})</span>
+                    </li>
+                  ))}
+                </ul>
+              )}
+            </Td>
+            <Td>
+              <div className="flex items-center gap-2">
+                {user.deactivatedAt ? <Badge tone="warn">deactivated</Badge> : <span className="text-sm text-muted">active</span>}
+                {user.id === admin.id ? null : <AccountActiveToggle userId={user.id} name={user.name} active={!user.deactivatedAt} />}
+              </div>
+            </Td>
             <Td>
               <div className="flex items-center gap-2">
                 {user.isSiteAdmin ? <Badge tone="info">admin</Badge> : null}

@@ -1,17 +1,6 @@
-import Link from "next/link";
-import { EmptyState } from "@/components/ui/empty-state";
+import { NotFoundView } from "@/components/shell/not-found-view";
 
-export default function ProjectNotFound() {
-  return (
-    <EmptyState
-      className="my-10"
-      title="Project not found"
-      description="It does not exist, or you are not a member. Ask its owner for an invitation."
-      action={
-        <Link className="text-link" href="/projects">
-          Back to your projects
-        </Link>
-      }
-    />
-  );
+/** A scenario, part or other id inside a project that does not exist (or not in this project). */
+export default function ProjectItemNotFound() {
+  return <NotFoundView title="Not found in this project" description="The scenario or page you asked for does not exist in this project. It may have been deleted." headingLevel={2} />;
 }

@@ -21,7 +21,7 @@ export default async function ProjectOverviewPage({ params }: { params: Promise<
   const canRename = can(project.role, "project.rename");
   const canDelete = can(project.role, "project.delete");
   return (
-    <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_24rem]">
+    <div className="grid grid-cols-[minmax(0,1fr)] gap-6 lg:grid-cols-[minmax(0,1fr)_24rem]">
       <section aria-labelledby="about-heading" className="flex flex-col gap-3">
         <h2 id="about-heading" className="text-lg font-semibold">
           About

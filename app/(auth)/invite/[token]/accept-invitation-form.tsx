@@ -9,12 +9,13 @@ import { acceptInvitationAction } from "../../actions";
 import { FormMessage } from "../../form-message";
 
 /** Signed in: one button links this account. Otherwise: name and password create the account. */
-export function AcceptInvitationForm({ token, signedInAs }: { token: string; signedInAs: string | null }) {
+export function AcceptInvitationForm({ token, signedInAs, next }: { token: string; signedInAs: string | null; next: string }) {
   const [state, action, pending] = useActionState(acceptInvitationAction, IDLE);
   return (
     <form action={action} className="flex flex-col gap-4" noValidate>
       <FormMessage state={state} />
       <input type="hidden" name="token" value={token} />
+      {next ? <input type="hidden" name="next" value={next} /> : null}
       {signedInAs ? (
         <p className="text-sm">
           Accept as <span className="font-medium">{signedInAs}</span>.

@@ -3,14 +3,24 @@ import Link from "next/link";
 import { Alert } from "@/components/ui/alert";
 import { getUserByEmail } from "@/db/queries/users";
 import { getCurrentSession } from "@/lib/server/auth/session";
+import { safeNextPath } from "@/lib/server/actions";
 import { findUsableInvitation } from "@/lib/server/invitations";
 import { tokenSchema } from "@/lib/base/validation/common";
 import { AcceptInvitationForm } from "./accept-invitation-form";
 
 export const metadata: Metadata = { title: "Invitation" };
 
-export default async function InvitationPage({ params }: { params: Promise<{ token: string }> }) {
+export default async function InvitationPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ token: string }>;
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const { token } = await params;
+  const query = await searchParams;
+  const next = safeNextPath(typeof query.next === "string" ? query.next : null, "");
+  const here = next ? `/invite/${token}?next=${encodeURIComponent(next)}` : `/invite/${token}`;
   const invitation = tokenSchema.safeParse(token).success ? await findUsableInvitation({ token }) : null;
   if (!invitation) {
     return (
@@ -42,13 +52,13 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
         </Alert>
       ) : hasAccount ? (
         <Alert tone="info" title="You already have an account">
-          <Link className="text-link" href={`/sign-in?next=${encodeURIComponent(`/invite/${token}`)}`}>
+          <Link className="text-link" href={`/sign-in?next=${encodeURIComponent(here)}`}>
             Sign in as {invitation.email}
           </Link>{" "}
           to accept.
         </Alert>
       ) : (
-        <AcceptInvitationForm token={token} signedInAs={user?.email ?? null} />
+        <AcceptInvitationForm token={token} signedInAs={user?.email ?? null} next={next} />
       )}
     </div>
   );

@@ -1,56 +1,37 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
-import { EmptyState } from "@/components/ui/empty-state";
-import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui/table";
-import { listAuditEvents } from "@/db/queries/audit";
+import { AuditLog } from "@/components/audit/audit-log";
+import { listAuditActors, listAuditEvents } from "@/db/queries/audit";
 import { can } from "@/lib/base/permission-table";
+import { auditFilterOf, auditQuerySchema, parseAuditQuery } from "@/lib/base/validation/audit";
+import { PROJECT_AUDIT_KINDS } from "@/lib/domain/audit/describe";
 import { loadProject } from "../load-project";
-import { formatDate } from "@/lib/base/dates";
 
 export const metadata: Metadata = { title: "Audit log" };
 
-function describeDetail(detail: Record<string, unknown> | null): string {
-  if (!detail) return "";
-  return Object.entries(detail)
-    .map(([key, value]) => `${key}: ${typeof value === "string" ? value : JSON.stringify(value)}`)
-    .join(", ");
-}
-
-export default async function AuditPage({ params }: { params: Promise<{ projectId: string }> }) {
+export default async function AuditPage({ params, searchParams }: { params: Promise<{ projectId: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const { projectId } = await params;
   const { user, project } = await loadProject(projectId);
   // The tab is hidden from non-owners; the server refuses them too.
   if (!can(project.role, "audit.read")) notFound();
-  const events = await listAuditEvents({ actor: user, projectId });
-  if (events.length === 0) return <EmptyState title="Nothing recorded yet" description="Changes to the project and its members appear here." />;
+  const parsed = parseAuditQuery(await searchParams);
+  const query = parsed.success ? parsed.data : auditQuerySchema.parse({});
+  const [rows, people] = await Promise.all([listAuditEvents({ actor: user, projectId, ...auditFilterOf(query) }), listAuditActors({ projectId })]);
   return (
     <section aria-labelledby="audit-heading" className="flex flex-col gap-3">
       <h2 id="audit-heading" className="text-lg font-semibold">
         Audit log
       </h2>
       <p className="text-sm text-muted">Who did what in this project, newest first (times in UTC).</p>
-      <Table dense>
-        <THead>
-          <Tr>
-            <Th>When</Th>
-            <Th>Who</Th>
-            <Th>Action</Th>
-            <Th>Target</Th>
-            <Th>Detail</Th>
-          </Tr>
-        </THead>
-        <TBody>
-          {events.map((event) => (
-            <Tr key={event.id}>
-              <Td className="figures whitespace-nowrap">{formatDate(event.createdAt, "second")}</Td>
-              <Td>{event.actorName ?? event.actorEmail ?? "Portolan"}</Td>
-              <Td className="font-mono text-xs">{event.action}</Td>
-              <Td>{event.target ?? ""}</Td>
-              <Td className="text-xs text-muted">{describeDetail(event.detail)}</Td>
-            </Tr>
-          ))}
-        </TBody>
-      </Table>
+      <AuditLog
+        path={`/projects/${projectId}/audit`}
+        csvPath={`/api/projects/${projectId}/audit`}
+        rows={rows}
+        people={people}
+        kinds={PROJECT_AUDIT_KINDS}
+        query={query}
+        error={parsed.success ? null : `Filters ignored: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`}
+      />
     </section>
   );
 }

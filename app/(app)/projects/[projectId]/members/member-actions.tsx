@@ -10,7 +10,22 @@ import { changeRoleAction, removeMemberAction, revokeInvitationAction } from "..
 import { ROLE_OPTIONS } from "./role-options";
 
 /** An owner's controls for one member: change role, remove. The server refuses to drop the last owner. */
-export function MemberActions({ projectId, userId, name, role, isSelf }: { projectId: string; userId: string; name: string; role: Role; isSelf: boolean }) {
+export function MemberActions({
+  projectId,
+  userId,
+  name,
+  role,
+  isSelf,
+  lastOwner = false,
+}: {
+  projectId: string;
+  userId: string;
+  name: string;
+  role: Role;
+  isSelf: boolean;
+  /** the project's only owner: leaving or removing is not offered (a project keeps an owner) */
+  lastOwner?: boolean;
+}) {
   const [state, action, pending] = useActionState(changeRoleAction, IDLE);
   const [confirming, setConfirming] = useState(false);
   const [removeError, setRemoveError] = useState<string | null>(null);
@@ -29,10 +44,14 @@ export function MemberActions({ projectId, userId, name, role, isSelf }: { proje
             Save
           </Button>
         </form>
-        <Button size="sm" variant="ghost" onClick={() => setConfirming(true)}>
-          {isSelf ? "Leave" : "Remove"}
-          <span className="sr-only"> {name}</span>
-        </Button>
+        {lastOwner ? (
+          <span className="text-xs text-muted">Only owner: make someone else owner to {isSelf ? "leave" : "remove"}</span>
+        ) : (
+          <Button size="sm" variant="ghost" onClick={() => setConfirming(true)}>
+            {isSelf ? "Leave" : "Remove"}
+            <span className="sr-only"> {name}</span>
+          </Button>
+        )}
       </div>
       {state.message ? (
         <p role={state.status === "error" ? "alert" : "status"} className={state.status === "error" ? "text-xs text-fail-strong" : "text-xs text-pass-strong"}>

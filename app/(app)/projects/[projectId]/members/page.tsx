@@ -19,8 +19,10 @@ export default async function MembersPage({ params }: { params: Promise<{ projec
     listMembers({ actor: user, projectId }),
     manage ? listPendingInvitations({ actor: user, projectId }) : Promise.resolve([]),
   ]);
+  // the last owner cannot leave or be removed (the server refuses it too): the action is not offered
+  const ownerCount = members.filter((m) => m.role === "owner").length;
   return (
-    <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
+    <div className="grid grid-cols-[minmax(0,1fr)] gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
       <div className="flex flex-col gap-6">
         <section aria-labelledby="members-heading" className="flex flex-col gap-3">
           <h2 id="members-heading" className="text-lg font-semibold">
@@ -50,7 +52,7 @@ export default async function MembersPage({ params }: { params: Promise<{ projec
                   <Td className="figures whitespace-nowrap text-muted">{formatDate(member.joinedAt, "day")}</Td>
                   {manage ? (
                     <Td>
-                      <MemberActions projectId={projectId} userId={member.userId} name={member.name} role={member.role} isSelf={member.userId === user.id} />
+                      <MemberActions projectId={projectId} userId={member.userId} name={member.name} role={member.role} isSelf={member.userId === user.id} lastOwner={member.role === "owner" && ownerCount === 1} />
                     </Td>
                   ) : null}
                 </Tr>

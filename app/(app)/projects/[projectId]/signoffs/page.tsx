@@ -31,7 +31,9 @@ function SignoffTable({ items, projectId }: { items: SignoffView[]; projectId: s
           <Th>Reviewer</Th>
           <Th>State</Th>
           <Th>Requested</Th>
+          <Th>Note</Th>
           <Th>Comment</Th>
+          <Th>Review</Th>
         </Tr>
       </THead>
       <TBody>
@@ -53,7 +55,25 @@ function SignoffTable({ items, projectId }: { items: SignoffView[]; projectId: s
             <Td className="figures whitespace-nowrap text-xs">
               {formatDate(s.createdAt)} by {s.requestedBy?.name ?? "a former member"}
             </Td>
+            <Td className="text-sm">
+              {s.requestNote || <span className="text-muted">no note</span>}
+              {s.verdictSnapshot && s.verdictSnapshot.length > 0 ? (
+                <p className="mt-1 text-xs text-muted">
+                  Asked on: {s.verdictSnapshot.map((v) => `${v.check.replace(/_/g, " ")} ${v.verdict}`).join(", ")}
+                </p>
+              ) : null}
+            </Td>
             <Td className="text-sm">{s.comment}</Td>
+            <Td className="text-sm whitespace-nowrap">
+              {/* the scenario page's sign-off card decides; the bundle is the evidence of exactly that revision */}
+              <Link className="text-link" href={`/projects/${projectId}/scenarios/${s.scenarioId}#signoff-heading`}>
+                Review<span className="sr-only"> {s.scenarioName} r{s.revisionNumber}</span>
+              </Link>
+              {" · "}
+              <a className="text-link" href={`/api/projects/${projectId}/scenarios/${s.scenarioId}/bundle?revisionId=${encodeURIComponent(s.revisionId)}`} download>
+                Evidence<span className="sr-only"> bundle of {s.scenarioName} r{s.revisionNumber}</span>
+              </a>
+            </Td>
           </Tr>
         ))}
       </TBody>

@@ -1,8 +1,9 @@
 import { listAuditEvents } from "@/db/queries/audit";
-import { apiRoute, json } from "@/lib/server/api";
+import { apiRoute } from "@/lib/server/api";
+import { answerAuditQuery } from "@/lib/server/audit-export";
 
-/** GET /api/projects/:projectId/audit → { events } newest first (owners). */
+/** GET /api/projects/:projectId/audit?person&kind&from&to&page&format=json|csv → { events, page, hasOlder } newest first, or CSV (owners). */
 export const GET = apiRoute<{ projectId: string }>(async (ctx) => {
   const user = await ctx.requireUser();
-  return json({ events: await listAuditEvents({ actor: user, projectId: ctx.params.projectId }) });
+  return answerAuditQuery(ctx.request.url, (filter) => listAuditEvents({ actor: user, projectId: ctx.params.projectId, ...filter }), "portolan-project-audit.csv");
 });

@@ -1,30 +1,12 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
-import { cache } from "react";
 import { listParts } from "@/db/queries/parts";
-import { loadScenario } from "@/db/queries/scenarios";
 import { ScenarioWorkspace } from "@/components/scenarios/scenario-workspace";
 import { SignoffPanel } from "@/components/signoff/signoff-panel";
 import type { PartView } from "@/lib/domain/parts/types";
 import type { RevisionView } from "@/lib/domain/scenarios/types";
 import { serialiseDates } from "@/lib/domain/serialised";
-import { isAppError } from "@/lib/base/errors";
 import { can } from "@/lib/base/permission-table";
-import { loadProject } from "../../load-project";
-
-/**
- * The scenario with its latest revision, loaded once per request for the title and the page. The
- * project layout has resolved the viewer's membership (loadProject); its role is the access.
- */
-const loadScenarioPage = cache(async (projectId: string, scenarioId: string) => {
-  const { user, project } = await loadProject(projectId);
-  try {
-    return { user, project, ...(await loadScenario({ userId: user.id, projectId, role: project.role }, { scenarioId })) };
-  } catch (error) {
-    if (isAppError(error) && error.status === 404) notFound();
-    throw error;
-  }
-});
+import { loadScenarioPage } from "./load-scenario";
 
 export async function generateMetadata({ params }: { params: Promise<{ projectId: string; scenarioId: string }> }): Promise<Metadata> {
   const { projectId, scenarioId } = await params;

@@ -4,7 +4,7 @@ import { ScenarioList } from "@/components/scenarios/scenario-list";
 import type { ScenarioListItem } from "@/lib/domain/scenarios/types";
 import { serialiseDates } from "@/lib/domain/serialised";
 import { can } from "@/lib/base/permission-table";
-import { loadProject } from "../load-project";
+import { loadProject } from "../../load-project";
 
 export const metadata: Metadata = { title: "Scenarios" };
 
