@@ -14,6 +14,7 @@ import type { EffectiveRuleSet } from "@/engine/checks";
 import { isAppError } from "@/lib/base/errors";
 import { renderReportHtml } from "@/lib/server/bundle/report-html";
 import { executeCheck } from "@/lib/domain/checks/execute";
+import { executeSpread } from "@/lib/domain/checks/execute-spread";
 import type { CheckRunRequest } from "@/lib/domain/checks/inputs";
 import type { JobProgress } from "@/lib/domain/jobs";
 import { solutionToCsv } from "@/lib/domain/results/results-math";
@@ -83,6 +84,15 @@ export async function runTask(task: JobTask, report: (p: JobProgress) => void = 
     if (task.kind === "estimate") return { ok: true, kind: "estimate", bytes: estimate.bytes, work: estimate.work };
     report({ phase: "solving", fraction: 0.1 });
     if (task.kind === "bundle") return await bundleTask(task);
+    if (task.kind === "check" && task.request.check === "spread") {
+      // the samples are solved through the nominal join plan, batch by batch, reporting as they go
+      const outcome = await executeSpread(task.request, scenario, task.parts, task.ruleSet, {
+        maxBytes: task.maxBytes,
+        onProgress: (f) => report({ phase: "sampling", fraction: 0.1 + 0.8 * f }),
+      });
+      report({ phase: "storing", fraction: 0.9 });
+      return { ok: true, kind: "check", verdict: outcome.verdict, headline: outcome.figures.headline, figuresGz: gzipSync(JSON.stringify(outcome.figures)) };
+    }
     const solution = solveScenario(scenario, { parts: task.parts, maxBytes: Infinity, waves });
     if (task.kind === "solve") {
       const body =
