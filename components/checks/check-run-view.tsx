@@ -13,6 +13,7 @@ import { LineupView } from "./lineup-view";
 import { RuleResultsTable } from "./rule-results-table";
 import { SortableTable } from "@/components/ui/sortable-table";
 import { StabilityView } from "./stability-view";
+import { SpreadView } from "./spread-view";
 import { SweepTable } from "./sweep-table";
 import { formatDate } from "@/lib/base/dates";
 
@@ -45,6 +46,7 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: C
       {run.check === "stability" ? <StabilityView results={run.figures.result} /> : null}
       {run.check === "all_rules" ? <AllRulesView result={run.figures.result} sources={run.figures.ruleSources} /> : null}
       {run.check === "lineup" ? <LineupView result={run.figures.result} /> : null}
+      {run.check === "spread" ? <SpreadView result={run.figures.result} /> : null}
       {run.figures.skipped && run.figures.skipped.length > 0 ? (
         <div className="text-sm">
           <h4 className="font-semibold">Rules not run on this scenario</h4>

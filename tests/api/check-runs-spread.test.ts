@@ -38,7 +38,7 @@ const pad = {
   rules: [{ kind: "insertion_loss", id: "il", from: "IN", to: "OUT", band: [1e9, 2e9], max_db: 3.5 }],
 };
 
-async function createScenario(scenario: { name: string }): Promise<string> {
+async function createScenario(scenario: { name: string } & Record<string, unknown>): Promise<string> {
   const res = await call(scenariosRoute.POST, makeRequest("POST", `/api/projects/${projectId}/scenarios`, { cookie, body: { name: scenario.name, scenario } }), { projectId });
   expect(res.status).toBe(201);
   return ((await res.json()) as { scenario: { id: string } }).scenario.id;
