@@ -2,7 +2,7 @@
 
 import { useMemo, useState } from "react";
 import type { SpreadResult } from "@/engine/spread";
-import { Alert, Select, Table, TBody, THead, Td, Th, Tr } from "@/components/ui";
+import { Alert, Button, Select, Table, TBody, THead, Td, Th, Tr } from "@/components/ui";
 import { TracePlot } from "@/components/results/trace-plot";
 import { fmt, fmtHz } from "./format";
 
@@ -15,7 +15,7 @@ const percent = (x: number) => `${(100 * x).toFixed(1)}%`;
  * interval and the nominal margin, the chosen rule's p5/p50/p95 envelope over its nominal trace, and the
  * parameters ranked by the rank correlation of their value with the rule's margin.
  */
-export function SpreadView({ result }: { result: SpreadResult }) {
+export function SpreadView({ result, onOpenWorst }: { result: SpreadResult; onOpenWorst?: (rule: string) => void }) {
   const [ruleId, setRuleId] = useState(result.envelopes[0]?.rule ?? result.rules[0]?.id ?? "");
   const [hover, setHover] = useState<number | null>(null);
   const envelope = result.envelopes.find((e) => e.rule === ruleId) ?? null;
@@ -77,7 +77,14 @@ export function SpreadView({ result }: { result: SpreadResult }) {
               <Td numeric className={value(r.nominal_margin) < 0 ? "text-fail-strong" : undefined}>
                 {fmt(value(r.nominal_margin))}
               </Td>
-              <Td numeric>{r.worst ? `${fmt(value(r.worst.margin))} (sample ${r.worst.sample})` : "—"}</Td>
+              <Td numeric>
+                {r.worst ? `${fmt(value(r.worst.margin))} (sample ${r.worst.sample})` : "—"}
+                {r.worst && onOpenWorst ? (
+                  <Button size="sm" variant="ghost" className="ml-2" onClick={() => onOpenWorst(r.id)} aria-label={`Open worst sample of ${r.id} as a scenario`}>
+                    Open as scenario
+                  </Button>
+                ) : null}
+              </Td>
             </Tr>
           ))}
         </TBody>

@@ -8,6 +8,7 @@ import { call, countRows, makeRequest, setUpDatabase, type ErrorJson } from "./h
 const scenariosRoute = await import("@/app/api/projects/[projectId]/scenarios/route");
 const runsRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/route");
 const runRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/[runId]/route");
+const worstRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/[runId]/worst-sample/route");
 const jobRoute = await import("@/app/api/projects/[projectId]/jobs/[jobId]/route");
 const { db } = await import("@/db/client");
 const { checkRuns, users } = await import("@/db/schema");
@@ -20,6 +21,7 @@ type JobJson = { job: { id: string; state: string; runId: string | null; progres
 
 let projectId: string;
 let cookie = "";
+let reviewerCookie = "";
 let padId = "";
 let plainId = "";
 
@@ -75,6 +77,9 @@ beforeAll(async () => {
   const engineer = DEMO_USERS.find((u) => u.role === "engineer")!;
   const [row] = await db.select({ id: users.id }).from(users).where(eq(users.email, engineer.email));
   cookie = `portolan_session=${(await createSessionForUser(row.id)).token}`;
+  const reviewer = DEMO_USERS.find((u) => u.role === "reviewer")!;
+  const [rev] = await db.select({ id: users.id }).from(users).where(eq(users.email, reviewer.email));
+  reviewerCookie = `portolan_session=${(await createSessionForUser(rev.id)).token}`;
   padId = await createScenario(pad);
   const { spread: _spread, ...plainBlock } = pad.blocks[0];
   void _spread;
@@ -142,5 +147,25 @@ describe("spread analysis runs", () => {
     expect(job.error?.status).toBe(422);
     expect(job.error?.message).toMatch(/spread/);
     expect(await countRows(checkRuns)).toBe(before);
+  });
+
+  it("the worst sample of a rule opens as a scenario of its own (engineers); reviewers are refused", async () => {
+    const run = await runSpread(padId, { samples: 200, seed: 3 });
+    const worst = run.figures.result.rules[0].worst!;
+    const open = (c: string, body: unknown) =>
+      call(worstRoute.POST, makeRequest("POST", `/api/projects/${projectId}/scenarios/${padId}/check-runs/${run.id}/worst-sample`, { cookie: c, body }), { projectId, scenarioId: padId, runId: run.id });
+    expect((await open(reviewerCookie, { rule: "il" })).status).toBe(403);
+    expect((await open(cookie, { rule: "nope" })).status).toBe(422);
+    expect((await open(cookie, {})).status).toBe(400);
+    const res = await open(cookie, { rule: "il" });
+    expect(res.status).toBe(201);
+    const { revision } = (await res.json()) as { revision: { content: { blocks: { params: { loss_db: number }; spread?: unknown }[] } } };
+    const block = revision.content.blocks[0];
+    expect(block.spread).toBeUndefined();
+    expect(block.params.loss_db).toBe(worst.values["P1.loss_db"]);
+    // a matched pad's insertion loss is its loss_db (closed form), so the rule's margin is 3.5 − loss_db
+    expect(worst.margin).toBeCloseTo(3.5 - block.params.loss_db, 6);
+    // the worst sample of a uniform 2…4 dB pad is near the top of its range (200 samples, common practice)
+    expect(block.params.loss_db).toBeGreaterThan(3.9);
   });
 });
