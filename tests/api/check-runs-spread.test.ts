@@ -9,6 +9,8 @@ const scenariosRoute = await import("@/app/api/projects/[projectId]/scenarios/ro
 const runsRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/route");
 const runRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/[runId]/route");
 const worstRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/[runId]/worst-sample/route");
+const bundleRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenarioId]/bundle/route");
+const { readZipSafely } = await import("@/engine/bundle");
 const jobRoute = await import("@/app/api/projects/[projectId]/jobs/[jobId]/route");
 const { db } = await import("@/db/client");
 const { checkRuns, users } = await import("@/db/schema");
@@ -167,5 +169,26 @@ describe("spread analysis runs", () => {
     expect(worst.margin).toBeCloseTo(3.5 - block.params.loss_db, 6);
     // the worst sample of a uniform 2…4 dB pad is near the top of its range (200 samples, common practice)
     expect(block.params.loss_db).toBeGreaterThan(3.9);
+  });
+
+  it("a bundle carries the revision's current spread run in checks.json and its yield table in report.html", async () => {
+    const run = await runSpread(padId, { samples: 1000, seed: 11 });
+    const exportOf = async (scenarioId: string) => {
+      const res = await call(bundleRoute.GET, makeRequest("GET", `/api/projects/${projectId}/scenarios/${scenarioId}/bundle`, { cookie: reviewerCookie }), { projectId, scenarioId });
+      expect(res.status).toBe(200);
+      const files = readZipSafely(new Uint8Array(await res.arrayBuffer()));
+      const text = (name: string) => new TextDecoder().decode(files.get(name));
+      return { checks: JSON.parse(text("results/checks.json")) as { spread?: { samples: number; seed: number; rules: { id: string; passed: number; total: number; low: number; high: number }[] } }, html: text("report.html") };
+    };
+    const { checks, html } = await exportOf(padId);
+    const il = run.figures.result.rules.find((r) => r.id === "il")!;
+    expect(checks.spread).toMatchObject({ samples: 1000, seed: 11 });
+    expect(checks.spread!.rules.find((r) => r.id === "il")).toMatchObject({ passed: il.passed, total: 1000, low: il.low, high: il.high });
+    expect(html).toContain("<h2>Spread analysis</h2>");
+    expect(html).toContain(`${il.passed}/1000`);
+    // a revision without a spread run has no spread section
+    const plain = await exportOf(plainId);
+    expect(plain.checks.spread).toBeUndefined();
+    expect(plain.html).not.toContain("<h2>Spread analysis</h2>");
   });
 });

@@ -9,7 +9,7 @@ import { solutionToJson, solveScenario } from "@/engine/system";
 import { parseScenario } from "@/engine/scenario";
 import { writeCompositeTouchstone } from "@/engine/touchstone";
 import { EngineInputError, SingularSystemError, type Scenario } from "@/engine/types";
-import { BUNDLE_PATHS, BundleError, bundleFiles, computeBundleResults, sha256, writeBundleZip, type BundleIdentity, type BundleWaiver } from "@/engine/bundle";
+import { BUNDLE_PATHS, BundleError, bundleFiles, computeBundleResults, sha256, writeBundleZip, type BundleIdentity, type BundleWaiver, type SpreadSummary } from "@/engine/bundle";
 import type { EffectiveRuleSet } from "@/engine/checks";
 import { isAppError } from "@/lib/base/errors";
 import { renderReportHtml } from "@/lib/server/bundle/report-html";
@@ -33,7 +33,7 @@ export type JobTask =
   | (TaskBase & { kind: "estimate" })
   | (TaskBase & { kind: "solve"; format: "json" | "touchstone" | "csv"; scenarioName: string })
   | (TaskBase & { kind: "check"; request: CheckRunRequest; ruleSet: EffectiveRuleSet })
-  | (TaskBase & { kind: "bundle"; identity: BundleIdentity; ruleSet: EffectiveRuleSet; waivers: BundleWaiver[] });
+  | (TaskBase & { kind: "bundle"; identity: BundleIdentity; ruleSet: EffectiveRuleSet; waivers: BundleWaiver[]; spread?: SpreadSummary });
 
 /** A refusal the route turns into a 422 (or the status given): bad input, unsolvable, over the size limit. */
 export type JobRefusal = { ok: false; status: number; code: "unprocessable" | "too_large"; message: string; estimateBytes?: number; limitBytes?: number };
@@ -116,7 +116,7 @@ export async function runTask(task: JobTask, report: (p: JobProgress) => void = 
 
 /** A review bundle: solve and check (computeBundleResults), the files, the report, the zip. */
 async function bundleTask(task: Extract<JobTask, { kind: "bundle" }>): Promise<JobOutput> {
-  const results = computeBundleResults(task.content, task.parts, task.ruleSet, task.waivers);
+  const results = computeBundleResults(task.content, task.parts, task.ruleSet, task.waivers, task.spread);
   const files = bundleFiles(task.content, task.parts, results);
   const hashes = [...files].map(([path, text]) => ({ path, sha256: sha256(text) }));
   files.set(BUNDLE_PATHS.report, renderReportHtml({ identity: task.identity, results, files: hashes }));
