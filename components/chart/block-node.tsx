@@ -79,6 +79,17 @@ function BlockNodeView({ data, selected }: NodeProps<BlockNodeType>) {
         <span className="max-w-full truncate font-mono text-sm font-semibold">{block.id}</span>
         <span className="max-w-full truncate text-[0.68rem] tracking-wide text-muted uppercase">{title}</span>
       </div>
+      {block.spread && Object.keys(block.spread).length > 0 ? (
+        // the block takes part in the spread analysis: its parameters named here carry a spread
+        <span
+          className="pointer-events-none absolute top-1 right-1.5 rounded-sm border border-rule-strong bg-surface px-1 font-mono text-[0.65rem] leading-4 text-muted"
+          title={`Spread on ${Object.keys(block.spread).join(", ")}`}
+          aria-label={`${block.id} has spreads`}
+          data-testid="spread-badge"
+        >
+          ±
+        </span>
+      ) : null}
 
       {throws > 0 ? (
         <div className="nodrag nopan absolute inset-x-0 bottom-1.5 flex justify-center gap-1" role="group" aria-label={`${block.id} throw`}>

@@ -13,6 +13,7 @@ import { LineupView } from "./lineup-view";
 import { RuleResultsTable } from "./rule-results-table";
 import { SortableTable } from "@/components/ui/sortable-table";
 import { StabilityView } from "./stability-view";
+import { SpreadView } from "./spread-view";
 import { SweepTable } from "./sweep-table";
 import { formatDate } from "@/lib/base/dates";
 
@@ -21,10 +22,12 @@ export type CheckRunViewProps = {
   /** leak traces: the rank of the path shown on the chart */
   highlightedPath?: number | null;
   onHighlightPath?: (rank: number | null) => void;
+  /** spread runs: open a rule's worst sample as a scenario */
+  onOpenWorstSample?: (runId: string, rule: string) => void;
 };
 
 /** One stored check run: verdict, headline and the check's own figures. */
-export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: CheckRunViewProps) {
+export function CheckRunView({ run, highlightedPath = null, onHighlightPath, onOpenWorstSample }: CheckRunViewProps) {
   return (
     <article aria-label={`${CHECK_TITLES[run.check]} result`} className="flex flex-col gap-3" data-check={run.check}>
       <header className="flex flex-wrap items-center gap-2">
@@ -45,6 +48,7 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath }: C
       {run.check === "stability" ? <StabilityView results={run.figures.result} /> : null}
       {run.check === "all_rules" ? <AllRulesView result={run.figures.result} sources={run.figures.ruleSources} /> : null}
       {run.check === "lineup" ? <LineupView result={run.figures.result} /> : null}
+      {run.check === "spread" ? <SpreadView result={run.figures.result} onOpenWorst={onOpenWorstSample ? (rule) => onOpenWorstSample(run.id, rule) : undefined} /> : null}
       {run.figures.skipped && run.figures.skipped.length > 0 ? (
         <div className="text-sm">
           <h4 className="font-semibold">Rules not run on this scenario</h4>

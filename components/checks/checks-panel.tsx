@@ -22,6 +22,8 @@ export type ChecksPanelProps = {
   onHighlightPath: (rank: number | null) => void;
   /** run a stored run's check again on the latest revision (the one action offered on a stale verdict) */
   onRerun: (run: CheckRunSummary) => void;
+  /** a spread run's worst sample of a rule as a new scenario (absent when the role cannot create scenarios) */
+  onOpenWorstSample?: (runId: string, rule: string) => void;
 };
 
 /** Why a stored verdict is not the verdict of what is on screen now, in words (empty when it is). */
@@ -80,7 +82,7 @@ export function ChecksPanel(props: ChecksPanelProps) {
                   This verdict is not current: {staleNote(one.run)}.
                 </Alert>
               ) : null}
-              <CheckRunView run={one.run} highlightedPath={props.highlightedPath} onHighlightPath={props.onHighlightPath} />
+              <CheckRunView run={one.run} highlightedPath={props.highlightedPath} onHighlightPath={props.onHighlightPath} onOpenWorstSample={props.onOpenWorstSample} />
             </div>
           ) : selectedRunId && !oneError ? (
             <Spinner />

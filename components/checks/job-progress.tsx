@@ -3,7 +3,7 @@
 import { Button } from "@/components/ui";
 import type { JobView } from "@/lib/domain/jobs";
 
-const PHASES: Record<string, string> = { estimating: "Checking the size", solving: "Solving", checking: "Running the check", storing: "Storing the run" };
+const PHASES: Record<string, string> = { estimating: "Checking the size", solving: "Solving", sampling: "Solving the samples", checking: "Running the check", storing: "Storing the run" };
 
 /** A long job's progress bar with Cancel (a state sweep started from the checks panel or the helm). */
 export function JobProgress({ job, title, onCancel }: { job: Pick<JobView, "state" | "progress">; title: string; onCancel: () => void }) {

@@ -195,6 +195,17 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
     runCheck,
   });
 
+  /** Opens a spread run's worst sample of a rule as a new scenario and goes to it. */
+  async function openWorstSample(runId: string, rule: string) {
+    try {
+      setNotice(`Opening the worst sample of ${rule}…`);
+      const created = await requestJson<{ scenario: { id: string } }>(checkRunUrls.worstSample(projectId, scenarioId, runId), { method: "POST", json: { rule } });
+      router.push(`/projects/${projectId}/scenarios/${created.scenario.id}`);
+    } catch (e) {
+      setNotice(e instanceof Error ? e.message : String(e));
+    }
+  }
+
   return (
     <div ref={box} className="scroll-mt-4">
       {notice ? (
@@ -215,6 +226,7 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
         highlightedPath={pathRank}
         onHighlightPath={setPathRank}
         onRerun={(run) => void runCheck(run.check, run.inputs)}
+        onOpenWorstSample={can(role, "scenario.create") ? (runId, rule) => void openWorstSample(runId, rule) : undefined}
       />
       {revisionNumber > 0 ? <p className="mt-1 text-xs text-muted">Checks run on the saved revision r{revisionNumber}; unsaved edits are not included.</p> : null}
       {readOnly && !can(role, "check.run") ? <Alert tone="info">Your role cannot run checks.</Alert> : null}

@@ -5,6 +5,7 @@ import { nextSystemPortName, portCountOf, switchThrows, type PartSummary } from 
 import { effectiveRuleSet, judgingRules } from "@/engine/checks";
 import type { HelmScenarioActions } from "./helm-context";
 import { formatBand, parseBand, parseDb, parseFrequency, parseSources, type Parsed } from "./parse-input";
+import { SPREAD_MAX_SAMPLES } from "@/lib/domain/checks/inputs";
 
 export type HelmOption = { value: string; label: string; hint?: string };
 
@@ -66,6 +67,19 @@ function parseOptionalDbm(text: string): Parsed<number | null> {
   if (text.trim() === "") return { ok: true, value: null };
   const r = parseDb(text.replace(/m\s*$/i, ""));
   return r.ok ? r : { ok: false, error: "Enter a level in dBm, or leave it blank." };
+}
+
+/** A spread analysis's sample count (a whole number within the server's limit). */
+function parseSamples(text: string): Parsed<number> {
+  const n = Number(text.trim());
+  return Number.isInteger(n) && n >= 1 && n <= SPREAD_MAX_SAMPLES ? { ok: true, value: n } : { ok: false, error: `Enter a whole number from 1 to ${SPREAD_MAX_SAMPLES}.` };
+}
+
+/** A spread analysis's seed: a whole number ≥ 0, or blank for one the server draws (null). */
+function parseSeed(text: string): Parsed<number | null> {
+  if (text.trim() === "") return { ok: true, value: null };
+  const n = Number(text.trim());
+  return Number.isSafeInteger(n) && n >= 0 ? { ok: true, value: n } : { ok: false, error: "Enter a whole number (0 or more), or leave it blank." };
 }
 
 /** The rule of this kind that best fits the chosen ports (for default bands and limits). */
@@ -214,6 +228,19 @@ export function buildCommands(data: HelmData): HelmCommand[] {
             ? { kind: "text", key: "input_dbm", prompt: "Input level (dBm, blank for none)", initial: "", hint: "e.g. -30 dBm", parse: parseOptionalDbm }
             : null),
         run: (v) => page.runCheck("lineup", { from: v.from, to: v.to, ...(typeof v.input_dbm === "number" ? { input_dbm: v.input_dbm } : {}) }),
+      },
+      {
+        id: "check.spread",
+        title: "Spread analysis…",
+        group: "Checks",
+        keywords: ["spread", "yield", "tolerance", "monte carlo", "sigma", "samples", "seed"],
+        next: (v) =>
+          v.samples === undefined
+            ? { kind: "text", key: "samples", prompt: "Samples", initial: "500", hint: "1 to 20000", parse: parseSamples }
+            : v.seed === undefined
+              ? { kind: "text", key: "seed", prompt: "Seed (blank for a random one, stored with the run)", initial: "", hint: "e.g. 1", parse: parseSeed }
+              : null,
+        run: (v) => page.runCheck("spread", { samples: v.samples, ...(typeof v.seed === "number" ? { seed: v.seed } : {}) }),
       },
       { id: "check.all_rules", title: "Run all rules", group: "Checks", keywords: ["rules", "verdicts", "everything"], run: () => page.runCheck("all_rules", {}) },
     );

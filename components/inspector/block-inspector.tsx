@@ -18,6 +18,7 @@ import {
 import { formatNumber } from "@/lib/browser/format";
 import { ExpressionForm, type ExpressionFieldSpec } from "./expression-form";
 import { PortList } from "./port-list";
+import { SpreadSection } from "./spread-section";
 
 export type BlockInspectorProps = {
   scenario: Scenario;
@@ -54,6 +55,7 @@ export function BlockInspector({ scenario, blockId, parts, readOnly, scope, rese
         scope={scope}
         commit={commit}
       />
+      <SpreadSection key={`spread:${block.id}:${resetToken}`} scenario={scenario} block={block} parts={parts} readOnly={readOnly} commit={commit} />
       {block.kind === "touchstone" ? <ActivityField scenario={scenario} block={block} parts={parts} readOnly={readOnly} commit={commit} /> : null}
       <PortList scenario={scenario} block={block} parts={parts} readOnly={readOnly} commit={commit} notify={notify} />
     </section>

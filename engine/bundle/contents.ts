@@ -5,6 +5,7 @@
  */
 import { effectiveRuleSet, judgingRules, leakTrace, runAllChecks, type AllChecksResult, type EffectiveRuleSet, type LeakTraceResult, type RuleSource } from "../checks";
 import { lineup, type LineupResult } from "../lineup";
+import type { SpreadResult } from "../spread";
 import { parseScenario } from "../scenario";
 import { solveScenario } from "../system";
 import { writeCompositeTouchstone } from "../touchstone";
@@ -54,7 +55,25 @@ export type ChecksDocument = {
   leaks: { rule: string; from: string; to: string; trace: LeakTraceResult | null; error?: string }[];
   /** line-up of each noise_figure, gain and headroom rule's path (headroom: at its input level); present when there are such rules */
   lineups?: { rule: string; from: string; to: string; lineup: LineupResult | null; error?: string }[];
+  /** the revision's current stored spread analysis (same rule set and engine), when it has one */
+  spread?: SpreadSummary;
 };
+
+/** A spread analysis as a bundle carries it: its samples and seed (to repeat it) and each rule's yield. */
+export type SpreadSummary = {
+  samples: number;
+  seed: number;
+  rules: { id: string; passed: number; total: number; yield: number; low: number; high: number; nominal_margin: number | null }[];
+};
+
+/** The summary of a spread analysis's result for checks.json (envelopes and samples stay in the app). */
+export function summariseSpread(result: Pick<SpreadResult, "samples" | "seed" | "rules">): SpreadSummary {
+  return {
+    samples: result.samples,
+    seed: result.seed,
+    rules: result.rules.map((r) => ({ id: r.id, passed: r.passed, total: r.total, yield: r.yield, low: r.low, high: r.high, nominal_margin: Number.isFinite(r.nominal_margin) ? r.nominal_margin : null })),
+  };
+}
 
 /** Everything computed from a scenario for a bundle. */
 export type BundleResults = {
@@ -145,11 +164,12 @@ function ruleVerdicts(ruleSet: EffectiveRuleSet, results: AllChecksResult): Rule
  * @param parts - Touchstone texts keyed as blocks name them ("parts/x.s2p")
  * @param ruleSet - the effective rule set to judge by (default: the file's own rules and overrides)
  * @param waivers - waivers given on sign-off of this revision, carried into checks.json
+ * @param spread - summary of the revision's current stored spread analysis (summariseSpread), carried into checks.json
  * @returns parsed scenario, solution and the checks document
  * @throws EngineInputError / SingularSystemError when the scenario cannot be solved
  * @example computeBundleResults(JSON.parse(readFileSync("scenario.json", "utf8")), { "parts/ant.s1p": text }).checks.verdict
  */
-export function computeBundleResults(content: unknown, parts: Record<string, string>, ruleSet?: EffectiveRuleSet, waivers: BundleWaiver[] = []): BundleResults {
+export function computeBundleResults(content: unknown, parts: Record<string, string>, ruleSet?: EffectiveRuleSet, waivers: BundleWaiver[] = [], spread?: SpreadSummary): BundleResults {
   const scenario = parseScenario(engineScenario(content), { parts });
   const solution = solveScenario(scenario, { parts });
   const set = ruleSet ?? effectiveRuleSet([], scenario);
@@ -182,7 +202,7 @@ export function computeBundleResults(content: unknown, parts: Record<string, str
   return {
     scenario,
     solution,
-    checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, engine_version: ENGINE_VERSION, rule_set, rules: ruleVerdicts(set, results), waivers, results, leaks, ...(lineups.length > 0 ? { lineups } : {}) },
+    checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, engine_version: ENGINE_VERSION, rule_set, rules: ruleVerdicts(set, results), waivers, results, leaks, ...(lineups.length > 0 ? { lineups } : {}), ...(spread ? { spread } : {}) },
   };
 }
 

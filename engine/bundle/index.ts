@@ -2,5 +2,5 @@
 export { BUNDLE_FORMAT, BUNDLE_PATHS, DEFAULT_BUNDLE_LIMITS, BundleError, BundleManifestSchema, checkEntryName, canonicalJson, sha256, hashRuleSet, type BundleLimits, type BundleManifest, type BundleIdentity, type BundleErrorKind } from "./format";
 export { listZipEntries, inflateEntry, readZipSafely, type ZipEntryInfo } from "./zip-read";
 export { makeManifest, writeBundleZip, openBundle, BundleIntegrityError, type OpenedBundle } from "./bundle-zip";
-export { computeBundleResults, compositeFile, checksCsv, bundleFiles, usedPartFiles, engineScenario, CHECKS_FORMAT, type ChecksDocument, type BundleResults, type RuleVerdict, type BundleWaiver, type BundleRuleSet } from "./contents";
+export { computeBundleResults, summariseSpread, compositeFile, checksCsv, bundleFiles, usedPartFiles, engineScenario, CHECKS_FORMAT, type ChecksDocument, type BundleResults, type RuleVerdict, type BundleWaiver, type BundleRuleSet, type SpreadSummary } from "./contents";
 export { reproduceBundle, FIGURE_TOLERANCE_DB, COMPOSITE_TOLERANCE, type ReproduceResult, type ReproducedItem } from "./reproduce";

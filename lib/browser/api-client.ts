@@ -62,6 +62,7 @@ export const scenarioUrls = {
 export const checkRunUrls = {
   list: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs`,
   one: (projectId: string, scenarioId: string, runId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs/${runId}`,
+  worstSample: (projectId: string, scenarioId: string, runId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/check-runs/${runId}/worst-sample`,
 };
 
 export const jobUrls = {

@@ -1,7 +1,7 @@
 // Shapes of the job API (lib/server/jobs), shared by the server and the browser.
 
 /** Progress a job reports while it runs: a phase and the fraction done (0…1). */
-export type JobProgress = { phase: "estimating" | "solving" | "checking" | "storing"; fraction: number };
+export type JobProgress = { phase: "estimating" | "solving" | "sampling" | "checking" | "storing"; fraction: number };
 
 /** What a long job reports at GET /api/projects/:p/jobs/:id. */
 export type JobView = {

@@ -1,5 +1,5 @@
 import "server-only";
-import { randomUUID } from "node:crypto";
+import { randomInt, randomUUID } from "node:crypto";
 import { inArray } from "drizzle-orm";
 import { db } from "@/db/client";
 import { getCheckRun, insertCheckRun, listCheckRuns } from "@/db/queries/check-runs";
@@ -21,11 +21,13 @@ import { startJob, type JobView } from "@/lib/server/jobs/registry";
 import type { JobProgress, JobTask } from "@/lib/server/jobs/tasks";
 
 /** Checks that run as long jobs (202 with a job id, progress, Cancel); the others answer in the request. */
-export const LONG_CHECKS: ReadonlySet<CheckName> = new Set<CheckName>(["state_sweep"]);
+export const LONG_CHECKS: ReadonlySet<CheckName> = new Set<CheckName>(["state_sweep", "spread"]);
 
 /** Everything a check job needs, read once: the revision, only the parts it names, the project's rules. */
-async function prepareCheck(access: ProjectAccess, scenarioId: string, request: CheckRunRequest) {
+async function prepareCheck(access: ProjectAccess, scenarioId: string, given: CheckRunRequest) {
   allow(access, "check.run");
+  // a spread run without a seed gets one drawn here, so the stored inputs repeat the run exactly
+  const request: CheckRunRequest = given.check === "spread" && given.inputs.seed === undefined ? { ...given, inputs: { ...given.inputs, seed: randomInt(0, 2 ** 31) } } : given;
   const { projectId } = access;
   const { revision } = await loadScenario(access, { scenarioId, revisionId: request.revisionId });
   const parts = await getPartTexts({ projectId, files: partFilesOf(revision.content) });
@@ -96,7 +98,7 @@ export async function startCheckJob({ access, scenarioId, request, signal }: { a
 }
 
 /** Checks whose verdict depends on the rules (the others judge the revision alone). */
-export const RULE_CHECKS: readonly CheckName[] = ["all_rules", "state_sweep"];
+export const RULE_CHECKS: readonly CheckName[] = ["all_rules", "state_sweep", "spread"];
 
 /**
  * Why a stored verdict is no longer current for its revision, in words (empty when current): recorded

@@ -107,6 +107,9 @@ export function executeCheck(request: CheckRunRequest, solution: Solution, ruleS
       const headline = `${from}→${to} through ${result.stages.length} stage${result.stages.length === 1 ? "" : "s"}: gain ${range(result.gainDb)}, noise figure ${range(result.nfDb)}`;
       return { check: request.check, verdict, figures: { headline, result } };
     }
+    case "spread":
+      // sampled, not one solve: it runs as a job through executeSpread (execute-spread.ts)
+      throw new Error("the spread analysis runs through executeSpread, not on one solution");
     case "all_rules": {
       const { rules, sources, skipped } = applicableRules(ruleSet);
       const result = runAllChecks({ ...scenario, rules }, solution.system, solution);

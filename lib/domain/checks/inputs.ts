@@ -3,7 +3,7 @@ import { InsertionLossRuleSchema, IsolationRuleSchema, MatchRuleSchema } from "@
 import { hasMatchLimit } from "@/lib/domain/rules/schema";
 
 /** Every check a run can hold (the check-runs route's `check`). */
-export const CHECK_NAMES = ["isolation", "match", "insertion_loss", "leak_trace", "power_ledger", "drive", "state_sweep", "stability", "all_rules", "lineup"] as const;
+export const CHECK_NAMES = ["isolation", "match", "insertion_loss", "leak_trace", "power_ledger", "drive", "state_sweep", "stability", "all_rules", "lineup", "spread"] as const;
 export type CheckName = (typeof CHECK_NAMES)[number];
 
 /** Names in the interface (helm, results panel, history). */
@@ -18,12 +18,17 @@ export const CHECK_TITLES: Record<CheckName, string> = {
   stability: "Stability check",
   all_rules: "All rules",
   lineup: "Line-up",
+  spread: "Spread analysis",
 };
 
 const hz = z.number().finite().positive();
 const band = z.tuple([hz, hz]).refine(([lo, hi]) => hi >= lo, { error: "The band's upper edge must not be below its lower edge." });
 const port = z.string().trim().min(1).max(64);
 const dbValue = z.number().finite();
+
+/** Default and largest sample count of a spread analysis run on the server (the CLI allows more). */
+export const SPREAD_DEFAULT_SAMPLES = 500;
+export const SPREAD_MAX_SAMPLES = 20_000;
 
 /**
  * Inputs per check; every object is strict, so a misspelt field is a 400, not a silent default. The
@@ -54,6 +59,13 @@ export const checkInputSchemas = {
       blocks: z.array(z.string().trim().min(1).max(64)).min(1).max(200).optional(),
     })
     .strict(),
+  // the seed is drawn on the server when absent and stored with the run's inputs, so every run can be repeated
+  spread: z
+    .object({
+      samples: z.number().int().min(1).max(SPREAD_MAX_SAMPLES).default(SPREAD_DEFAULT_SAMPLES),
+      seed: z.number().int().min(0).max(Number.MAX_SAFE_INTEGER).optional(),
+    })
+    .strict(),
 } as const satisfies Record<CheckName, z.ZodType>;
 
 /** POST …/check-runs body: the check, its inputs, and the revision (default: the latest). */
@@ -68,5 +80,6 @@ export const checkRunRequestSchema = z.discriminatedUnion("check", [
   z.object({ check: z.literal("stability"), inputs: checkInputSchemas.stability.default({}), revisionId: z.string().min(1).max(100).optional() }).strict(),
   z.object({ check: z.literal("all_rules"), inputs: checkInputSchemas.all_rules.default({}), revisionId: z.string().min(1).max(100).optional() }).strict(),
   z.object({ check: z.literal("lineup"), inputs: checkInputSchemas.lineup, revisionId: z.string().min(1).max(100).optional() }).strict(),
+  z.object({ check: z.literal("spread"), inputs: checkInputSchemas.spread.default({ samples: SPREAD_DEFAULT_SAMPLES }), revisionId: z.string().min(1).max(100).optional() }).strict(),
 ]);
 export type CheckRunRequest = z.infer<typeof checkRunRequestSchema>;

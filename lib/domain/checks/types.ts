@@ -1,6 +1,7 @@
 import type { AllChecksResult, DriveResult, LeakTraceResult, LedgerResult, RuleResult, StabilityResult, StateSweepResult, Verdict } from "@/engine/checks";
 import type { EffectiveRuleSet, RuleSource } from "@/engine/checks";
 import type { LineupResult } from "@/engine/lineup";
+import type { SpreadResult } from "@/engine/spread";
 import type { CheckName } from "./inputs";
 
 /** A rule left out of a run because the scenario lacks a system port it names. */
@@ -18,6 +19,7 @@ export type CheckResults = {
   stability: StabilityResult[];
   all_rules: AllChecksResult;
   lineup: LineupResult;
+  spread: SpreadResult;
 };
 
 /**

@@ -4,7 +4,10 @@ import { loadProject } from "@/db/queries/projects";
 import { loadScenario } from "@/db/queries/scenarios";
 import { waiversOfRevision } from "@/db/queries/signoffs";
 import { db } from "@/db/client";
-import type { BundleIdentity } from "@/engine/bundle";
+import { getCheckRun, findCurrentRun } from "@/db/queries/check-runs";
+import { hashRuleSet, summariseSpread, type BundleIdentity, type SpreadSummary } from "@/engine/bundle";
+import type { EffectiveRuleSet } from "@/engine/checks";
+import { ENGINE_VERSION } from "@/engine/version";
 import packageJson from "@/package.json";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
@@ -59,7 +62,8 @@ export async function exportBundle({
     revision: { id: revision.id, number: revision.number, content_hash: revision.contentHash },
   };
   // solve, checks, report and zip run in a job thread (lib/server/jobs), never on the request's thread
-  const output = await runInPool({ kind: "bundle", content: revision.content, parts, identity, ruleSet, waivers, ...taskLimits() }, { signal });
+  const spread = await currentSpreadSummary(access, scenarioId, revision.id, ruleSet);
+  const output = await runInPool({ kind: "bundle", content: revision.content, parts, identity, ruleSet, waivers, ...(spread ? { spread } : {}), ...taskLimits() }, { signal });
   if (!output.ok) {
     throw refusalError(output, output.code === "too_large" || output.message.startsWith("The scenario uses") ? "" : `Revision ${revision.number} cannot be solved, so it cannot be bundled: `);
   }
@@ -73,4 +77,12 @@ export async function exportBundle({
     detail: { scenarioId, revision: revision.number, contentHash: revision.contentHash, rulesHash: output.rulesHash, verdict: output.verdict, bytes: bytes.length },
   });
   return { fileName: `${fileStem(scenario.name)}-r${revision.number}-bundle.zip`, bytes, identity, revisionNumber: revision.number, contentHash: revision.contentHash };
+}
+
+/** The summary of the revision's newest spread run judged by this rule set and engine, or undefined when it has none. */
+async function currentSpreadSummary(access: ProjectAccess, scenarioId: string, revisionId: string, ruleSet: EffectiveRuleSet): Promise<SpreadSummary | undefined> {
+  const runId = await findCurrentRun({ scenarioId, revisionId, check: "spread", rulesHash: hashRuleSet(ruleSet), engineVersion: ENGINE_VERSION });
+  if (!runId) return undefined;
+  const run = await getCheckRun({ access, scenarioId, runId });
+  return run.check === "spread" ? summariseSpread(run.figures.result) : undefined;
 }

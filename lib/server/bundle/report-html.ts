@@ -179,6 +179,19 @@ function lineupSection(results: BundleResults): string {
 ${body}`;
 }
 
+/** The revision's current spread analysis (when it has one): yield per rule with its 95% Wilson interval. */
+function spreadSection(results: BundleResults): string {
+  const spread = results.checks.spread;
+  if (!spread) return "";
+  const pct = (x: number) => `${(100 * x).toFixed(1)}%`;
+  const rows = spread.rules
+    .map((r) => `<tr><td class="mono">${escapeHtml(r.id)}</td><td class="num">${r.passed}/${r.total}</td><td class="num">${pct(r.yield)}</td><td class="num">${pct(r.low)}–${pct(r.high)}</td><td class="num">${num(r.nominal_margin)}</td></tr>`)
+    .join("");
+  return `<h2>Spread analysis</h2>
+<p>${spread.samples} samples, seed <span class="mono">${spread.seed}</span>, judged by the rule set above with this engine. Yield: the fraction of samples that meet the rule; the interval is the 95% Wilson score interval.</p>
+<table><thead><tr><th>Rule</th><th>passed</th><th>yield</th><th>95% interval</th><th>nominal margin</th></tr></thead><tbody>${rows}</tbody></table>`;
+}
+
 function ledgerSection(results: BundleResults): string {
   const ledgers = results.checks.results.ledgers;
   return ledgers
@@ -233,6 +246,7 @@ ${tracesSection(results)}
 <h2>Leak traces of the isolation rules</h2>
 ${leakSection(results)}
 ${lineupSection(results)}
+${spreadSection(results)}
 <h2>Power ledger</h2>
 ${ledgerSection(results)}
 <h2>Files of this bundle</h2>

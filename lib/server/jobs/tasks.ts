@@ -9,11 +9,12 @@ import { solutionToJson, solveScenario } from "@/engine/system";
 import { parseScenario } from "@/engine/scenario";
 import { writeCompositeTouchstone } from "@/engine/touchstone";
 import { EngineInputError, SingularSystemError, type Scenario } from "@/engine/types";
-import { BUNDLE_PATHS, BundleError, bundleFiles, computeBundleResults, sha256, writeBundleZip, type BundleIdentity, type BundleWaiver } from "@/engine/bundle";
+import { BUNDLE_PATHS, BundleError, bundleFiles, computeBundleResults, sha256, writeBundleZip, type BundleIdentity, type BundleWaiver, type SpreadSummary } from "@/engine/bundle";
 import type { EffectiveRuleSet } from "@/engine/checks";
 import { isAppError } from "@/lib/base/errors";
 import { renderReportHtml } from "@/lib/server/bundle/report-html";
 import { executeCheck } from "@/lib/domain/checks/execute";
+import { executeSpread } from "@/lib/domain/checks/execute-spread";
 import type { CheckRunRequest } from "@/lib/domain/checks/inputs";
 import type { JobProgress } from "@/lib/domain/jobs";
 import { solutionToCsv } from "@/lib/domain/results/results-math";
@@ -32,7 +33,7 @@ export type JobTask =
   | (TaskBase & { kind: "estimate" })
   | (TaskBase & { kind: "solve"; format: "json" | "touchstone" | "csv"; scenarioName: string })
   | (TaskBase & { kind: "check"; request: CheckRunRequest; ruleSet: EffectiveRuleSet })
-  | (TaskBase & { kind: "bundle"; identity: BundleIdentity; ruleSet: EffectiveRuleSet; waivers: BundleWaiver[] });
+  | (TaskBase & { kind: "bundle"; identity: BundleIdentity; ruleSet: EffectiveRuleSet; waivers: BundleWaiver[]; spread?: SpreadSummary });
 
 /** A refusal the route turns into a 422 (or the status given): bad input, unsolvable, over the size limit. */
 export type JobRefusal = { ok: false; status: number; code: "unprocessable" | "too_large"; message: string; estimateBytes?: number; limitBytes?: number };
@@ -83,6 +84,15 @@ export async function runTask(task: JobTask, report: (p: JobProgress) => void = 
     if (task.kind === "estimate") return { ok: true, kind: "estimate", bytes: estimate.bytes, work: estimate.work };
     report({ phase: "solving", fraction: 0.1 });
     if (task.kind === "bundle") return await bundleTask(task);
+    if (task.kind === "check" && task.request.check === "spread") {
+      // the samples are solved through the nominal join plan, batch by batch, reporting as they go
+      const outcome = await executeSpread(task.request, scenario, task.parts, task.ruleSet, {
+        maxBytes: task.maxBytes,
+        onProgress: (f) => report({ phase: "sampling", fraction: 0.1 + 0.8 * f }),
+      });
+      report({ phase: "storing", fraction: 0.9 });
+      return { ok: true, kind: "check", verdict: outcome.verdict, headline: outcome.figures.headline, figuresGz: gzipSync(JSON.stringify(outcome.figures)) };
+    }
     const solution = solveScenario(scenario, { parts: task.parts, maxBytes: Infinity, waves });
     if (task.kind === "solve") {
       const body =
@@ -106,7 +116,7 @@ export async function runTask(task: JobTask, report: (p: JobProgress) => void = 
 
 /** A review bundle: solve and check (computeBundleResults), the files, the report, the zip. */
 async function bundleTask(task: Extract<JobTask, { kind: "bundle" }>): Promise<JobOutput> {
-  const results = computeBundleResults(task.content, task.parts, task.ruleSet, task.waivers);
+  const results = computeBundleResults(task.content, task.parts, task.ruleSet, task.waivers, task.spread);
   const files = bundleFiles(task.content, task.parts, results);
   const hashes = [...files].map(([path, text]) => ({ path, sha256: sha256(text) }));
   files.set(BUNDLE_PATHS.report, renderReportHtml({ identity: task.identity, results, files: hashes }));

@@ -1,0 +1,64 @@
+import { expect, test, type Page } from "@playwright/test";
+import { demoUsers, signIn } from "./helpers";
+
+// The spread analysis (issue 17) on the seeded demo project (db/seed-scenarios.ts): an engineer gives the
+// driver pad DRV a spread of ± 1 dB in the inspector, the chart marks it, and the analysis run from the
+// helm shows its progress and then the yield table.
+const DEMO_PROJECT = "Kestrel telemetry front end";
+
+test.describe.configure({ timeout: 180_000 });
+
+const helm = (page: Page) => page.getByRole("dialog", { name: "Helm" });
+const helmInput = (page: Page) => helm(page).getByRole("combobox");
+
+async function command(page: Page, text: string): Promise<void> {
+  await page.keyboard.press("Control+k");
+  await expect(helmInput(page)).toBeFocused();
+  await page.keyboard.type(text);
+  await expect(helm(page).locator('[cmdk-item][data-selected="true"]')).toContainText(text.replace(/…$/, ""));
+  await page.keyboard.press("Enter");
+}
+
+async function answer(page: Page, prompt: string, text?: string): Promise<void> {
+  await expect(helmInput(page)).toHaveAttribute("aria-label", prompt);
+  if (text !== undefined) {
+    await page.keyboard.press("Control+a");
+    await page.keyboard.type(text);
+  }
+  await page.keyboard.press("Enter");
+}
+
+test("an engineer adds a spread on the baseline, runs the spread analysis from the helm and reads the yield table", async ({ page }) => {
+  await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 30_000 });
+  await command(page, "Go to project…");
+  await answer(page, "Project", DEMO_PROJECT);
+  await expect(page).toHaveURL(/\/projects\/[^/]+$/);
+  await command(page, "Open scenario Baseline");
+  await expect(page.getByTestId("workspace")).toBeVisible({ timeout: 30_000 });
+
+  // the inspector's spread row of the pad's loss: ± 1 dB uniform
+  await page.locator('[aria-label^="Block DRV,"]').click();
+  const inspector = page.getByRole("complementary", { name: "Inspector" });
+  await inspector.getByRole("combobox", { name: "Spread of loss_db" }).selectOption("plus_minus");
+  const amount = inspector.getByRole("textbox", { name: "Spread amount of loss_db" });
+  await amount.fill("1");
+  await amount.press("Enter");
+  await expect(page.getByLabel("DRV has spreads")).toBeVisible();
+  await expect(page.getByRole("status", { name: /^Save state:/ })).toHaveText("Saved", { timeout: 15_000 });
+
+  await command(page, "Spread analysis…");
+  await answer(page, "Samples", "3000");
+  await answer(page, "Seed (blank for a random one, stored with the run)", "7");
+  await expect(page.getByTestId("job-progress")).toBeVisible();
+  await expect(page.getByTestId("job-progress")).toContainText("Spread analysis");
+
+  const result = page.getByRole("article", { name: "Spread analysis result" });
+  await expect(result).toBeVisible({ timeout: 120_000 });
+  await expect(result.getByTestId("check-headline")).toContainText("3000 samples, seed 7");
+  const table = result.getByTestId("spread-yield-table");
+  await expect(table.getByRole("columnheader", { name: "95% interval" })).toBeVisible();
+  // one row per judged rule, each with passed/total out of 3000
+  await expect(table.getByRole("row").nth(1)).toContainText("/3000");
+  await expect(result.getByText(/DRV\.loss_db ±1 dB/)).toBeVisible();
+});
