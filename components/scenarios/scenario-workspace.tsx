@@ -3,30 +3,21 @@
 import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import dynamic from "next/dynamic";
 import useSWR from "swr";
 import { History, Save } from "lucide-react";
 import { Workspace } from "@/components/scenario-editor";
 import type { PartSummary } from "@/lib/browser/scenario-model";
 import { Alert, Button } from "@/components/ui";
+import { ScenarioChecks } from "@/components/checks/scenario-checks";
+import { ScenarioRulesPanel } from "@/components/rules/scenario-rules-panel";
 import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
 import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import { partFilesOf } from "@/lib/domain/scenarios/part-files";
+import { RevisionHistory } from "./revision-history";
 import { useAutosave } from "./use-autosave";
 import type { PartView } from "@/lib/domain/parts/types";
 import type { RevisionView, ScenarioView } from "@/lib/domain/scenarios/types";
-
-// The panels below the chart (rules, checks with their plots and leak traces) and the revision history
-// load in chunks of their own after the page is interactive: the chart is what the page is for, and its
-// first paint no longer waits for their code to download and hydrate.
-const panelPlaceholder = (label: string) =>
-  function PanelPlaceholder() {
-    return <p className="text-sm text-muted" aria-busy="true">Loading {label}…</p>;
-  };
-const ScenarioRulesPanel = dynamic(() => import("@/components/rules/scenario-rules-panel").then((m) => m.ScenarioRulesPanel), { ssr: false, loading: panelPlaceholder("rules") });
-const ScenarioChecks = dynamic(() => import("@/components/checks/scenario-checks").then((m) => m.ScenarioChecks), { ssr: false, loading: panelPlaceholder("checks") });
-const RevisionHistory = dynamic(() => import("./revision-history").then((m) => m.RevisionHistory), { ssr: false, loading: panelPlaceholder("history") });
 
 export type ScenarioWorkspaceProps = {
   projectId: string;
