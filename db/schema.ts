@@ -240,6 +240,10 @@ export const scenarioRevisions = sqliteTable(
     /** For a restore: the number of the revision whose content was restored. */
     restoredFrom: integer("restored_from"),
     authorId: text("author_id").references(() => users.id, { onDelete: "set null" }),
+    /** Blocks in `content`, counted when saved: the scenario list shows it without parsing every content. */
+    blockCount: integer("block_count"),
+    /** System port names of `content` (JSON array), for the same reason; null on rows older than the column. */
+    portNames: text("port_names", { mode: "json" }).$type<string[]>(),
     createdAt: createdAt(),
   },
   (table) => [uniqueIndex("scenario_revisions_number_idx").on(table.scenarioId, table.number)],

@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { useRouter } from "next/navigation";
-import { useCallback, useMemo, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import useSWR from "swr";
 import { History, Save } from "lucide-react";
 import { Workspace } from "@/components/scenario-editor";
@@ -14,6 +14,7 @@ import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
 import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import { formatDate } from "@/lib/base/dates";
+import { partFilesOf } from "@/lib/domain/scenarios/part-files";
 import { RevisionHistory } from "./revision-history";
 import { useAutosave } from "./use-autosave";
 import type { PartView } from "@/lib/domain/parts/types";
@@ -49,13 +50,34 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
     setHighlight(h ? { blocks: h.blocks, ports: h.hops.flatMap((x) => [`${x.block}:${x.inPort}`, `${x.block}:${x.outPort}`]) } : null);
   }, []);
 
-  const { data: partsData, error: partsError } = useSWR<{ parts: PartView[] }>(scenarioUrls.parts(projectId, true), fetchJson, {
+  // the list comes without texts; the page brought the texts of the parts this revision places, and a
+  // part placed later has its text fetched then (a project's unused parts never travel to the browser)
+  const { data: partsData, error: partsError } = useSWR<{ parts: PartView[] }>(scenarioUrls.parts(projectId), fetchJson, {
     fallbackData: { parts: initialParts },
     revalidateOnFocus: true,
   });
+  const [texts, setTexts] = useState<Record<string, string>>(() => Object.fromEntries(initialParts.flatMap((p) => (p.text !== undefined ? [[p.id, p.text]] : []))));
+  const [textError, setTextError] = useState<string | null>(null);
+  const requested = useRef(new Set<string>(Object.keys(texts)));
+  const neededFiles = useMemo(() => partFilesOf(draft).join("\n"), [draft]);
+  useEffect(() => {
+    const files = new Set(neededFiles.split("\n"));
+    for (const part of partsData?.parts ?? []) {
+      if (!files.has(`parts/${part.fileName}`) || requested.current.has(part.id)) continue;
+      requested.current.add(part.id);
+      fetchJson<{ part: PartView }>(scenarioUrls.part(projectId, part.id))
+        .then(({ part: full }) => {
+          if (full.text !== undefined) setTexts((t) => ({ ...t, [full.id]: full.text as string }));
+        })
+        .catch((e: unknown) => {
+          requested.current.delete(part.id); // let a later edit or refresh try again
+          setTextError(e instanceof Error ? e.message : String(e));
+        });
+    }
+  }, [neededFiles, partsData, projectId]);
   const parts = useMemo<PartSummary[]>(
-    () => (partsData?.parts ?? []).map((p) => ({ id: p.id, name: p.name, fileName: p.fileName, ports: p.ports, text: p.text, active: p.active, activeReason: p.activeReason })),
-    [partsData],
+    () => (partsData?.parts ?? []).map((p) => ({ id: p.id, name: p.name, fileName: p.fileName, ports: p.ports, text: texts[p.id], active: p.active, activeReason: p.activeReason })),
+    [partsData, texts],
   );
 
   const reload = async () => {
@@ -155,6 +177,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
         </Alert>
       ) : null}
       {partsError ? <Alert tone="warn" title="The parts could not be loaded">{partsError instanceof Error ? partsError.message : String(partsError)}</Alert> : null}
+      {textError && !partsError ? <Alert tone="warn" title="A placed part's data could not be loaded">{textError}</Alert> : null}
       {warnings.length > 0 && draft.blocks.length > 0 ? (
         <p className="text-xs text-warn-strong" aria-label="Revision warnings">
           Saved as a draft: {warnings.join(" ")}

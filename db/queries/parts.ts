@@ -10,6 +10,7 @@ import type { SessionUser } from "@/lib/server/auth/session";
 import { AppError } from "@/lib/base/errors";
 import { authorize } from "@/lib/server/permissions";
 import { PART_MAX_BYTES } from "@/lib/base/validation/parts";
+import { partFilesOf } from "@/lib/domain/scenarios/part-files";
 import { partFigures, partPreview, partVerdicts, type PartPreview, type PartVerdicts } from "@/lib/domain/parts/figures";
 
 /** A part as the API lists it (no text unless asked), with its verdicts (lib/domain/parts/figures.ts). */
@@ -37,15 +38,6 @@ function summarise(row: Part, withText: boolean): PartSummaryRow {
   };
 }
 
-/** The part files a scenario's blocks name (`parts/<fileName>`), each once: what a solve of it reads. */
-export function partFilesOf(content: { blocks?: readonly { kind?: string; file?: string; data?: string }[] } | null | undefined): string[] {
-  const files = new Set<string>();
-  for (const block of content?.blocks ?? []) {
-    if (block.kind === "touchstone" && block.data === undefined && typeof block.file === "string") files.add(block.file);
-  }
-  return [...files];
-}
-
 /**
  * Touchstone texts of a project's parts keyed as blocks name them (`parts/<fileName>`). With `files`
  * (as blocks name them, see partFilesOf) only those are read: a solve never loads parts it does not use.
@@ -61,11 +53,17 @@ export async function getPartTexts({ projectId, files, executor = db }: { projec
   return Object.fromEntries(rows.map((r) => [`parts/${r.fileName}`, r.text]));
 }
 
-/** The project's parts by name; `withText` adds the Touchstone text (the workspace needs it to solve). */
-export async function listParts({ userId, projectId, withText = false }: { userId: string; projectId: string; withText?: boolean }): Promise<PartSummaryRow[]> {
+export { partFilesOf };
+
+/**
+ * The project's parts by name; `withText` adds the Touchstone text (the workspace needs it to solve):
+ * `true` for every part, or the files a scenario names (as blocks name them, see partFilesOf) for those only.
+ */
+export async function listParts({ userId, projectId, withText = false }: { userId: string; projectId: string; withText?: boolean | readonly string[] }): Promise<PartSummaryRow[]> {
   await authorize({ userId, projectId, action: "part.read" });
   const rows = await db.select().from(parts).where(eq(parts.projectId, projectId)).orderBy(asc(parts.name), asc(parts.fileName));
-  return rows.map((row) => summarise(row, withText));
+  const named = typeof withText === "boolean" ? null : new Set(withText);
+  return rows.map((row) => summarise(row, named ? named.has(`parts/${row.fileName}`) : withText === true));
 }
 
 export async function getPart({ userId, projectId, partId }: { userId: string; projectId: string; partId: string }): Promise<PartSummaryRow> {

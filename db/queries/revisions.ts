@@ -93,6 +93,8 @@ export async function insertRevision(
     origin,
     restoredFrom,
     authorId,
+    blockCount: Array.isArray(stored.blocks) ? stored.blocks.length : 0,
+    portNames: (Array.isArray(stored.ports) ? stored.ports : []).map((p) => p?.name).filter((n): n is string => typeof n === "string"),
     createdAt: now,
   });
   await tx.update(scenarios).set({ latestRevisionId: id, latestRevisionNumber: number, updatedAt: now }).where(eq(scenarios.id, scenarioId));

@@ -58,9 +58,10 @@ export async function listScenarios({ userId, projectId }: { userId: string; pro
       revisionNumber: scenarios.latestRevisionNumber,
       updatedAt: scenarios.updatedAt,
       createdAt: scenarios.createdAt,
-      // counted in SQLite: the list never reads revision contents into the server
-      blockCount: sql<number>`coalesce(json_array_length(${scenarioRevisions.content}, '$.blocks'), 0)`,
-      portNames: sql<string | null>`(select json_group_array(json_extract(p.value, '$.name')) from json_each(${scenarioRevisions.content}, '$.ports') as p)`,
+      // stored when the revision was saved; counted in SQLite (never read into the server) only for rows
+      // older than those columns, so a list request does not parse every scenario's content
+      blockCount: sql<number>`coalesce(${scenarioRevisions.blockCount}, json_array_length(${scenarioRevisions.content}, '$.blocks'), 0)`,
+      portNames: sql<string | null>`coalesce(${scenarioRevisions.portNames}, (select json_group_array(json_extract(p.value, '$.name')) from json_each(${scenarioRevisions.content}, '$.ports') as p))`,
       warningCount: sql<number>`coalesce(json_array_length(${scenarioRevisions.warnings}), 0)`,
       updatedByName: users.name,
     })

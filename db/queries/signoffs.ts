@@ -272,6 +272,16 @@ export async function decideSignoff({
     if (scenario && scenario.latestHash !== null && scenario.latestHash !== row.contentHash) {
       throw new AppError("conflict", 409, "The scenario changed after this sign-off was requested, so the request is stale. Ask for a sign-off of the latest revision.");
     }
+    if (evidence?.checkRunId) {
+      // the run the decision rests on is kept by the retention rule from now on (pinned); if a burst of
+      // newer runs pruned it between the verdict and this write, the evidence is gone and the reviewer retries
+      const pinned = await tx
+        .update(checkRuns)
+        .set({ pinned: true })
+        .where(and(eq(checkRuns.id, evidence.checkRunId), eq(checkRuns.scenarioId, row.scenarioId)))
+        .returning({ id: checkRuns.id });
+      if (pinned.length === 0) throw new AppError("conflict", 409, "The verdict this decision rests on was replaced by newer runs meanwhile. Decide again.");
+    }
     const now = new Date();
     await tx.update(signoffs).set({ state: decision, comment, waiver, evidence, decidedAt: now, updatedAt: now }).where(eq(signoffs.id, signoffId));
     await recordAudit(tx, {

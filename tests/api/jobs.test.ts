@@ -16,14 +16,18 @@ const runRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenari
 const storageRoute = await import("@/app/api/projects/[projectId]/scenarios/[scenarioId]/check-runs/storage/route");
 const jobRoute = await import("@/app/api/projects/[projectId]/jobs/[jobId]/route");
 const sessionRoute = await import("@/app/api/auth/session/route");
+const signoffsRoute = await import("@/app/api/projects/[projectId]/signoffs/route");
+const decideRoute = await import("@/app/api/projects/[projectId]/signoffs/[signoffId]/decide/route");
 const { db } = await import("@/db/client");
-const { checkRuns, scenarios, users } = await import("@/db/schema");
+const { checkRuns, scenarios, signoffs, users } = await import("@/db/schema");
 const { DEMO_USERS, seedDemo } = await import("@/db/seed");
+const { kestrelScenario } = await import("@/db/seed-scenarios");
 const { createSessionForUser } = await import("@/lib/server/auth/session");
 const { closeJobPool } = await import("@/lib/server/jobs/pool");
 
 let projectId: string;
 const cookies: Record<"owner" | "engineer" | "reviewer", string> = { owner: "", engineer: "", reviewer: "" };
+const userIds: Record<"owner" | "engineer" | "reviewer", string> = { owner: "", engineer: "", reviewer: "" };
 const ids: Record<string, string> = {};
 
 /** A chain of n matched 0.1 dB attenuators on a linear plan: S21 = 10^(−0.1·n/20) (pads in cascade, common practice). */
@@ -64,6 +68,7 @@ beforeAll(async () => {
   for (const demo of DEMO_USERS) {
     const [row] = await db.select({ id: users.id }).from(users).where(eq(users.email, demo.email));
     cookies[demo.role] = `portolan_session=${(await createSessionForUser(row.id)).token}`;
+    userIds[demo.role] = row.id;
   }
   for (const row of await db.select().from(scenarios).where(eq(scenarios.projectId, projectId))) ids[row.name] = row.id;
   ids.heavy = await createScenario("Heavy chain", chain(40, 50_001));
@@ -227,6 +232,39 @@ describe("stored runs are bounded", () => {
     expect(stored.text).toBeNull();
     expect([...stored.gz!.subarray(0, 2)]).toEqual([0x1f, 0x8b]); // gzip magic, RFC 1952 §2.3.1
     expect(stored.bytes).toBe(stored.gz!.byteLength);
+  });
+
+  it("the run a sign-off was decided on is pinned and survives pruning past RUNS_KEPT and an owner's clear", async () => {
+    const id = await createScenario("Signed line-up", kestrelScenario("Signed line-up", 45));
+    const requested = await call(
+      signoffsRoute.POST,
+      makeRequest("POST", `/api/projects/${projectId}/signoffs`, { cookie: cookies.engineer, body: { scenarioId: id, reviewerIds: [userIds.reviewer] } }),
+      { projectId },
+    );
+    expect(requested.status).toBe(201);
+    const signoffId = ((await requested.json()) as { signoffs: { id: string }[] }).signoffs[0].id;
+    const decided = await call(
+      decideRoute.POST,
+      makeRequest("POST", `/api/projects/${projectId}/signoffs/${signoffId}/decide`, { cookie: cookies.reviewer, body: { decision: "changes_requested", comment: "tighten the match" } }),
+      { projectId, signoffId },
+    );
+    expect(decided.status).toBe(200);
+    const [signoff] = await db.select({ evidence: signoffs.evidence }).from(signoffs).where(eq(signoffs.id, signoffId));
+    const evidenceRun = signoff.evidence!.checkRunId!;
+    expect((await db.select({ pinned: checkRuns.pinned }).from(checkRuns).where(eq(checkRuns.id, evidenceRun)))[0].pinned).toBe(true);
+    // three newer "all rules" runs of the same revision: the evidence run falls past RUNS_KEPT = 2 by rank
+    for (let i = 0; i < 3; i++) expect((await postRun(id, { check: "all_rules", inputs: {} })).status).toBe(201);
+    const allRules = () => db.select({ id: checkRuns.id }).from(checkRuns).where(and(eq(checkRuns.scenarioId, id), eq(checkRuns.check, "all_rules")));
+    let rows = await allRules();
+    expect(rows).toHaveLength(3);
+    expect(rows.map((r) => r.id)).toContain(evidenceRun);
+    // an owner's clear applies the same rule: nothing beyond the kept and the pinned to delete
+    const cleared = await call(storageRoute.DELETE, makeRequest("DELETE", `/api/projects/${projectId}/scenarios/${id}/check-runs/storage`, { cookie: cookies.owner }), { projectId, scenarioId: id });
+    expect(cleared.status).toBe(200);
+    rows = await allRules();
+    expect(rows.map((r) => r.id)).toContain(evidenceRun);
+    const one = await call(runRoute.GET, makeRequest("GET", `/api/projects/${projectId}/scenarios/${id}/check-runs/${evidenceRun}`, { cookie: cookies.reviewer }), { projectId, scenarioId: id, runId: evidenceRun });
+    expect(one.status).toBe(200);
   });
 
   it("concurrent check runs are all stored, and the group still ends at RUNS_KEPT", async () => {

@@ -233,9 +233,9 @@ describe("item 5: the mail allowance (lib/server/mail/rate-limit.ts)", () => {
 describe("item 6: response headers (proxy.ts and next.config.ts)", () => {
   const page = (path: string, init: ConstructorParameters<typeof NextRequest>[1] = {}) => new NextRequest(`http://localhost:3000${path}`, init);
 
-  it("pages and the API get a nonce CSP, nosniff, a Referrer-Policy and frame-ancestors 'none'; no HSTS over http", () => {
+  it("pages get a nonce CSP, nosniff, a Referrer-Policy and frame-ancestors 'none'; no HSTS over http", () => {
     const nonces = new Set<string>();
-    for (const path of ["/projects", "/api/projects", "/sign-in?next=/x"]) {
+    for (const path of ["/projects", "/scenarios/x", "/sign-in?next=/x"]) {
       const response = proxy(page(path));
       const csp = response.headers.get("content-security-policy") ?? "";
       const nonce = /'nonce-([A-Za-z0-9+/=]+)'/.exec(csp)?.[1];
@@ -253,6 +253,21 @@ describe("item 6: response headers (proxy.ts and next.config.ts)", () => {
     }
     expect(nonces.size).toBe(3);
     expect(nextConfig.poweredByHeader).toBe(false);
+  });
+
+  it("the API gets a deny-all CSP without a nonce (its answers run no scripts), the same headers, and its request untouched", () => {
+    for (const path of ["/api/projects", "/api/auth/session"]) {
+      const response = proxy(page(path));
+      const csp = response.headers.get("content-security-policy") ?? "";
+      // CSP Level 3 §6.1.3 default-src 'none' blocks every fetch directive; frame-ancestors is not a fetch directive
+      expect(csp).toContain("default-src 'none'");
+      expect(csp).toContain("frame-ancestors 'none'");
+      expect(csp).not.toContain("nonce-");
+      expect(response.headers.get("x-content-type-options")).toBe("nosniff");
+      expect(response.headers.get("referrer-policy")).toBe("strict-origin-when-cross-origin");
+      expect(response.headers.get("x-middleware-next")).toBe("1");
+      expect(response.headers.get("x-middleware-request-x-nonce")).toBeNull();
+    }
   });
 
   it("served over https (APP_URL https://…): HSTS and upgrade-insecure-requests", () => {

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { listParts } from "@/db/queries/parts";
+import { listParts, partFilesOf } from "@/db/queries/parts";
 import { ScenarioWorkspace } from "@/components/scenarios/scenario-workspace";
 import { SignoffPanel } from "@/components/signoff/signoff-panel";
 import type { PartView } from "@/lib/domain/parts/types";
@@ -17,7 +17,9 @@ export async function generateMetadata({ params }: { params: Promise<{ projectId
 export default async function ScenarioPage({ params }: { params: Promise<{ projectId: string; scenarioId: string }> }) {
   const { projectId, scenarioId } = await params;
   const { user, project, scenario, revision } = await loadScenarioPage(projectId, scenarioId);
-  const parts: PartView[] = serialiseDates(await listParts({ userId: user.id, projectId, withText: true }));
+  // only the texts of the parts this revision places travel with the page; the workspace fetches others
+  // when one is placed
+  const parts: PartView[] = serialiseDates(await listParts({ userId: user.id, projectId, withText: partFilesOf(revision.content) }));
   return (
     <>
       <ScenarioWorkspace
