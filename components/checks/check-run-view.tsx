@@ -2,7 +2,6 @@
 
 import type { AllChecksResult } from "@/engine/checks";
 import type { RuleSource } from "@/engine/checks/rule-set";
-import { VerdictBadge } from "@/components/ui";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import type { CheckRunView as Run } from "@/lib/domain/checks/types";
 import { DriveView } from "./drive-view";
