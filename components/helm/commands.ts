@@ -213,9 +213,13 @@ export function buildCommands(data: HelmData): HelmCommand[] {
             : {
                 kind: "text",
                 key: "sources",
-                prompt: drive && drive.kind === "drive" ? "Source powers (from the drive rule)" : `Source powers (no drive rule: ${DEFAULT_DRIVE_DBM} dBm assumed)`,
+                prompt: "Source powers",
                 initial: drive && drive.kind === "drive" ? drive.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", ") : `${defFrom} ${DEFAULT_DRIVE_DBM} dBm`,
-                hint: "e.g. TX 30 dBm, ANT-A 10 dBm; check each part's rating before going above 30 dBm",
+                // the field starts with the level, so the person sees what would be driven before Enter
+                hint:
+                  drive && drive.kind === "drive"
+                    ? "From the drive rule; e.g. TX 30 dBm, ANT-A 10 dBm"
+                    : `No drive rule: ${DEFAULT_DRIVE_DBM} dBm assumed; check each part's rating before going above 30 dBm`,
                 parse: (t) => parseSources(t, ports),
               },
         run: (v) => page.runCheck("drive", { sources: v.sources }),
