@@ -144,9 +144,9 @@ test("add-block list: an exact name is highlighted first and Enter adds it", asy
   const workspace = page.getByTestId("workspace");
   const before = await workspace.locator(".react-flow__node").count();
   await workspace.getByRole("button", { name: /Add block/ }).click();
-  const palette = page.getByRole("dialog").filter({ has: page.getByRole("listbox", { name: "Block kinds and parts" }) });
+  await expect(page.locator("[cmdk-input]")).toBeFocused();
   await page.keyboard.type("load");
-  await expect(palette.locator('[cmdk-item][data-selected="true"]')).toContainText(/^Load/);
+  await expect(page.locator('[cmdk-item][data-selected="true"]')).toContainText(/^Load/);
   await page.keyboard.press("Enter");
   await expect(workspace.locator(".react-flow__node")).toHaveCount(before + 1);
 });
