@@ -4,6 +4,7 @@ import { Command } from "cmdk";
 import type { BlockKind } from "@/engine/types";
 import { ADDABLE_KINDS, kindSummary, kindTitle } from "@/lib/browser/catalogue";
 import type { PartSummary } from "@/lib/browser/scenario-model";
+import { NAME_SEPARATOR, rankBlockMatch } from "@/lib/browser/block-ranking";
 
 export type AddBlockChoice = { kind: BlockKind; part?: PartSummary };
 
@@ -46,6 +47,8 @@ export function AddBlockPalette({ open, onOpenChange, parts, onChoose }: AddBloc
       onOpenChange={onOpenChange}
       // cmdk names its input after this label (aria-labelledby), so it says what the input does
       label="Filter block kinds and parts"
+      // exact names (a part or a kind) above partial matches; cmdk keeps the best first and Enter adds it
+      filter={rankBlockMatch}
       overlayClassName="fixed inset-0 z-40 bg-ink/25"
       contentClassName="fixed top-[12vh] left-1/2 z-50 w-[min(34rem,92vw)] -translate-x-1/2 rounded-card border-[1.5px] border-ink bg-surface shadow-xl"
     >
@@ -57,7 +60,7 @@ export function AddBlockPalette({ open, onOpenChange, parts, onChoose }: AddBloc
         <Command.Empty className="px-3 py-6 text-center text-sm text-muted">Nothing matches.</Command.Empty>
         <Command.Group heading="Built-in blocks" className="[&_[cmdk-group-heading]]:px-3 [&_[cmdk-group-heading]]:py-1 [&_[cmdk-group-heading]]:text-xs [&_[cmdk-group-heading]]:text-muted">
           {ADDABLE_KINDS.map((kind) => (
-            <Command.Item key={kind} value={`${kindTitle(kind)} ${kind}`} keywords={KEYWORDS[kind]} onSelect={() => choose({ kind })} className={itemClass}>
+            <Command.Item key={kind} value={`${kindTitle(kind)}${NAME_SEPARATOR}${kind}`} keywords={KEYWORDS[kind]} onSelect={() => choose({ kind })} className={itemClass}>
               <span className="font-medium">{kindTitle(kind)}</span>
               <span className="text-xs opacity-75">{kindSummary(kind)}</span>
             </Command.Item>
@@ -68,7 +71,7 @@ export function AddBlockPalette({ open, onOpenChange, parts, onChoose }: AddBloc
             {parts.map((part) => (
               <Command.Item
                 key={part.id}
-                value={`${part.name} ${part.fileName} part ${part.id}`}
+                value={`${part.name}${NAME_SEPARATOR}${part.fileName}${NAME_SEPARATOR}part:${part.id}`}
                 onSelect={() => choose({ kind: "touchstone", part })}
                 className={itemClass}
               >

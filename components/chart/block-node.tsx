@@ -49,14 +49,16 @@ function numberStyle(side: Side, at: number): CSSProperties {
 function flagStyle(side: Side, at: number): CSSProperties {
   const pct = `${at * 100}%`;
   switch (side) {
+    // Links leave a left/right port horizontally and a top/bottom port vertically, so the tag sits just
+    // above the link's line (or beside it), never on it.
     case "left":
-      return { right: "calc(100% + 12px)", top: pct, transform: "translateY(-50%)" };
+      return { right: "calc(100% + 4px)", top: pct, transform: "translateY(calc(-100% - 7px))" };
     case "right":
-      return { left: "calc(100% + 12px)", top: pct, transform: "translateY(-50%)" };
+      return { left: "calc(100% + 4px)", top: pct, transform: "translateY(calc(-100% - 7px))" };
     case "top":
-      return { bottom: "calc(100% + 12px)", left: pct, transform: "translateX(-50%)" };
+      return { bottom: "calc(100% + 4px)", left: `calc(${pct} + 10px)` };
     default:
-      return { top: "calc(100% + 12px)", left: pct, transform: "translateX(-50%)" };
+      return { top: "calc(100% + 4px)", left: `calc(${pct} + 10px)` };
   }
 }
 
@@ -73,11 +75,16 @@ function BlockNodeView({ data, selected }: NodeProps<BlockNodeType>) {
         "relative rounded-card border-[1.5px] border-ink bg-surface text-ink shadow-[2px_2px_0_0_var(--pt-rule)]",
         selected && "outline-2 outline-offset-2 outline-focus",
       )}
-      style={{ width: CARD_WIDTH, height }}
+      style={{ width: CARD_WIDTH, minHeight: height }}
     >
       <div className="pointer-events-none flex flex-col items-center px-7 pt-2 text-center">
-        <span className="max-w-full truncate font-mono text-sm font-semibold">{block.id}</span>
-        <span className="max-w-full truncate text-[0.68rem] tracking-wide text-muted uppercase">{title}</span>
+        {/* wrap, never clip: "DIRECTIONAL C…" told the reader nothing (the card grows to fit) */}
+        <span className="max-w-full font-mono text-sm font-semibold break-all" data-testid="block-id">
+          {block.id}
+        </span>
+        <span className="max-w-full text-[0.68rem] leading-tight tracking-wide text-balance break-words text-muted uppercase" data-testid="block-title">
+          {title}
+        </span>
       </div>
       {block.spread && Object.keys(block.spread).length > 0 ? (
         // the block takes part in the spread analysis: its parameters named here carry a spread

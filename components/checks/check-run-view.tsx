@@ -2,13 +2,13 @@
 
 import type { AllChecksResult } from "@/engine/checks";
 import type { RuleSource } from "@/engine/checks/rule-set";
-import { VerdictBadge } from "@/components/ui";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import type { CheckRunView as Run } from "@/lib/domain/checks/types";
 import { DriveView } from "./drive-view";
 import { LeakTraceView } from "./leak-trace-view";
 import type { LineupResult } from "@/engine/lineup";
 import { LedgerChart } from "./ledger-chart";
+import { RunBadge } from "./run-badge";
 import { LineupView } from "./lineup-view";
 import { RuleResultsTable } from "./rule-results-table";
 import { SortableTable } from "@/components/ui/sortable-table";
@@ -31,7 +31,7 @@ export function CheckRunView({ run, highlightedPath = null, onHighlightPath, onO
   return (
     <article aria-label={`${CHECK_TITLES[run.check]} result`} className="flex flex-col gap-3" data-check={run.check}>
       <header className="flex flex-wrap items-center gap-2">
-        <VerdictBadge verdict={run.verdict} />
+        <RunBadge check={run.check} verdict={run.verdict} />
         <h3 className="text-base font-semibold">{CHECK_TITLES[run.check]}</h3>
         <span className="text-xs text-muted">
           r{run.revisionNumber ?? "?"} · {run.userName ?? "someone"} · {formatDate(run.createdAt, "second")}
@@ -75,7 +75,7 @@ function AllRulesView({ result, sources }: { result: AllChecksResult; sources?: 
         rows={others}
         rowKey={(c) => c.name}
         columns={[
-          { id: "verdict", header: "Verdict", value: (c) => c.verdict, cell: (c) => <VerdictBadge verdict={c.verdict} /> },
+          { id: "verdict", header: "Verdict", value: (c) => c.verdict, cell: (c) => <RunBadge check={c.name} verdict={c.verdict} /> },
           { id: "check", header: "Check", value: (c) => c.title },
           { id: "note", header: "Note", value: (c) => c.messages[0] ?? "", sortable: false },
         ]}

@@ -1,8 +1,9 @@
 "use client";
 
 import useSWR from "swr";
-import { Alert, Badge, Button, Spinner, VerdictBadge } from "@/components/ui";
+import { Alert, Badge, Button, Spinner } from "@/components/ui";
 import { formatDate } from "@/lib/base/dates";
+import { RunBadge } from "./run-badge";
 import { cn } from "@/components/ui/cn";
 import { checkRunUrls, fetchJson } from "@/lib/browser/api-client";
 import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
@@ -107,7 +108,7 @@ export function ChecksPanel(props: ChecksPanelProps) {
                     className={cn("flex w-full flex-col gap-0.5 rounded border px-2 py-1 text-left text-xs hover:bg-sunken", r.id === selectedRunId ? "border-ink" : "border-rule")}
                   >
                     <span className="flex items-center gap-2">
-                      <VerdictBadge verdict={r.verdict} />
+                      <RunBadge check={r.check} verdict={r.verdict} />
                       <span className="font-medium">{CHECK_TITLES[r.check]}</span>
                       <span className="text-muted">r{r.revisionNumber ?? "?"}</span>
                       {staleNote(r) ? (

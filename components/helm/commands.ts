@@ -56,6 +56,25 @@ export function defaultPair(ports: readonly string[]): [string, string] {
   return [from, to];
 }
 
+/**
+ * The ports a rule names for this kind of check, when they are on the scenario: an insertion loss rule for
+ * insertion loss, else the main path that a line-up rule (gain, noise figure, headroom) names. TX→RX is
+ * the isolation pair, so insertion loss must not fall back to it while a rule says which path matters.
+ */
+export function rulePair(rules: readonly RuleSpec[], ports: readonly string[], kinds: readonly string[]): [string, string] | null {
+  for (const kind of kinds) {
+    for (const r of rules) {
+      if (r.kind !== kind || !("from" in r) || !("to" in r)) continue;
+      const { from, to } = r as { from: unknown; to: unknown };
+      if (typeof from === "string" && typeof to === "string" && ports.includes(from) && ports.includes(to)) return [from, to];
+    }
+  }
+  return null;
+}
+
+/** Level assumed for a drive check when no drive rule gives one: modest, so no part is overdriven by default. */
+export const DEFAULT_DRIVE_DBM = 20;
+
 function orderFirst(ports: readonly string[], first: string): HelmOption[] {
   return [first, ...ports.filter((p) => p !== first)].filter(Boolean).map((p, i) => ({ value: p, label: p, hint: i === 0 ? "default" : undefined }));
 }
@@ -96,8 +115,8 @@ function bandStep(rules: RuleSpec[], kind: RuleKind | null, scenario: Scenario, 
   return { kind: "text", key, prompt: "Band", initial: band ? formatBand(band) : "", hint: "e.g. 2.4 GHz to 2.48 GHz", parse: parseBand };
 }
 
-function portSteps(ports: string[], keys: ("from" | "to" | "port")[], values: Record<string, unknown>): HelmStep | null {
-  const [defFrom, defTo] = defaultPair(ports);
+function portSteps(ports: string[], keys: ("from" | "to" | "port")[], values: Record<string, unknown>, pair: [string, string] | null = null): HelmStep | null {
+  const [defFrom, defTo] = pair ?? defaultPair(ports);
   for (const key of keys) {
     if (values[key] !== undefined) continue;
     const prompt = key === "from" ? "From port" : key === "to" ? "To port" : "Port";
@@ -148,7 +167,7 @@ export function buildCommands(data: HelmData): HelmCommand[] {
         title: "Run insertion loss check",
         group: "Checks",
         keywords: ["loss", "through"],
-        next: (v) => portSteps(ports, ["from", "to"], v) ?? (v.band ? null : bandStep(rules, "insertion_loss", scenario, v)),
+        next: (v) => portSteps(ports, ["from", "to"], v, rulePair(rules, ports, ["insertion_loss", "gain", "noise_figure", "headroom"])) ?? (v.band ? null : bandStep(rules, "insertion_loss", scenario, v)),
         run: () => undefined,
       },
     );
@@ -209,8 +228,12 @@ export function buildCommands(data: HelmData): HelmCommand[] {
                 kind: "text",
                 key: "sources",
                 prompt: "Source powers",
-                initial: drive && drive.kind === "drive" ? drive.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", ") : `${defFrom} 30 dBm`,
-                hint: "e.g. TX 30 dBm, ANT-A 10 dBm",
+                initial: drive && drive.kind === "drive" ? drive.sources.map((s) => `${s.port} ${s.dbm} dBm`).join(", ") : `${defFrom} ${DEFAULT_DRIVE_DBM} dBm`,
+                // the field starts with the level, so the person sees what would be driven before Enter
+                hint:
+                  drive && drive.kind === "drive"
+                    ? "From the drive rule; e.g. TX 30 dBm, ANT-A 10 dBm"
+                    : `No drive rule: ${DEFAULT_DRIVE_DBM} dBm assumed; check each part's rating before going above 30 dBm`,
                 parse: (t) => parseSources(t, ports),
               },
         run: (v) => page.runCheck("drive", { sources: v.sources }),

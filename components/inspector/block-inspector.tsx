@@ -19,6 +19,7 @@ import { formatNumber } from "@/lib/browser/format";
 import { ExpressionForm, type ExpressionFieldSpec } from "./expression-form";
 import { PortList } from "./port-list";
 import { SpreadSection } from "./spread-section";
+import { ReplaceForm } from "./replace-form";
 
 export type BlockInspectorProps = {
   scenario: Scenario;
@@ -46,6 +47,7 @@ export function BlockInspector({ scenario, blockId, parts, readOnly, scope, rese
     <section aria-label={`Inspector for ${block.id}`} className="flex flex-col gap-5">
       <Header block={block} parts={parts} />
       <RenameForm key={`${block.id}:${resetToken}`} scenario={scenario} block={block} readOnly={readOnly} commit={commit} onRenamed={onRenamed} />
+      <ReplaceForm key={`replace:${block.id}`} scenario={scenario} block={block} parts={parts} readOnly={readOnly} commit={commit} notify={notify} />
       <ParamsSection
         key={`params:${block.id}:${resetToken}`}
         scenario={scenario}

@@ -102,8 +102,8 @@ function PortRow({
   const title = `Port ${refId}${label && label !== refId.split(":").pop() ? ` (${label})` : ""}`;
   return (
     <li className="flex flex-col gap-1.5 rounded-card border border-rule bg-surface px-2.5 py-2" aria-label={title}>
-      <div className="flex items-center justify-between gap-2">
-        <span className="font-mono text-sm text-ink">{title}</span>
+      <div className="flex flex-wrap items-baseline justify-between gap-x-2 gap-y-0.5">
+        <span className="min-w-0 font-mono text-sm break-words text-ink">{title}</span>
         <span className="text-xs text-muted">{peer ? `linked to ${peer}` : sys ? "system port" : "free (matched termination)"}</span>
       </div>
       {peer ? (
@@ -265,12 +265,13 @@ function SystemPortEditor({
         </label>
         <label className="flex items-center gap-1.5 text-xs text-muted">
           Z0 (Ω)
-          <span className="w-28">
+          <span className="w-32">
           <Input
             aria-label={`System port Z0 at ${refId}`}
             className="font-mono"
             value={z0Text}
-            placeholder={`${formatNumber(scenario.z0)} (system)`}
+            placeholder={`${formatNumber(scenario.z0)} Ω`}
+            title={`Blank: the scenario's Z0, ${formatNumber(scenario.z0)} Ω`}
             onChange={(e) => setZ0Text(e.target.value)}
             onBlur={apply}
           />

@@ -29,6 +29,7 @@ import {
 } from "@/lib/browser/scenario-model";
 import { useSolver } from "@/lib/browser/use-solver";
 import { PortMenu, type PortMenuAction } from "./port-menu";
+import { ShortcutSheet } from "./shortcut-sheet";
 
 export type SaveState = "saved" | "unsaved" | "saving" | "conflict" | "error";
 
@@ -396,6 +397,7 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
       </div>
 
       <AddBlockPalette open={paletteOpen} onOpenChange={setPaletteOpen} parts={parts} onChoose={onAddChoice} />
+      <ShortcutSheet />
       {portMenu ? (
         <PortMenu
           scenario={scenario}

@@ -167,6 +167,8 @@ function display(value: number, q: Quantity): string {
     case "integer":
       return formatNumber(value, 6);
     case "ohm":
+    case "impedance":
+      // a real impedance is still ohms: "= 75 Ω", never "= 75 impedance"
       return `${formatNumber(value, 6)} Ω`;
     case "deg":
       return `${formatNumber(value, 6)}°`;

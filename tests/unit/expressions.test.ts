@@ -52,6 +52,8 @@ describe("evaluateQuantity with units", () => {
     expect(value("1 kΩ", "ohm")).toBeCloseTo(1000, 9);
     expect(value("25 - 10i", "impedance")).toEqual([25, -10]);
     expect(value("75", "impedance")).toBe(75);
+    // a real impedance shows its unit, Ω (SI unit of impedance, BIPM SI Brochure 9th ed. Table 4)
+    expect(evaluateQuantity("75", "impedance")).toMatchObject({ ok: true, display: "75 Ω" });
   });
 
   it("refuses a value in the wrong unit with a message naming what was expected", () => {
