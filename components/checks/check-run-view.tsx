@@ -6,7 +6,6 @@ import { CHECK_TITLES } from "@/lib/domain/checks/inputs";
 import type { CheckRunView as Run } from "@/lib/domain/checks/types";
 import { DriveView } from "./drive-view";
 import { LeakTraceView } from "./leak-trace-view";
-import type { LineupResult } from "@/engine/lineup";
 import { LedgerChart } from "./ledger-chart";
 import { RunBadge } from "./run-badge";
 import { LineupView } from "./lineup-view";

@@ -3,7 +3,7 @@ import { db, type Executor } from "@/db/client";
 import { findCurrentRun, newestRunOf } from "@/db/queries/check-runs";
 import { getPartTexts } from "@/db/queries/parts";
 import { projectRuleSpecs } from "@/db/queries/rules";
-import { getScenario, latestScenarioContents, loadScenario } from "@/db/queries/scenarios";
+import { latestScenarioContents, loadScenario } from "@/db/queries/scenarios";
 import { hashRuleSet } from "@/engine/bundle";
 import { effectiveRuleSet, type EffectiveRuleSet } from "@/engine/checks";
 import { parseScenario } from "@/engine/scenario";

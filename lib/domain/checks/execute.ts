@@ -16,7 +16,7 @@ import {
   type Verdict,
 } from "@/engine/checks";
 import { lineup } from "@/engine/lineup";
-import type { RuleSpec, Scenario, Solution } from "@/engine/types";
+import type { RuleSpec, Solution } from "@/engine/types";
 import { AppError } from "@/lib/base/errors";
 import type { CheckRunRequest } from "./inputs";
 import type { CheckOutcome, SkippedRule } from "./types";

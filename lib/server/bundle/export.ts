@@ -14,7 +14,6 @@ import type { SessionUser } from "@/lib/server/auth/session";
 import { allow, type ProjectAccess } from "@/lib/server/permissions";
 import { fileStem } from "@/lib/domain/scenarios/file-stem";
 import { revisionRules } from "@/lib/server/verdicts";
-import { renderReportHtml } from "./report-html";
 import { refusalError, runInPool, taskLimits } from "@/lib/server/jobs/pool";
 
 export type ExportedBundle = { fileName: string; bytes: Uint8Array; identity: BundleIdentity; revisionNumber: number; contentHash: string };
