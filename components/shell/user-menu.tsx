@@ -64,7 +64,7 @@ export function UserMenu({ name, email, isSiteAdmin = false, signOutAction, link
           {initialsOf(name, email)}
         </span>
         <span className="hidden max-w-[12rem] truncate sm:inline">{name || email}</span>
-        <span className="sr-only">{links.length > 0 ? "Menu" : "Account menu"}</span>
+        <span className="sr-only">Account menu</span>
         <ChevronDown aria-hidden="true" className="h-3.5 w-3.5 text-muted" />
       </button>
       <div

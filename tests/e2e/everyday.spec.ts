@@ -303,7 +303,7 @@ test.describe("8. small screens", () => {
       expect(overflow, path).toBeLessThanOrEqual(0);
     }
     await expect(page.getByRole("navigation", { name: "Main", exact: true })).toBeHidden();
-    await page.getByRole("button", { name: /Menu/ }).click();
+    await page.getByRole("button", { name: /Account menu/ }).click();
     const signOut = page.getByRole("button", { name: "Sign out" });
     await expect(signOut).toBeInViewport();
     await page.getByRole("navigation", { name: "Main (menu)" }).getByRole("link", { name: "Account" }).click();
@@ -348,7 +348,9 @@ test.describe("4. site admin", () => {
   // the e2e database for its duration, and takes it back at the end.
   async function setSiteAdmin(email: string, on: boolean): Promise<void> {
     const { createClient } = await import("@libsql/client");
-    const client = createClient({ url: "file:data/e2e-playwright.db" });
+    // the database playwright.config.ts gives the server (one per E2E_PORT)
+    const port = Number(process.env.E2E_PORT ?? 3210);
+    const client = createClient({ url: `file:${port === 3210 ? "data/e2e-playwright.db" : `data/e2e-playwright-${port}.db`}` });
     await client.execute({ sql: "UPDATE users SET is_site_admin = ? WHERE email = ?", args: [on ? 1 : 0, email] });
     client.close();
   }
