@@ -75,7 +75,7 @@ test("a personal API token made on the Account page is shown once and reads the 
   await signInAs(page, "reviewer");
   const { projectId, scenarioId } = await demoProject(page);
   await page.goto("/account");
-  await page.getByLabel("Name").fill("e2e pipeline");
+  await page.getByLabel("Token name").fill("e2e pipeline");
   await page.getByRole("checkbox", { name: new RegExp(DEMO_PROJECT) }).check();
   await page.getByRole("button", { name: "Create token" }).click();
   const shown = page.getByTestId("new-api-token");

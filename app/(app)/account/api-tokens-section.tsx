@@ -102,7 +102,7 @@ export function ApiTokensSection({ initialTokens, projects }: { initialTokens: T
         <p className="text-sm text-muted">A token reaches projects you are a member of; you have none yet.</p>
       ) : (
         <form className="flex flex-col gap-3" onSubmit={(event) => void create(event)} aria-label="Create an API token">
-          <Field label="Name" hint="What uses it, e.g. the CI pipeline of the Kestrel repository." error={error?.fields?.name}>
+          <Field label="Token name" hint="What uses it, e.g. the CI pipeline of the Kestrel repository." error={error?.fields?.name}>
             <Input name="name" required maxLength={80} />
           </Field>
           <fieldset className="flex flex-col gap-1 text-sm">
