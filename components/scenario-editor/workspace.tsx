@@ -196,7 +196,10 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
       if (isEditable(e.target)) return;
-      const inside = root.current?.contains(e.target as Node) || e.target === document.body;
+      // a click on the chart's background focuses the nearest focusable ancestor (the page's <main>, a
+      // skip-link target), so keys whose target contains the workspace count as the workspace's too
+      const target = e.target as Node;
+      const inside = root.current?.contains(target) || target === document.body || (root.current !== null && target.contains(root.current));
       if (!inside) return;
       const mod = e.ctrlKey || e.metaKey;
       const key = e.key.toLowerCase();
