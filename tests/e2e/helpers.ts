@@ -38,3 +38,25 @@ export function collectForeignRequests(page: Page, allowedHost = "127.0.0.1"): s
   });
   return foreign;
 }
+
+const helmDialog = (page: Page) => page.getByRole("dialog", { name: "Helm" });
+const helmInput = (page: Page) => helmDialog(page).getByRole("combobox");
+
+/** Opens the helm (Ctrl+K), types a command and runs it once it is the highlighted entry. */
+export async function helmCommand(page: Page, text: string): Promise<void> {
+  await page.keyboard.press("Control+k");
+  await expect(helmInput(page)).toBeFocused();
+  await page.keyboard.type(text);
+  await expect(helmDialog(page).locator('[cmdk-item][data-selected="true"]')).toContainText(text.replace(/…$/, ""));
+  await page.keyboard.press("Enter");
+}
+
+/** Answers the helm's current step (its input is labelled `prompt`): replaces the default with `text`, or keeps it. */
+export async function helmAnswer(page: Page, prompt: string | RegExp, text?: string): Promise<void> {
+  await expect(helmInput(page)).toHaveAttribute("aria-label", prompt);
+  if (text !== undefined) {
+    await page.keyboard.press("Control+a");
+    await page.keyboard.type(text);
+  }
+  await page.keyboard.press("Enter");
+}

@@ -1,5 +1,5 @@
-import { expect, test, type Page } from "@playwright/test";
-import { demoUsers, signIn } from "./helpers";
+import { expect, test } from "@playwright/test";
+import { demoUsers, helmAnswer as answer, helmCommand as command, signIn } from "./helpers";
 
 // The line-up (issue 16) from the helm on the seeded demo project (db/seed-scenarios.ts): TX → MON runs
 // through the driver pad, the TX band-pass part and the monitor coupler. Keyboard only after signing in.
@@ -7,25 +7,6 @@ const DEMO_PROJECT = "Kestrel telemetry front end";
 
 test.describe.configure({ timeout: 120_000 });
 
-const helm = (page: Page) => page.getByRole("dialog", { name: "Helm" });
-const helmInput = (page: Page) => helm(page).getByRole("combobox");
-
-async function command(page: Page, text: string): Promise<void> {
-  await page.keyboard.press("Control+k");
-  await expect(helmInput(page)).toBeFocused();
-  await page.keyboard.type(text);
-  await expect(helm(page).locator('[cmdk-item][data-selected="true"]')).toContainText(text.replace(/…$/, ""));
-  await page.keyboard.press("Enter");
-}
-
-async function answer(page: Page, prompt: string, text?: string): Promise<void> {
-  await expect(helmInput(page)).toHaveAttribute("aria-label", prompt);
-  if (text !== undefined) {
-    await page.keyboard.press("Control+a");
-    await page.keyboard.type(text);
-  }
-  await page.keyboard.press("Enter");
-}
 
 test("keyboard only: a line-up from the helm shows its stages, the chart along the path and the traces", async ({ page }) => {
   await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);

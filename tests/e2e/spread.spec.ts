@@ -1,5 +1,5 @@
-import { expect, test, type Page } from "@playwright/test";
-import { demoUsers, signIn } from "./helpers";
+import { expect, test } from "@playwright/test";
+import { demoUsers, helmAnswer as answer, helmCommand as command, signIn } from "./helpers";
 
 // The spread analysis (issue 17) on the seeded demo project (db/seed-scenarios.ts): an engineer gives the
 // driver pad DRV a spread of ± 1 dB in the inspector, the chart marks it, and the analysis run from the
@@ -8,25 +8,6 @@ const DEMO_PROJECT = "Kestrel telemetry front end";
 
 test.describe.configure({ timeout: 180_000 });
 
-const helm = (page: Page) => page.getByRole("dialog", { name: "Helm" });
-const helmInput = (page: Page) => helm(page).getByRole("combobox");
-
-async function command(page: Page, text: string): Promise<void> {
-  await page.keyboard.press("Control+k");
-  await expect(helmInput(page)).toBeFocused();
-  await page.keyboard.type(text);
-  await expect(helm(page).locator('[cmdk-item][data-selected="true"]')).toContainText(text.replace(/…$/, ""));
-  await page.keyboard.press("Enter");
-}
-
-async function answer(page: Page, prompt: string, text?: string): Promise<void> {
-  await expect(helmInput(page)).toHaveAttribute("aria-label", prompt);
-  if (text !== undefined) {
-    await page.keyboard.press("Control+a");
-    await page.keyboard.type(text);
-  }
-  await page.keyboard.press("Enter");
-}
 
 test("an engineer adds a spread on the baseline, runs the spread analysis from the helm and reads the yield table", async ({ page }) => {
   await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);
