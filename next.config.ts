@@ -1,4 +1,5 @@
 import type { NextConfig } from "next";
+import { API_CONTENT_SECURITY_POLICY, STATIC_SECURITY_HEADERS } from "./lib/base/security-headers";
 
 const nextConfig: NextConfig = {
   // No "X-Powered-By: Next.js": it only tells an attacker what to try.
@@ -7,16 +8,13 @@ const nextConfig: NextConfig = {
   experimental: {
     serverActions: { bodySizeLimit: "2mb" },
   },
-  // The static files the proxy skips still get the plain security headers (proxy.ts sets them, and the CSP, elsewhere).
+  // What the proxy skips still gets the security headers (proxy.ts sets them, with a nonce'd CSP, on
+  // pages): the API its fixed deny-all CSP, the hashed static files the plain ones.
   async headers() {
     return [
-      {
-        source: "/_next/static/:path*",
-        headers: [
-          { key: "X-Content-Type-Options", value: "nosniff" },
-          { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
-        ],
-      },
+      { source: "/api", headers: [{ key: "Content-Security-Policy", value: API_CONTENT_SECURITY_POLICY }, ...STATIC_SECURITY_HEADERS] },
+      { source: "/api/:path*", headers: [{ key: "Content-Security-Policy", value: API_CONTENT_SECURITY_POLICY }, ...STATIC_SECURITY_HEADERS] },
+      { source: "/_next/static/:path*", headers: [...STATIC_SECURITY_HEADERS] },
     ];
   },
 };

@@ -1,4 +1,4 @@
-import Link from "next/link";
+import { IntentLink as Link } from "@/components/ui/intent-link";
 import type { ReactNode } from "react";
 import { NavLinks, type NavLink } from "./nav-links";
 import { ThemeToggle } from "./theme-toggle";

@@ -1,7 +1,7 @@
 "use client";
 
 import { useEffect, useId, useRef, useState } from "react";
-import Link from "next/link";
+import { IntentLink as Link } from "@/components/ui/intent-link";
 import { ChevronDown, LogOut } from "lucide-react";
 import { cn } from "@/components/ui/cn";
 

@@ -8,6 +8,7 @@ import { runWithTokenScope, type TokenScope } from "@/lib/server/auth/token-scop
 import { getEnv } from "@/lib/base/env";
 import { claimedOrigin, isAllowedOrigin } from "@/lib/base/origins";
 import { AppError, isAppError } from "@/lib/base/errors";
+import { STRICT_TRANSPORT_SECURITY } from "@/lib/base/security-headers";
 
 /** Default limit for JSON request bodies. */
 export const DEFAULT_BODY_LIMIT_BYTES = 64 * 1024;
@@ -231,6 +232,8 @@ export function apiRoute<P extends Record<string, string> = Record<string, never
       }
     }
     for (const cookie of cookies) response.headers.append("set-cookie", cookie.serialize());
+    // the other security headers of the API come from next.config.ts (lib/base/security-headers.ts)
+    if (getEnv().originPolicy.appOrigin.startsWith("https:")) response.headers.set("strict-transport-security", STRICT_TRANSPORT_SECURITY);
     return response;
   };
 }

@@ -26,7 +26,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Ben
   const smtp = await freePort();
   const dir = mkdtempSync(path.join(os.tmpdir(), "portolan-bench-"));
   const url = `http://127.0.0.1:${port}`;
-  const child: ChildProcess = spawn(process.execPath, [path.resolve("node_modules/next/dist/bin/next"), "start", "-p", String(port), "-H", "127.0.0.1"], {
+  const child: ChildProcess = spawn(process.execPath, [...(process.env.BENCH_NODE_ARGS ?? "").split(" ").filter(Boolean), path.resolve("node_modules/next/dist/bin/next"), "start", "-p", String(port), "-H", "127.0.0.1"], {
     env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1", DATABASE_URL: `file:${path.join(dir, "bench.db")}`, APP_URL: url, SEED_DEMO: "1", FAKE_SMTP_PORT: String(smtp), ...env },
     stdio: ["ignore", "pipe", "pipe"],
   });
