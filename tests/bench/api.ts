@@ -14,7 +14,13 @@ import { startServer } from "./app/server";
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
 
-type Result = { requests: { average: number }; latency: { p50: number; p99: number; max: number }; non2xx: number; errors: number; timeouts: number };
+type Result = { requests: { average: number }; latency: { p50: number; p99: number; max: number }; non2xx: number; errors: number; timeouts: number; statusCodeStats?: Record<string, { count: number }> };
+
+/** " (429 ×3, 503 ×1)": which statuses the non-2xx answers were. */
+function statuses(r: Result): string {
+  const bad = Object.entries(r.statusCodeStats ?? {}).filter(([code]) => !code.startsWith("2"));
+  return bad.length ? ` (${bad.map(([code, { count }]) => `${code} ×${count}`).join(", ")})` : "";
+}
 
 function run(opts: autocannon.Options): Promise<Result> {
   return new Promise((resolve, reject) => {
@@ -24,7 +30,7 @@ function run(opts: autocannon.Options): Promise<Result> {
 
 function row(name: string, r: Result, target?: { rps: number; p99: number }): string {
   const verdict = target ? (r.requests.average >= target.rps && r.latency.p99 <= target.p99 ? "PASS" : "MISS") : "";
-  return `${name.padEnd(44)} ${r.requests.average.toFixed(0).padStart(7)} req/s  p50 ${String(r.latency.p50).padStart(5)} ms  p99 ${String(r.latency.p99).padStart(5)} ms  non-2xx ${r.non2xx}  errors ${r.errors + r.timeouts}  ${verdict}`;
+  return `${name.padEnd(44)} ${r.requests.average.toFixed(0).padStart(7)} req/s  p50 ${String(r.latency.p50).padStart(5)} ms  p99 ${String(r.latency.p99).padStart(5)} ms  non-2xx ${r.non2xx}${statuses(r)}  errors ${r.errors + r.timeouts}  ${verdict}`;
 }
 
 const server = await startServer();
