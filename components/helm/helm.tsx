@@ -3,6 +3,7 @@
 import { Command } from "cmdk";
 import { usePathname, useRouter } from "next/navigation";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { loadExpressions } from "@/lib/browser/expressions";
 import useSWR from "swr";
 import { Compass } from "lucide-react";
 import type { RuleSpec } from "@/engine/types";
@@ -46,6 +47,11 @@ export function Helm() {
   const { data: scenariosData } = useSWR<{ scenarios: { id: string; name: string }[] }>(open && projectId ? `/api/projects/${projectId}/scenarios` : null, fetchJson);
   const { data: partsData } = useSWR<{ parts: { id: string; name: string; fileName: string }[] }>(open && projectId ? `/api/projects/${projectId}/parts` : null, fetchJson);
   const { data: rulesData } = useSWR<{ rules: { spec: RuleSpec }[] }>(open && projectId ? `/api/projects/${projectId}/rules` : null, fetchJson);
+
+  // the answers to commands are read as expressions ("2.4 GHz", "20 dBm"): have the reader ready by then
+  useEffect(() => {
+    if (open) void loadExpressions();
+  }, [open]);
 
   // where the focus was when the helm opened (Ctrl+K has no trigger button to return to)
   const returnFocus = useRef<HTMLElement | null>(null);

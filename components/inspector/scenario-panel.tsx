@@ -5,6 +5,7 @@ import { Plus, Trash2 } from "lucide-react";
 import type { Scenario } from "@/engine/types";
 import { Button, Input } from "@/components/ui";
 import { evaluateQuantity, reevaluateExpressions, resolveVariables, validateVariableName } from "@/lib/browser/expressions";
+import { useExpressionsReady } from "@/lib/browser/use-expressions-ready";
 import { formatNumber, formatSi } from "@/lib/browser/format";
 import type { ParamInput } from "@/lib/browser/param-input";
 import { ExpressionForm, type ExpressionFieldSpec } from "./expression-form";
@@ -103,11 +104,13 @@ function VariablesEditor({ scenario, readOnly, commit }: Omit<ScenarioPanelProps
     Object.entries(scenario.variables ?? {}).map(([name, v], k) => ({ key: k, name, text: String(v) })),
   );
   const [nextKey, setNextKey] = useState(rows.length);
+  const expressionsReady = useExpressionsReady();
   const resolved = useMemo(() => {
     const table: Record<string, string> = {};
     for (const r of rows) if (r.name) table[r.name] = r.text;
     return resolveVariables(table);
-  }, [rows]);
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- recomputed once mathjs has loaded
+  }, [rows, expressionsReady]);
 
   const save = (list: Row[]) => {
     const names = list.map((r) => r.name).filter(Boolean);

@@ -10,6 +10,7 @@ import { AddBlockPalette, ScenarioChart, CARD_WIDTH, type AddBlockChoice, type C
 import { BlockInspector, ScenarioPanel } from "@/components/inspector";
 import { ResultsPanel } from "@/components/results";
 import { resolveVariables } from "@/lib/browser/expressions";
+import { useExpressionsReady } from "@/lib/browser/use-expressions-ready";
 import { createHistory, recordEdit, redo, undo, type History } from "@/lib/browser/history";
 import {
   addBlock,
@@ -79,7 +80,9 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
   const [resetToken, setResetToken] = useState(0);
   const clipboard = useRef<Clipboard | null>(null);
   const solver = useSolver(scenario, parts);
-  const scope = useMemo(() => resolveVariables(scenario.variables).scope, [scenario.variables]);
+  const expressionsReady = useExpressionsReady();
+  // eslint-disable-next-line react-hooks/exhaustive-deps -- recomputed once mathjs has loaded
+  const scope = useMemo(() => resolveVariables(scenario.variables).scope, [scenario.variables, expressionsReady]);
 
   // the selection, restricted to what still exists (after undo, delete, rename)
   const live = useMemo<ChartSelection>(() => {

@@ -7,7 +7,7 @@
  * dB and dBm are not mathjs units: they are defined here as two new base units, so that dB/m · m gives
  * dB and dB never mixes with dBm. A plain number is taken in the field's unit.
  */
-import { all, create, type MathJsInstance } from "mathjs";
+import type { MathJsInstance } from "mathjs";
 import { formatNumber, formatSi } from "./format";
 
 /** What a parameter field holds, and so which units it accepts. */
@@ -22,9 +22,47 @@ export type VariableTable = Record<string, string | number>;
 type Engine = { math: MathJsInstance; evaluate: (text: string, scope: Map<string, unknown>) => unknown };
 
 let engine: Engine | undefined;
+let mathjs: typeof import("mathjs") | undefined;
+let loading: Promise<void> | undefined;
+const listeners = new Set<() => void>();
+
+/**
+ * Load mathjs (a large module: a separate chunk, so that the workspace's first paint does not wait for
+ * it). The workspace starts this right after its first render (useExpressionsReady); evaluation before
+ * it has arrived answers "still loading" instead of a value.
+ */
+export function loadExpressions(): Promise<void> {
+  loading ??= import("mathjs").then((module) => {
+    mathjs = module;
+    for (const listener of listeners) listener();
+  });
+  return loading;
+}
+
+/** Whether expressions can be evaluated now. */
+export function expressionsReady(): boolean {
+  return mathjs !== undefined;
+}
+
+/** Be told once mathjs has loaded (for useSyncExternalStore); returns the unsubscribe. */
+export function subscribeExpressionsReady(listener: () => void): () => void {
+  listeners.add(listener);
+  return () => listeners.delete(listener);
+}
+
+class ExpressionsLoading extends Error {
+  constructor() {
+    super("The expression reader is still loading; try again in a moment.");
+  }
+}
 
 function getEngine(): Engine {
   if (engine) return engine;
+  if (!mathjs) {
+    void loadExpressions();
+    throw new ExpressionsLoading();
+  }
+  const { all, create } = mathjs;
   const math = create(all, {});
   math.createUnit("dB");
   math.createUnit("dBm");
@@ -96,6 +134,7 @@ const IDENTIFIER = /^[A-Za-z_][A-Za-z0-9_]*$/;
 /** Why `name` cannot be a variable name (null when it can). */
 export function validateVariableName(name: string): string | null {
   if (!IDENTIFIER.test(name)) return "Use letters, digits and _ , starting with a letter or _.";
+  if (!expressionsReady()) return new ExpressionsLoading().message;
   const { math } = getEngine();
   if (math.Unit.isValuelessUnit(name)) return `${name} is a unit name; choose another name.`;
   if (name in math) return `${name} is a function or constant name; choose another name.`;
@@ -113,10 +152,19 @@ function prepareText(text: string): string {
  * @example resolveVariables({ L_feed: "0.35 m", L2: "2 * L_feed" }).scope.get("L2") // 0.7 m
  */
 export function resolveVariables(variables: VariableTable = {}): { scope: Map<string, unknown>; errors: Record<string, string> } {
-  const { evaluate } = getEngine();
   const scope = new Map<string, unknown>();
   const errors: Record<string, string> = {};
   let pending = Object.entries(variables);
+  // The workspace resolves the scope on its first render: without variables, building the mathjs
+  // instance (about a tenth of a second of the page's start, tests/bench/pages.ts) waits for a first expression.
+  if (pending.length === 0) return { scope, errors };
+  if (!expressionsReady()) {
+    void loadExpressions();
+    for (const [name, raw] of pending) if (typeof raw === "number") scope.set(name, raw);
+    for (const [name, raw] of pending) if (typeof raw !== "number") errors[name] = new ExpressionsLoading().message;
+    return { scope, errors };
+  }
+  const { evaluate } = getEngine();
   for (const [name] of pending) {
     const bad = validateVariableName(name);
     if (bad) errors[name] = bad;
@@ -192,6 +240,10 @@ function finishNumber(value: number, q: Quantity): Evaluated {
 export function evaluateQuantity(text: string, q: Quantity, scope: Map<string, unknown> = new Map()): Evaluated {
   const source = text.trim();
   if (source.length === 0) return { ok: false, error: "Enter a value." };
+  if (!expressionsReady()) {
+    void loadExpressions();
+    return { ok: false, error: new ExpressionsLoading().message };
+  }
   const { math, evaluate } = getEngine();
   let result: unknown;
   try {

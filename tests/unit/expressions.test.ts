@@ -1,6 +1,7 @@
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import {
   evaluateQuantity,
+  loadExpressions,
   quantityForParam,
   reevaluateExpressions,
   resolveVariables,
@@ -9,6 +10,9 @@ import {
 import type { Scenario } from "@/engine/types";
 import type { ParamInfo } from "@/engine/blocks/params";
 import { readParamInput, valueToText } from "@/lib/browser/param-input";
+
+// mathjs loads on demand (tests/unit/expressions-loading.test.ts covers the time before)
+beforeAll(() => loadExpressions());
 
 function value(text: string, q: Parameters<typeof evaluateQuantity>[1], scope?: Map<string, unknown>): number | [number, number] {
   const r = evaluateQuantity(text, q, scope);
