@@ -281,12 +281,35 @@ function ParamsSection({
       <ExpressionForm label={`Parameters of ${block.id}`} fields={fields} initial={initial} disabled={readOnly} onCommit={onCommit} />
       <p className="text-xs text-muted">
         Fields take expressions with units, e.g. <span className="font-mono">2.45 GHz</span>, <span className="font-mono">0.12 dB/m * 3 m</span>, or
-        project variables. Ports: {portLabelsOf(block, n).map((l, k) => `${k + 1} ${l}`).join(" · ")}
-        {block.kind === "switch" ? ` · throw ${block.state ?? 1} selected` : ""}
-        {typeof block.rating_dbm === "number" ? ` · rating ${formatNumber(block.rating_dbm)} dBm` : ""}
+        project variables.
+        {block.kind === "switch" ? ` Throw ${block.state ?? 1} selected.` : ""}
+        {typeof block.rating_dbm === "number" ? ` Rating ${formatNumber(block.rating_dbm)} dBm.` : ""}
       </p>
+      <PortNames blockId={block.id} labels={portLabelsOf(block, n)} />
     </div>
   );
 }
 
 
+
+/**
+ * The block's ports as a group of tags, number and name each ("1 input", "2 output"), which wraps
+ * between tags rather than inside a name (a run-on "1 input · 2 output · …" line broke mid-name).
+ */
+function PortNames({ blockId, labels }: { blockId: string; labels: string[] }) {
+  if (labels.length === 0) return null;
+  return (
+    <div className="flex flex-col gap-1">
+      <span className="text-xs font-semibold text-ink" id={`port-names-${blockId}`}>
+        Port names
+      </span>
+      <ul className="flex flex-wrap gap-1.5" aria-labelledby={`port-names-${blockId}`} data-testid="port-names">
+        {labels.map((label, k) => (
+          <li key={k} className="whitespace-nowrap rounded border border-rule bg-surface px-1.5 py-0.5 text-xs text-ink">
+            <span className="font-mono font-semibold">{k + 1}</span> {label}
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}
