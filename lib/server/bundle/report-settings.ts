@@ -75,7 +75,7 @@ export function sweepSection(results: BundleResults): string {
   const rows = sweep.rules
     .map((r) => {
       const unit = r.unit === "dBm" ? "dB" : (r.unit ?? "");
-      return `<tr><td>${verdictCell(r.worst_verdict)}</td><td class="mono">${escapeHtml(r.id)}</td><td>${r.source ? escapeHtml(RULE_SOURCE_LABELS[r.source]) : ""}</td><td class="num">${r.passing} of ${sweep.combinations}</td><td class="mono">${r.worst_states ? escapeHtml(settingText(blocks, r.worst_states)) : "—"}</td><td class="num">${num(r.worst)} ${escapeHtml(r.unit ?? "")}</td><td class="num">${r.worst_hz === null ? "—" : escapeHtml(formatHz(r.worst_hz))}</td><td class="num">${signed(r.worst_margin)} ${unit}</td><td class="num">${signed(r.shown_margin)} ${unit}</td></tr>`;
+      return `<tr><td>${r.worst_verdict ? verdictCell(r.worst_verdict) : `<span class="muted">not judged</span>`}</td><td class="mono">${escapeHtml(r.id)}</td><td>${r.source ? escapeHtml(RULE_SOURCE_LABELS[r.source]) : ""}</td><td class="num">${r.passing} of ${sweep.combinations}</td><td class="mono">${r.worst_states ? escapeHtml(settingText(blocks, r.worst_states)) : "—"}</td><td class="num">${num(r.worst)} ${escapeHtml(r.unit ?? "")}</td><td class="num">${r.worst_hz === null ? "—" : escapeHtml(formatHz(r.worst_hz))}</td><td class="num">${signed(r.worst_margin)} ${unit}</td><td class="num">${signed(r.shown_margin)} ${unit}</td></tr>`;
     })
     .join("");
   const failing =
