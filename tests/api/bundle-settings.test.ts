@@ -116,7 +116,7 @@ describe("switch settings in an exported bundle", () => {
     const report = files.get("report.html")!;
     expect(report).toContain('data-testid="sweep-headline"');
     expect(report).toContain("Not shown to hold in every switch setting.");
-    expect(report).toContain("For the switch setting shown only (TR=1 ASW=1)");
+    expect(report).toContain("This verdict is for the setting shown (TR=1 ASW=1) only");
     expect(report).toContain("<h2>State sweep: every switch setting</h2>");
     expect(report).toContain("<h2>Drive check</h2>");
     expect(report).toContain("<h2>Switch setting judged</h2>");

@@ -55,7 +55,7 @@ test("the reviewer opens report.html from a bundle and reads the switch setting,
   // the headline answers "does it pass in every switch setting": here only in the one shown
   const headline = page.getByTestId("sweep-headline");
   await expect(headline).toContainText("Not shown to hold in every switch setting.");
-  await expect(headline).toContainText("For the switch setting shown only (TR=1 ASW=1)");
+  await expect(headline).toContainText("This verdict is for the setting shown (TR=1 ASW=1) only");
   await testInfo.attach("report-headline", { body: await page.screenshot(), contentType: "image/png" });
 
   const setting = page.locator("table", { has: page.getByRole("columnheader", { name: "Throw selected" }) });

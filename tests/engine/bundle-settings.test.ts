@@ -5,6 +5,7 @@ import { checksCsv, computeBundleResults, reproduceBundle, settingText, type Che
 import { effectiveRuleSet, judgingRules, stateSweep } from "@/engine/checks";
 import { executeCheck } from "@/lib/domain/checks/execute";
 import { parseScenario } from "@/engine/scenario";
+import { sweepHeadline } from "@/lib/server/bundle/report-settings";
 
 // A 3 dB pad into a single-pole double-throw switch (0.5 dB loss, 30 dB isolation, absorptive), every
 // part matched. TX drives the pad; throw 1 goes to the system port A, throw 2 to a rated load LB. In
@@ -147,5 +148,22 @@ describe("switch settings in a bundle", () => {
     expect(differs.reproduced).toBe(false);
     expect(differs.items.filter((i) => !i.same).map((i) => i.name)).toEqual(expect.arrayContaining(["switch settings", "sweep:tx-a-loss", "manifest switch settings"]));
     expect(settingText(["TR", "ASW"], [2, 1])).toBe("TR=2 ASW=1");
+  });
+});
+
+describe("the report's headline: does the verdict hold in every switch setting", () => {
+  const headline = (state: 1 | 2, rules: unknown[]) => sweepHeadline(computeBundleResults(padSwitch(state, rules), {}))!;
+
+  it("holds when the rules pass in both settings, and when they fail in both", () => {
+    expect(headline(1, [{ ...LOSS, max_db: 40 }])).toMatchObject({ holds: true, title: "Holds in every switch setting." });
+    // the drive rule fails in both settings (PAD takes 10 dBm against its 9.8 dBm rating whatever the switch does)
+    expect(headline(1, [DRIVE])).toMatchObject({ holds: true, title: "Fails in every switch setting." });
+  });
+
+  it("says the verdict is for the setting shown only when another setting fails, or differs when the shown one fails", () => {
+    const passShown = headline(1, [LOSS]);
+    expect(passShown).toMatchObject({ holds: false, title: "Not shown to hold in every switch setting." });
+    expect(passShown.text).toBe("This verdict is for the setting shown (SW=1) only: the rules pass in 1 of 2 switch settings and fail in 1; the worst is tx-a-loss in SW=2 (margin −29.00 dB).");
+    expect(headline(2, [LOSS])).toMatchObject({ holds: false, title: "Differs between switch settings." });
   });
 });

@@ -25,30 +25,36 @@ function shownText(results: BundleResults): string {
   return settingText(sws.map((s) => s.block), sws.map((s) => s.state));
 }
 
-/** What the sweep says about the verdict's reach, in one sentence (null when the bundle has no sweep). */
-export function sweepHeadline(results: BundleResults): { holds: boolean; text: string } | null {
+/**
+ * Whether the verdict holds in every switch setting, as a title and one sentence (null when the bundle has
+ * no sweep). "Holds" is about the verdict: rules that fail in every setting hold too (they fail everywhere).
+ */
+export function sweepHeadline(results: BundleResults): { holds: boolean; title: string; text: string } | null {
   const sweep = results.checks.sweep;
   if (!sweep) return null;
   const shown = shownText(results);
-  if (sweep.not_run) return { holds: false, text: `For the switch setting shown only (${shown}): the state sweep was not run (${sweep.not_run}).` };
-  if (sweep.switches.length === 0) return { holds: true, text: "The scenario has no switches, so this verdict covers its only setting." };
-  if (sweep.rules.length === 0) return { holds: false, text: `For the switch setting shown only (${shown}): there are no rules to judge the other settings by.` };
+  const only = "Shown for one switch setting only.";
+  if (sweep.not_run) return { holds: false, title: only, text: `This verdict is for the setting shown (${shown}): the state sweep was not run (${sweep.not_run}).` };
+  if (sweep.switches.length === 0) return { holds: true, title: "Holds in the only setting.", text: "The scenario has no switches, so this verdict covers its only setting." };
+  if (sweep.rules.length === 0) return { holds: false, title: only, text: `This verdict is for the setting shown (${shown}): there are no rules to judge the other settings by.` };
   const n = sweep.combinations;
-  if (sweep.holds_in_every_setting) return { holds: true, text: `The rules pass in every switch setting the scenario allows (${n} of ${n}), not only in the one shown (${shown}).` };
+  const shownFails = results.checks.rules.some((r) => r.verdict === "fail");
+  if (sweep.holds_in_every_setting) return { holds: true, title: "Holds in every switch setting.", text: `The rules pass in every switch setting the scenario allows (${n} of ${n}), not only in the one shown (${shown}).` };
+  if (shownFails && sweep.failing === n) return { holds: true, title: "Fails in every switch setting.", text: `The rules fail in every switch setting the scenario allows (${n} of ${n}), not only in the one shown (${shown}).` };
   const worst = [...sweep.rules].filter((r) => r.worst_margin !== null).sort((a, b) => (a.worst_margin ?? 0) - (b.worst_margin ?? 0))[0];
   const blocks = sweep.switches.map((s) => s.block);
   const where = worst?.worst_states ? `; the worst is ${worst.id} in ${settingText(blocks, worst.worst_states)} (margin ${signed(worst.worst_margin)} dB)` : "";
-  return {
-    holds: false,
-    text: `For the switch setting shown only (${shown}): the rules pass in ${sweep.passing} of ${n} switch settings, and fail in ${sweep.failing}${sweep.warning > 0 ? `, warn in ${sweep.warning}` : ""}${sweep.unsolved > 0 ? `, do not solve in ${sweep.unsolved}` : ""}${where}.`,
-  };
+  const others = `the rules pass in ${sweep.passing} of ${n} switch settings and fail in ${sweep.failing}${sweep.warning > 0 ? `, warn in ${sweep.warning}` : ""}${sweep.unsolved > 0 ? `, do not solve in ${sweep.unsolved}` : ""}${where}.`;
+  return shownFails
+    ? { holds: false, title: "Differs between switch settings.", text: `The rules fail in the setting shown (${shown}), but ${others}` }
+    : { holds: false, title: "Not shown to hold in every switch setting.", text: `This verdict is for the setting shown (${shown}) only: ${others}` };
 }
 
 /** The headline box under the report's title. */
 export function sweepHeadlineHtml(results: BundleResults): string {
   const h = sweepHeadline(results);
   if (!h) return "";
-  return `<p class="reach ${h.holds ? "reach-all" : "reach-one"}" data-testid="sweep-headline"><strong>${h.holds ? "Holds in every switch setting." : "Not shown to hold in every switch setting."}</strong> ${escapeHtml(h.text)}</p>`;
+  return `<p class="reach ${h.holds ? "reach-all" : "reach-one"}" data-testid="sweep-headline"><strong>${escapeHtml(h.title)}</strong> ${escapeHtml(h.text)}</p>`;
 }
 
 /** The switch setting every verdict of the report was judged in. */
