@@ -37,6 +37,8 @@ export const metadata: Metadata = {
   title: { default: "Portolan", template: "%s · Portolan" },
   description: "Integration checks for RF front ends built from N-port parts: isolation, match, leak paths, power and drive levels.",
   applicationName: "Portolan",
+  // favicon.ico (16, 32, 48 px; scripts/make-favicon.mjs) for browsers that ask for it, the SVG for those that scale
+  icons: { icon: [{ url: "/favicon.ico", sizes: "16x16 32x32 48x48" }, { url: "/icon.svg", type: "image/svg+xml" }], apple: "/icon-192.png" },
 };
 
 export const viewport: Viewport = {

@@ -8,6 +8,9 @@ import { evaluateQuantity } from "@/lib/browser/expressions";
 import { readParamInput, valueToText } from "@/lib/browser/param-input";
 import {
   findPart,
+  formatPortRef,
+  linkedPeer,
+  systemPortAt,
   getBlock,
   portCountOf,
   renameBlock,
@@ -281,12 +284,44 @@ function ParamsSection({
       <ExpressionForm label={`Parameters of ${block.id}`} fields={fields} initial={initial} disabled={readOnly} onCommit={onCommit} />
       <p className="text-xs text-muted">
         Fields take expressions with units, e.g. <span className="font-mono">2.45 GHz</span>, <span className="font-mono">0.12 dB/m * 3 m</span>, or
-        project variables. Ports: {portLabelsOf(block, n).map((l, k) => `${k + 1} ${l}`).join(" · ")}
-        {block.kind === "switch" ? ` · throw ${block.state ?? 1} selected` : ""}
-        {typeof block.rating_dbm === "number" ? ` · rating ${formatNumber(block.rating_dbm)} dBm` : ""}
+        project variables.
+        {block.kind === "switch" ? ` Throw ${block.state ?? 1} selected.` : ""}
+        {typeof block.rating_dbm === "number" ? ` Rating ${formatNumber(block.rating_dbm)} dBm.` : ""}
       </p>
+      <PortNames scenario={scenario} blockId={block.id} labels={portLabelsOf(block, n)} />
     </div>
   );
 }
 
 
+
+/**
+ * The block's ports as a group of tags, each with its number, its name where the kind names it
+ * ("input", "throw 2") and what it meets (a link, a system port, or nothing). Wraps between tags rather
+ * than inside one: the run-on "Ports: 1 1 · 2 2" line of a filter read as noise.
+ */
+function PortNames({ scenario, blockId, labels }: { scenario: Scenario; blockId: string; labels: string[] }) {
+  if (labels.length === 0) return null;
+  return (
+    <div className="flex flex-col gap-1">
+      <span className="text-xs font-semibold text-ink" id={`port-names-${blockId}`}>
+        Port names
+      </span>
+      <ul className="flex flex-wrap gap-1.5" aria-labelledby={`port-names-${blockId}`} data-testid="port-names">
+        {labels.map((label, k) => {
+          const ref = formatPortRef(blockId, k + 1);
+          const peer = linkedPeer(scenario, ref);
+          const sys = systemPortAt(scenario, ref);
+          const named = label !== String(k + 1);
+          return (
+            <li key={ref} className="whitespace-nowrap rounded border border-rule bg-surface px-1.5 py-0.5 text-xs text-ink">
+              <span className="font-mono font-semibold">{k + 1}</span>
+              {named ? ` ${label}` : ""}
+              {peer ? ` → ${peer}` : sys ? ` = ${sys.name}` : " (free)"}
+            </li>
+          );
+        })}
+      </ul>
+    </div>
+  );
+}

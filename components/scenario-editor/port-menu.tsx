@@ -3,6 +3,7 @@
 import { useEffect, useRef } from "react";
 import type { PortRef, Scenario } from "@/engine/types";
 import { linkedPeer, systemPortAt } from "@/lib/browser/scenario-model";
+import { portLabelsOf } from "@/lib/browser/catalogue";
 
 export type PortMenuAction = "mark" | "unmark" | "unlink" | "inspect";
 
@@ -20,6 +21,7 @@ export function PortMenu({ scenario, refId, anchor, readOnly, onAction, onClose 
   const box = useRef<HTMLDivElement>(null);
   const sys = systemPortAt(scenario, refId);
   const peer = linkedPeer(scenario, refId);
+  const name = portName(scenario, refId);
 
   useEffect(() => {
     box.current?.querySelector<HTMLButtonElement>("button:not([disabled])")?.focus();
@@ -42,7 +44,7 @@ export function PortMenu({ scenario, refId, anchor, readOnly, onAction, onClose 
     <div
       ref={box}
       role="menu"
-      aria-label={`Port ${refId}`}
+      aria-label={name ? `Port ${refId} (${name})` : `Port ${refId}`}
       className="fixed z-50 min-w-52 rounded-card border-[1.5px] border-ink bg-surface p-1 shadow-lg"
       style={{ left: anchor.x + 4, top: anchor.y + 4 }}
       onKeyDown={(e) => {
@@ -53,7 +55,10 @@ export function PortMenu({ scenario, refId, anchor, readOnly, onAction, onClose 
         items[(at + (e.key === "ArrowDown" ? 1 : items.length - 1)) % items.length]?.focus();
       }}
     >
-      <p className="px-3 py-1 font-mono text-xs text-muted">{refId}</p>
+      <p className="px-3 py-1 text-xs text-ink">
+        <span className="font-mono">{refId}</span>
+        {name ? <span className="ml-1.5 whitespace-nowrap rounded border border-rule px-1.5 py-0.5">{name}</span> : null}
+      </p>
       {sys ? (
         <button type="button" role="menuitem" className={item} disabled={readOnly} onClick={() => onAction("unmark")}>
           Unmark system port {sys.name}
@@ -73,4 +78,13 @@ export function PortMenu({ scenario, refId, anchor, readOnly, onAction, onClose 
       </button>
     </div>
   );
+}
+
+/** The catalogue's name of a port ("output", "throw 2"); parts number their ports, so they have none beyond it. */
+function portName(scenario: Scenario, refId: PortRef): string | null {
+  const [blockId, portText] = [refId.slice(0, refId.lastIndexOf(":")), refId.slice(refId.lastIndexOf(":") + 1)];
+  const block = scenario.blocks.find((b) => b.id === blockId);
+  if (!block || block.kind === "touchstone") return null;
+  const label = portLabelsOf(block, 0)[Number(portText) - 1];
+  return label && label !== portText ? label : null;
 }

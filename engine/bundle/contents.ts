@@ -12,6 +12,7 @@ import { writeCompositeTouchstone } from "../touchstone";
 import { EngineInputError, type Scenario, type Solution } from "../types";
 import { ENGINE_VERSION } from "../version";
 import { BUNDLE_PATHS, BundleError, checkEntryName, hashRuleSet } from "./format";
+import { bundleSweep, driveTables, settingsCsvRows, shownSettingText, switchSettings, type DriveTable, type SweepSummary, type SwitchSetting } from "./settings";
 
 /** Format name of results/checks.json. */
 export const CHECKS_FORMAT = "portolan.checks/1";
@@ -57,6 +58,12 @@ export type ChecksDocument = {
   lineups?: { rule: string; from: string; to: string; lineup: LineupResult | null; error?: string }[];
   /** the revision's current stored spread analysis (same rule set and engine), when it has one */
   spread?: SpreadSummary;
+  /** the switch setting every verdict above was judged in (absent in bundles written before it was recorded) */
+  switch_states?: SwitchSetting[];
+  /** the state sweep: the same rules judged in every switch setting the scenario allows (engine/bundle/settings.ts) */
+  sweep?: SweepSummary;
+  /** the drive check table of each drive rule, rows ordered by urgency */
+  drive?: DriveTable[];
 };
 
 /** A spread analysis as a bundle carries it: its samples and seed (to repeat it) and each rule's yield. */
@@ -199,10 +206,12 @@ export function computeBundleResults(content: unknown, parts: Record<string, str
     }
   }
   const rule_set: BundleRuleSet = { sha256: hashRuleSet(set), rules: set.rules, opted_out: set.opted_out };
+  // the setting judged, every other setting the switches allow, and the drive tables (settings.ts)
+  const settings = { switch_states: switchSettings(solution), sweep: bundleSweep(solution, rules, results.rules, set), drive: driveTables(results.rules) };
   return {
     scenario,
     solution,
-    checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, engine_version: ENGINE_VERSION, rule_set, rules: ruleVerdicts(set, results), waivers, results, leaks, ...(lineups.length > 0 ? { lineups } : {}), ...(spread ? { spread } : {}) },
+    checks: { format: CHECKS_FORMAT, scenario: scenario.name, verdict: results.verdict, engine_version: ENGINE_VERSION, rule_set, rules: ruleVerdicts(set, results), waivers, results, leaks, ...(lineups.length > 0 ? { lineups } : {}), ...(spread ? { spread } : {}), ...settings },
   };
 }
 
@@ -227,26 +236,29 @@ function csvCell(value: unknown): string {
 /**
  * results/checks.csv: one row per check with its verdict, and for rules their source (project, scenario
  * override, scenario only), the worst value, where, the limit and the margin; rules that could not run
- * and opted-out project rules follow with their reason; the overall verdict is the last row (RFC 4180
- * quoting).
+ * and opted-out project rules follow with their reason, then the state sweep's worst case per rule and the
+ * drive tables (settingsCsvRows); the overall verdict is the last row (RFC 4180 quoting). The last column
+ * names the switch setting each row was judged in.
  *
  * @param doc - the checks document
  * @returns CSV text with a header row
- * @example checksCsv(results.checks).split("\n")[0] // "check,source,title,verdict,quantity,unit,worst,worst_hz,limit,margin,message"
+ * @example checksCsv(results.checks).split("\n")[0] // "check,source,title,verdict,quantity,unit,worst,worst_hz,limit,margin,message,switch_states"
  */
 export function checksCsv(doc: ChecksDocument): string {
-  const rows: unknown[][] = [["check", "source", "title", "verdict", "quantity", "unit", "worst", "worst_hz", "limit", "margin", "message"]];
+  const rows: unknown[][] = [["check", "source", "title", "verdict", "quantity", "unit", "worst", "worst_hz", "limit", "margin", "message", "switch_states"]];
+  const shown = doc.switch_states ? shownSettingText(doc) : "";
   const rules = new Map(doc.results.rules.map((r) => [`rule:${r.id}`, r]));
   const sources = new Map((doc.rule_set?.rules ?? []).map((r) => [`rule:${r.id}`, r.source]));
   for (const c of doc.results.checks) {
     const r = rules.get(c.name);
-    rows.push([c.name, sources.get(c.name) ?? (r ? "scenario" : "built-in"), c.title, c.verdict, r?.quantity ?? "", r?.unit ?? "", r?.worst, r?.worstHz, r?.limit, r?.margin, c.messages[0] ?? ""]);
+    rows.push([c.name, sources.get(c.name) ?? (r ? "scenario" : "built-in"), c.title, c.verdict, r?.quantity ?? "", r?.unit ?? "", r?.worst, r?.worstHz, r?.limit, r?.margin, c.messages[0] ?? "", shown]);
   }
   for (const r of doc.rules ?? []) {
-    if (r.verdict === "not run") rows.push([`rule:${r.id}`, r.source, "", "not run", "", "", "", "", "", "", r.message]);
+    if (r.verdict === "not run") rows.push([`rule:${r.id}`, r.source, "", "not run", "", "", "", "", "", "", r.message, ""]);
   }
-  for (const o of doc.rule_set?.opted_out ?? []) rows.push([`rule:${o.id}`, "project", "", "opted out", "", "", "", "", "", "", o.reason]);
-  rows.push(["overall", "", "all rules and built-in checks", doc.verdict, "", "", "", "", "", "", ""]);
+  for (const o of doc.rule_set?.opted_out ?? []) rows.push([`rule:${o.id}`, "project", "", "opted out", "", "", "", "", "", "", o.reason, ""]);
+  rows.push(...settingsCsvRows(doc));
+  rows.push(["overall", "", "all rules and built-in checks", doc.verdict, "", "", "", "", "", "", "", shown]);
   return `${rows.map((row) => row.map(csvCell).join(",")).join("\r\n")}\r\n`;
 }
 

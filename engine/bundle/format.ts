@@ -64,6 +64,8 @@ export const BundleManifestSchema = z.object({
   project: z.object({ id: z.string(), name: z.string() }),
   scenario: z.object({ id: z.string(), name: z.string() }),
   revision: z.object({ id: z.string(), number: z.number().int(), content_hash: z.string() }),
+  /** the switch setting the verdicts were judged in (block, throws, selected throw); absent in older bundles */
+  switch_states: z.array(z.object({ block: z.string(), label: z.string().optional(), throws: z.number().int(), state: z.number().int() })).optional(),
   /** every other file of the bundle: its SHA-256 (hex, of the file's bytes) and size */
   files: z.record(z.string(), z.object({ sha256: sha256Hex, bytes: z.number().int().nonnegative() })),
 });

@@ -4,3 +4,4 @@ export { listZipEntries, inflateEntry, readZipSafely, type ZipEntryInfo } from "
 export { makeManifest, writeBundleZip, openBundle, BundleIntegrityError, type OpenedBundle } from "./bundle-zip";
 export { computeBundleResults, summariseSpread, compositeFile, checksCsv, bundleFiles, usedPartFiles, engineScenario, CHECKS_FORMAT, type ChecksDocument, type BundleResults, type RuleVerdict, type BundleWaiver, type BundleRuleSet, type SpreadSummary } from "./contents";
 export { reproduceBundle, FIGURE_TOLERANCE_DB, COMPOSITE_TOLERANCE, type ReproduceResult, type ReproducedItem } from "./reproduce";
+export { switchSettings, settingText, summariseSweep, bundleSweep, driveTables, combinationIndex, compareSettings, settingsCsvRows, SWEEP_LISTED_FAILURES, type SwitchSetting, type SweepSummary, type SweepRuleSummary, type DriveTable } from "./settings";

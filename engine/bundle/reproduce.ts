@@ -8,6 +8,7 @@ import { EngineInputError, SingularSystemError } from "../types";
 import { computeBundleResults, CHECKS_FORMAT, type ChecksDocument } from "./contents";
 import { CanonicalJsonError } from "../canonical-json";
 import { BUNDLE_PATHS, canonicalJson, hashRuleSet, sha256 } from "./format";
+import { compareSettings, settingText } from "./settings";
 import type { OpenedBundle } from "./bundle-zip";
 
 /** Largest difference of a rule figure (dB or dBm) still counted as the same result. */
@@ -128,6 +129,14 @@ export function reproduceBundle(bundle: OpenedBundle): ReproduceResult {
   }
   for (const name of storedChecks.keys()) {
     if (!seen.has(name)) items.push({ name, stored: storedChecks.get(name)!.verdict, rerun: "(absent)", same: false });
+  }
+  // the switch setting judged, the state sweep over every setting and the drive tables (settings.ts)
+  items.push(...compareSettings(stored, now, FIGURE_TOLERANCE_DB));
+  const manifestSetting = bundle.manifest.switch_states;
+  if (manifestSetting !== undefined) {
+    const a = settingText(manifestSetting.map((s) => s.block), manifestSetting.map((s) => s.state));
+    const b = settingText((now.switch_states ?? []).map((s) => s.block), (now.switch_states ?? []).map((s) => s.state));
+    items.push({ name: "manifest switch settings", stored: a, rerun: b, same: a === b });
   }
   // the composite: compare the stored Touchstone with the re-solved S
   let compositeMaxDiff: number | null = null;

@@ -10,6 +10,7 @@ export { kShortestPaths, createGraph, addEdge, type WeightedGraph, type RankedPa
 export { leakTrace, idealS, LEAK_EDGE_FLOOR, type LeakTraceResult, type LeakTraceOptions, type LeakPath, type LeakHop, type LeakWhatIf } from "./leak-trace";
 export { sliceS, sliceSystem } from "./slice-system";
 export { stateSweep, sweepSwitches, switchStates, combinationStates, countCombinations, ruleIndices, MAX_SWEEP_COMBINATIONS, type StateSweepResult, type SweepRow, type SweepCell } from "./state-sweep";
+export { orderDriveRows } from "./drive-order";
 export { driveCheck, defaultDriveSources, DRIVE_CAUTIONS, type DriveResult, type DriveOptions, type DriveSource, type DrivePortResult, type DriveBlockResult } from "./drive";
 export { stabilityOf, stabilityOfStack, stabilityCheck, PAIR_POINTS_PORT_LIMIT, type StabilityPoint, type StabilityResult } from "./stability";
 export { runAllChecks, worstVerdict, type AllChecksResult } from "./run-all";

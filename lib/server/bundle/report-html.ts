@@ -1,9 +1,11 @@
 // report.html of a bundle: one self-contained, printable page (inline CSS and SVG, system fonts, no
-// scripts, no external requests) with the verdicts, |S| traces, leak traces, power ledgers and cautions.
+// scripts, no external requests) with the verdicts, whether they hold in every switch setting (state sweep),
+// the drive check, |S| traces, leak traces, power ledgers and cautions.
 import { DRIVE_CAUTIONS, formatHz, RULE_SOURCE_LABELS } from "@/engine/checks";
 import { ruleText } from "@/lib/domain/rules/describe";
 import type { BundleManifest, BundleResults } from "@/engine/bundle";
 import { escapeHtml, svgPlot, type PlotTrace } from "./svg-plot";
+import { driveSection, SETTINGS_CSS, sweepHeadlineHtml, sweepSection, switchSection } from "./report-settings";
 
 export type ReportInput = {
   identity: Omit<BundleManifest, "files" | "format">;
@@ -222,9 +224,10 @@ export function renderReportHtml({ identity, results, files }: ReportInput): str
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
 <title>${escapeHtml(identity.scenario.name)}: revision ${identity.revision.number} (Portolan review bundle)</title>
-<style>${CSS}</style></head>
+<style>${CSS}${SETTINGS_CSS}</style></head>
 <body><main>
 <h1>${escapeHtml(identity.scenario.name)}, revision ${identity.revision.number}: ${verdictCell(all.verdict)}</h1>
+${sweepHeadlineHtml(results)}
 <p class="muted">Portolan review bundle (${escapeHtml(identity.app.name)} ${escapeHtml(identity.app.version)})</p>
 <dl>
 <dt>Project</dt><dd>${escapeHtml(identity.project.name)}</dd>
@@ -238,9 +241,12 @@ export function renderReportHtml({ identity, results, files }: ReportInput): str
 <h2>Rules judged by</h2>
 ${ruleSetSection(results)}
 ${waiverSection(results)}
+${switchSection(results)}
 <h2>Verdicts</h2>
 ${verdictTable(results)}
 ${warnings}
+${sweepSection(results)}
+${driveSection(results)}
 <h2>Traces</h2>
 ${tracesSection(results)}
 <h2>Leak traces of the isolation rules</h2>

@@ -119,8 +119,10 @@ async function bundleTask(task: Extract<JobTask, { kind: "bundle" }>): Promise<J
   const results = computeBundleResults(task.content, task.parts, task.ruleSet, task.waivers, task.spread);
   const files = bundleFiles(task.content, task.parts, results);
   const hashes = [...files].map(([path, text]) => ({ path, sha256: sha256(text) }));
-  files.set(BUNDLE_PATHS.report, renderReportHtml({ identity: task.identity, results, files: hashes }));
-  const bytes = await writeBundleZip(task.identity, files);
+  // the manifest names the switch setting the verdicts were judged in, beside the revision
+  const identity = { ...task.identity, switch_states: results.checks.switch_states };
+  files.set(BUNDLE_PATHS.report, renderReportHtml({ identity, results, files: hashes }));
+  const bytes = await writeBundleZip(identity, files);
   return { ok: true, kind: "bundle", bytes, verdict: results.checks.verdict, rulesHash: results.checks.rule_set.sha256 };
 }
 
