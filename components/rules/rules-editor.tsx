@@ -1,12 +1,14 @@
 "use client";
 
-import { useState } from "react";
+import { useState, type FormEvent } from "react";
 import useSWR from "swr";
 import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { RuleSpec } from "@/engine/types";
 import { Alert, Button, ConfirmButton, Field, Input, Select } from "@/components/ui";
 import { ApiError, fetchJson, requestJson } from "@/lib/browser/api-client";
+import { loadExpressions } from "@/lib/browser/expressions";
+import { useExpressionsReady } from "@/lib/browser/use-expressions-ready";
 import { SortableTable, type SortColumn } from "@/components/ui/sortable-table";
 import { describeRule as describe } from "@/lib/domain/rules/describe";
 import { RULE_KIND_LABELS, RULE_KINDS } from "@/lib/domain/rules/schema";
@@ -169,7 +171,10 @@ export function RuleFormPanel({
   const matchBy = useWatch({ control, name: "matchBy" });
   const err = (k: keyof RuleFormValues) => formState.errors[k]?.message;
 
-  const submit = handleSubmit(async (values) => {
+  // bands and levels are read as expressions ("2.4 GHz to 2.48 GHz", "-20 dBm"): load the reader with
+  // the form, and have it before the form is judged
+  useExpressionsReady();
+  const submitForm = handleSubmit(async (values) => {
     const r = specFromForm(values);
     if (!r.ok) return;
     const res = await onSubmit(r.spec);
@@ -184,6 +189,10 @@ export function RuleFormPanel({
       }
     }
   });
+  const submit = (event: FormEvent<HTMLFormElement>) => {
+    event.preventDefault();
+    void loadExpressions().then(() => submitForm());
+  };
 
   const limitLabel =
     kind === "isolation"

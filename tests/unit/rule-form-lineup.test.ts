@@ -1,7 +1,11 @@
 // The rules form for the line-up rule kinds (noise_figure, gain, headroom): form → spec → form round trips,
 // and per-field messages for what is missing.
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { EMPTY_RULE_FORM, formFromSpec, specFromForm } from "@/components/rules/rule-form";
+import { loadExpressions } from "@/lib/browser/expressions";
+
+// the expression reader (mathjs) loads on demand
+beforeAll(() => loadExpressions());
 
 describe("rules form: noise figure, gain, headroom", () => {
   it("turns typed values into the engine's rules and back", () => {
