@@ -7,6 +7,7 @@ import { hashScenarioContent, insertRevision, type RevisionDetail } from "@/db/q
 import { parts, scenarios } from "@/db/schema";
 import { BundleError, engineScenario, openBundle, usedPartFiles, type BundleManifest } from "@/engine/bundle";
 import { parseScenario } from "@/engine/scenario";
+import { parsePinnedPartPath, pinnedPartPath } from "@/engine/system/parts";
 import { EngineInputError } from "@/engine/types";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
@@ -91,7 +92,7 @@ export async function importBundle({ actor, projectId, bytes }: { actor: Session
     throw error;
   }
   for (const file of used) {
-    const fileName = file.slice("parts/".length);
+    const fileName = parsePinnedPartPath(file).file.slice("parts/".length);
     const text = bundle.parts[file];
     if (text === undefined) throw new AppError("unprocessable", 422, `scenario.json uses ${file}, which the bundle does not contain.`, { entry: file });
     if (!PART_FILE_NAME_PATTERN.test(fileName)) throw new AppError("unprocessable", 422, `Entry "${file}" is not a Touchstone file name (.s1p … .sNp or .ts).`, { entry: file });
@@ -104,24 +105,37 @@ export async function importBundle({ actor, projectId, bytes }: { actor: Session
     await authorize({ userId: actor.id, projectId, action: "scenario.create", executor: tx });
     await authorize({ userId: actor.id, projectId, action: "part.upload", executor: tx });
     const imported: ImportedPart[] = [];
-    const renames = new Map<string, string>();
+    // bundle path (pinnedPartPath) → the project's file name and version the blocks will pin
+    const targets = new Map<string, { fileName: string; version: number }>();
     for (const file of used) {
-      const fileName = file.slice("parts/".length);
+      const fileName = parsePinnedPartPath(file).file.slice("parts/".length);
       const text = bundle.parts[file];
-      const [existing] = await tx
-        .select({ text: parts.text })
+      const existing = await tx
+        .select({ text: parts.text, partVersion: parts.partVersion })
         .from(parts)
         .where(and(eq(parts.projectId, projectId), eq(parts.fileName, fileName)));
-      if (existing && existing.text === text) {
+      const same = existing.find((row) => row.text === text);
+      if (same) {
+        targets.set(file, { fileName, version: same.partVersion });
         imported.push({ fileName, reused: true, renamedFrom: null });
         continue;
       }
-      const target = existing ? await freePartName(tx, projectId, fileName) : fileName;
-      if (target !== fileName) renames.set(file, `parts/${target}`);
+      // another text under a taken name (another project's part, or another version of it): a new part
+      const target = existing.length > 0 ? await freePartName(tx, projectId, fileName) : fileName;
+      targets.set(file, { fileName: target, version: 1 });
       await createPart({ actor, projectId, name: partStem(target)[0], fileName: target, text, executor: tx });
       imported.push({ fileName: target, reused: false, renamedFrom: target === fileName ? null : fileName });
     }
-    const stored: DraftScenario = renames.size === 0 ? content : { ...content, blocks: content.blocks.map((b) => (b.file && renames.has(b.file) ? { ...b, file: renames.get(b.file) } : b)) };
+    const retarget = (b: DraftScenario["blocks"][number]) => {
+      if (b.kind !== "touchstone" || b.data !== undefined || typeof b.file !== "string") return b;
+      const to = targets.get(pinnedPartPath(b.file, b.part_version));
+      if (!to || (`parts/${to.fileName}` === b.file && to.version === (b.part_version ?? 1))) return b;
+      const { part_version: _pinned, ...rest } = b;
+      void _pinned;
+      return { ...rest, file: `parts/${to.fileName}`, ...(to.version > 1 ? { part_version: to.version } : {}) };
+    };
+    const moved = content.blocks.some((b) => retarget(b) !== b);
+    const stored: DraftScenario = moved ? { ...content, blocks: content.blocks.map(retarget) } : content;
     const scenarioId = randomUUID();
     // The name says where the scenario came from (not a second "Baseline"). The stored file takes the
     // new name (it follows the scenario's), so "arrived intact" compares the content under its old name.
