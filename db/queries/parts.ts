@@ -1,6 +1,6 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, eq, getTableColumns, inArray, sql } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
 import { parts, scenarioRevisions, scenarios, users, type Part } from "@/db/schema";
 import { parseTouchstone, TouchstoneError, type TouchstoneData } from "@/engine/touchstone";
@@ -308,14 +308,26 @@ export async function deletePart({ actor, projectId, partId }: { actor: SessionU
   });
 }
 
-/** Every version of the part file `parts/<fileName>`, oldest first, without texts, with who uploaded each. */
-export async function listPartVersions({ userId, projectId, fileName }: { userId: string; projectId: string; fileName: string }) {
+/** One version of a part for its page: stored figures and verdicts, who uploaded it; no text, nothing parsed. */
+export type PartVersionRow = Omit<Part, "text" | "projectId" | "uploadedBy"> & PartVerdicts & { uploadedByName: string | null };
+
+/**
+ * The part file of row `partId` with every version of it, oldest first (anyone in the project). Reads only
+ * the figures stored at upload: the page never parses Touchstone text on the request's thread.
+ */
+export async function listPartVersions({ userId, projectId, partId }: { userId: string; projectId: string; partId: string }): Promise<{ fileName: string; versions: PartVersionRow[] }> {
   await authorize({ userId, projectId, action: "part.read" });
+  const [ref] = await db.select({ fileName: parts.fileName }).from(parts).where(and(eq(parts.id, partId), eq(parts.projectId, projectId)));
+  if (!ref) throw new AppError("not_found", 404, "Part not found.");
+  const { text: _text, projectId: _projectId, uploadedBy: _uploadedBy, ...columns } = getTableColumns(parts);
+  void _text;
+  void _projectId;
+  void _uploadedBy;
   const rows = await db
-    .select({ part: parts, uploader: users.name })
+    .select({ ...columns, uploadedByName: users.name })
     .from(parts)
     .leftJoin(users, eq(users.id, parts.uploadedBy))
-    .where(and(eq(parts.projectId, projectId), eq(parts.fileName, fileName)))
+    .where(and(eq(parts.projectId, projectId), eq(parts.fileName, ref.fileName)))
     .orderBy(asc(parts.partVersion));
-  return rows.map(({ part, uploader }) => ({ ...summarise(part, false), uploadedByName: uploader ?? null }));
+  return { fileName: ref.fileName, versions: rows.map((row) => ({ ...row, ...partVerdicts(row) })) };
 }

@@ -26,3 +26,9 @@ export type PartView = PartVerdicts & {
   /** in the list: texts of older versions asked for, keyed as blocks pin them (pinnedPartPath) */
   pinnedTexts?: Record<string, string>;
 };
+
+/** One version of a part on its page (figures stored at upload; no text). */
+export type PartVersionView = Omit<PartView, "preview" | "text" | "versions" | "pinnedTexts"> & { uploadedByName: string | null };
+
+/** A block of a scenario's latest revision that uses a part file, with the version it pins. */
+export type PartUseView = { scenarioId: string; scenarioName: string; blockId: string; partVersion: number };
