@@ -173,14 +173,17 @@ export async function createPartVersion({
   projectId,
   fileName,
   text,
+  uploadedName,
 }: {
   actor: SessionUser;
   projectId: string;
   fileName: string;
   text: string;
+  /** the chosen file's own name, when it is a Touchstone name: its extension says how a 1.1 text is read */
+  uploadedName?: string;
 }): Promise<PartSummaryRow> {
-  // read as the part's file name: its extension says how a Touchstone 1.1 text is read
-  const data = readPartText(text, fileName);
+  // stored and solved under the part's file name, so it must read the same under that name (same ports)
+  const data = readPartText(text, uploadedName ?? fileName);
   const figures = partFigures(data);
   return runInTransaction(async (tx) => {
     await authorize({ userId: actor.id, projectId, action: "part.upload", executor: tx });
@@ -199,6 +202,7 @@ export async function createPartVersion({
         file: `Expected ${latest.ports} ports, found ${data.ports}.`,
       });
     }
+    if (uploadedName !== undefined && uploadedName !== fileName) readPartText(text, fileName);
     const z0: [number, number][] = [];
     for (let p = 0; p < data.ports; p++) z0.push([data.z0[2 * p], data.z0[2 * p + 1]]);
     const row: Part = {

@@ -52,7 +52,8 @@ export const POST = apiRoute<Params>(async (ctx) => {
   if (newVersionOf !== null) {
     const target = parseWith(newVersionOfSchema, typeof newVersionOf === "string" ? { new_version_of: newVersionOf } : {});
     const text = new TextDecoder("utf-8", { fatal: false }).decode(await file.arrayBuffer());
-    const part = await createPartVersion({ actor: user, projectId: ctx.params.projectId, fileName: target.new_version_of, text });
+    const ownName = partFileNameSchema.safeParse("name" in file && typeof file.name === "string" ? file.name : "");
+    const part = await createPartVersion({ actor: user, projectId: ctx.params.projectId, fileName: target.new_version_of, text, ...(ownName.success ? { uploadedName: ownName.data } : {}) });
     return json({ part }, { status: 201 });
   }
   const fileName = parseWith(partFileNameSchema, "name" in file && typeof file.name === "string" ? file.name : "");
