@@ -52,7 +52,7 @@ test("an engineer uploads version 2 of a part, moves a block to it and reads the
   // version 2 from the part's row: the file chosen may have another name, the part keeps its own
   await page.reload();
   const row = page.getByRole("row").filter({ hasText: "e2e-pad.s2p" });
-  await row.getByLabel("New version of e2e-pad.s2p").setInputFiles({ name: "pad-vendor-rev-b.s2p", mimeType: "text/plain", buffer: Buffer.from(pad(0.25)) });
+  await row.getByLabel("New version of e2e-pad.s2p", { exact: true }).setInputFiles({ name: "pad-vendor-rev-b.s2p", mimeType: "text/plain", buffer: Buffer.from(pad(0.25)) });
   await expect(row.getByRole("status")).toContainText("Version 2 of e2e-pad.s2p");
   await expect(row.getByTestId("part-version-count")).toHaveText("version 2 · 2 versions");
   await shot(page, testInfo, "parts-list-with-version-2");
