@@ -49,7 +49,7 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
           </THead>
           <TBody>
             {list.map((p) => (
-              <Tr key={p.id} id={`part-${p.id}`} className="target:bg-sea/15">
+              <Tr key={p.fileName} id={`part-${p.id}`} className="target:bg-sea/15">
                 <Td>
                   <Link href={`/projects/${projectId}/parts/${p.id}`} className="font-medium text-ink underline decoration-rule-strong underline-offset-4 hover:decoration-ink">
                     {p.name}

@@ -40,14 +40,14 @@ export function describeVersionChanges(before: VersionFigures, after: VersionFig
   return out;
 }
 
-/** 20·log10|S_ij| at every data point (i, j 0-based; −300 dB where |S| is 0). */
+/** 20·log10|S_ij| at every data point (i, j 0-based; −∞ where |S| is 0, which a plot leaves out). */
 export function magnitudeDb(data: TouchstoneData, i: number, j: number): Float64Array {
   const n = data.s.n;
   const out = new Float64Array(data.s.nf);
   for (let k = 0; k < data.s.nf; k++) {
     const at = 2 * ((k * n + i) * n + j);
     const mag = Math.hypot(data.s.data[at], data.s.data[at + 1]);
-    out[k] = mag > 0 ? 20 * Math.log10(mag) : -300;
+    out[k] = mag > 0 ? 20 * Math.log10(mag) : -Infinity;
   }
   return out;
 }
