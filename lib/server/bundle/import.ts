@@ -54,8 +54,10 @@ async function freePartName(tx: Executor, projectId: string, fileName: string): 
 /**
  * Import a bundle as a new scenario with its parts (engineers, owners). Everything is checked before
  * anything is written: zip limits and entry names, manifest and hashes, the scenario file, every part. Parts
- * whose file name and text already exist in the project are reused; a different part of the same name is
- * stored under a free name ("ant-2.s1p") and the scenario's blocks point at it. One transaction.
+ * whose file name and text already exist in the project (as any version) are reused and the blocks pin that
+ * version; a different text under the same name (another part, or another version in the bundle under
+ * `parts/v<N>/`) is stored as a new part under a free name ("ant-2.s1p") and the blocks point at it. One
+ * transaction.
  */
 /** "Baseline (imported r3 from Kestrel)", shortened to the 200-character limit of scenario names. */
 export function importedScenarioName(name: string, revision: number, fromProject: string): string {
