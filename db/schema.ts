@@ -251,7 +251,11 @@ export const scenarioRevisions = sqliteTable(
 export type ScenarioRevision = typeof scenarioRevisions.$inferSelect;
 export type NewScenarioRevision = typeof scenarioRevisions.$inferInsert;
 
-/** An uploaded Touchstone data set in a project's library; blocks name it as `parts/<file_name>`. */
+/**
+ * One version of an uploaded Touchstone data set in a project's library; blocks name it as
+ * `parts/<file_name>` and pin a version with `part_version` (absent = 1). Versions of one file share
+ * `file_name` and count 1, 2, 3…; older versions stay readable by the scenarios that pin them.
+ */
 export const parts = sqliteTable(
   "parts",
   {
@@ -261,6 +265,8 @@ export const parts = sqliteTable(
       .references(() => projects.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
     fileName: text("file_name").notNull(),
+    /** Version of this file name in the project, 1, 2, 3… (blocks pin it as `part_version`). */
+    partVersion: integer("part_version").notNull().default(1),
     /** The file exactly as uploaded. */
     text: text("text").notNull(),
     sizeBytes: integer("size_bytes").notNull(),
@@ -280,7 +286,7 @@ export const parts = sqliteTable(
     uploadedBy: text("uploaded_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },
-  (table) => [uniqueIndex("parts_project_file_name_idx").on(table.projectId, table.fileName)],
+  (table) => [uniqueIndex("parts_project_file_name_version_idx").on(table.projectId, table.fileName, table.partVersion)],
 );
 export type Part = typeof parts.$inferSelect;
 export type NewPart = typeof parts.$inferInsert;

@@ -63,6 +63,11 @@ export type BlockSpec = {
   file?: string;
   /** touchstone: inline Touchstone text (wins over `file`) */
   data?: string;
+  /**
+   * touchstone: the version of the library part `file` names that this block uses (absent = 1); a
+   * supplied text is looked up under `pinnedPartPath(file, part_version)`, a file on disk is read as `file`
+   */
+  part_version?: number;
   /** touchstone: format hint when `data` is inline and the port count is not in the text (v1.1) */
   ports?: number;
   /** the most power any port of the block may take, dBm */

@@ -23,6 +23,7 @@ import { ExpressionForm, type ExpressionFieldSpec } from "./expression-form";
 import { PortList } from "./port-list";
 import { SpreadSection } from "./spread-section";
 import { ReplaceForm } from "./replace-form";
+import { PartVersionNotice } from "./part-version-notice";
 
 export type BlockInspectorProps = {
   scenario: Scenario;
@@ -49,6 +50,7 @@ export function BlockInspector({ scenario, blockId, parts, readOnly, scope, rese
   return (
     <section aria-label={`Inspector for ${block.id}`} className="flex flex-col gap-5">
       <Header block={block} parts={parts} />
+      {block.kind === "touchstone" ? <PartVersionNotice scenario={scenario} block={block} parts={parts} readOnly={readOnly} commit={commit} notify={notify} /> : null}
       <RenameForm key={`${block.id}:${resetToken}`} scenario={scenario} block={block} readOnly={readOnly} commit={commit} onRenamed={onRenamed} />
       <ReplaceForm key={`replace:${block.id}`} scenario={scenario} block={block} parts={parts} readOnly={readOnly} commit={commit} notify={notify} />
       <ParamsSection

@@ -1,5 +1,6 @@
 "use client";
 
+import Link from "next/link";
 import { useRef, useState, type FormEvent } from "react";
 import useSWR from "swr";
 import { Alert, Badge, Button, ConfirmDialog, EmptyState, Field, Input, Spinner, Table, TBody, Td, Th, THead, Tr, VerdictBadge } from "@/components/ui";
@@ -48,11 +49,17 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
           </THead>
           <TBody>
             {list.map((p) => (
-              <Tr key={p.id} id={`part-${p.id}`} className="target:bg-sea/15">
+              <Tr key={p.fileName} id={`part-${p.id}`} className="target:bg-sea/15">
                 <Td>
-                  <div className="font-medium text-ink">{p.name}</div>
+                  <Link href={`/projects/${projectId}/parts/${p.id}`} className="font-medium text-ink underline decoration-rule-strong underline-offset-4 hover:decoration-ink">
+                    {p.name}
+                  </Link>
                   <div className="font-mono text-xs text-muted">
                     {p.fileName} · Touchstone {p.version}
+                  </div>
+                  <div className="text-xs text-muted" data-testid="part-version-count">
+                    version {p.partVersion}
+                    {(p.versions?.length ?? 1) > 1 ? ` · ${p.versions?.length} versions` : ""}
                   </div>
                 </Td>
                 <Td numeric>{p.ports}</Td>
@@ -90,9 +97,12 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
                 </Td>
                 <Td>
                   {canEdit ? (
-                    <Button size="sm" variant="ghost" onClick={() => setDeleting(p)} aria-label={`Delete part ${p.fileName}`}>
-                      Delete
-                    </Button>
+                    <div className="flex flex-col items-end gap-1">
+                      <NewVersionButton projectId={projectId} part={p} onUploaded={() => void mutate()} />
+                      <Button size="sm" variant="ghost" onClick={() => setDeleting(p)} aria-label={`Delete part ${p.fileName}`}>
+                        {(p.versions?.length ?? 1) > 1 ? `Delete version ${p.partVersion}` : "Delete"}
+                      </Button>
+                    </div>
                   ) : null}
                 </Td>
               </Tr>
@@ -106,8 +116,8 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
           setDeleting(null);
           setDeleteError(null);
         }}
-        title={`Delete ${deleting?.fileName ?? "part"}?`}
-        description="Scenarios that place this part must stop using it first."
+        title={`Delete ${deleting?.fileName ?? "part"}${deleting && (deleting.versions?.length ?? 1) > 1 ? ` version ${deleting.partVersion}` : ""}?`}
+        description="Scenarios that place this version must stop using it (or move to another version) first. Other versions stay."
         confirmLabel="Delete part"
         error={deleteError}
         onConfirm={async () => {
@@ -122,6 +132,61 @@ export function PartsLibrary({ projectId, initial, canEdit }: { projectId: strin
         }}
       />
     </div>
+  );
+}
+
+/**
+ * "Upload new version" of one part: the chosen file becomes the next version of this part's file name
+ * (asked for explicitly with `new_version_of`; a plain upload of a taken name is refused).
+ */
+function NewVersionButton({ projectId, part, onUploaded }: { projectId: string; part: PartView; onUploaded: () => void }) {
+  const input = useRef<HTMLInputElement>(null);
+  const [pending, setPending] = useState(false);
+  const [message, setMessage] = useState<{ tone: "error" | "done"; text: string } | null>(null);
+  const upload = async (file: File) => {
+    if (file.size > PART_MAX_BYTES) {
+      setMessage({ tone: "error", text: `The file is ${(file.size / (1024 * 1024)).toFixed(1)} MB; the limit is ${PART_MAX_BYTES / (1024 * 1024)} MB.` });
+      return;
+    }
+    const form = new FormData();
+    form.set("file", file, file.name);
+    form.set("new_version_of", part.fileName);
+    setPending(true);
+    setMessage(null);
+    try {
+      const { part: created } = await requestJson<{ part: PartView }>(scenarioUrls.parts(projectId), { method: "POST", body: form });
+      setMessage({ tone: "done", text: `Version ${created.partVersion} of ${created.fileName}: ${created.points} points.` });
+      onUploaded();
+    } catch (e) {
+      setMessage({ tone: "error", text: e instanceof Error ? e.message : String(e) });
+    } finally {
+      setPending(false);
+      if (input.current) input.current.value = "";
+    }
+  };
+  return (
+    <>
+      <input
+        ref={input}
+        type="file"
+        className="sr-only"
+        tabIndex={-1}
+        aria-label={`New version of ${part.fileName}`}
+        accept=".ts,.s1p,.s2p,.s3p,.s4p,.s5p,.s6p,.s7p,.s8p,.s9p,.s10p,.s12p,.s16p"
+        onChange={(e) => {
+          const file = e.target.files?.[0];
+          if (file) void upload(file);
+        }}
+      />
+      <Button size="sm" variant="secondary" loading={pending} loadingText="Uploading…" onClick={() => input.current?.click()} aria-label={`Upload new version of ${part.fileName}`}>
+        Upload new version
+      </Button>
+      {message ? (
+        <p role={message.tone === "error" ? "alert" : "status"} className={message.tone === "error" ? "max-w-56 text-xs text-fail-strong" : "max-w-56 text-xs text-pass-strong"}>
+          {message.text}
+        </p>
+      ) : null}
+    </>
   );
 }
 

@@ -78,6 +78,11 @@ export function ScenarioList({ projectId, initial, canEdit }: { projectId: strin
                       draft
                     </Badge>
                   ) : null}
+                  {item.blocksBehind ? (
+                    <Badge tone="neutral" className="ml-2" title="Blocks that use an older version of their part than the library's latest">
+                      {item.blocksBehind} {item.blocksBehind === 1 ? "block" : "blocks"} behind
+                    </Badge>
+                  ) : null}
                 </Td>
                 <Td numeric>{item.revisionNumber}</Td>
                 <Td numeric>{item.blockCount}</Td>

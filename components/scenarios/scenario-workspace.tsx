@@ -15,6 +15,7 @@ import type { Role } from "@/lib/base/permission-table";
 import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
 import { formatDate } from "@/lib/base/dates";
 import { partFilesOf } from "@/lib/domain/scenarios/part-files";
+import { parsePinnedPartPath, pinnedPartPath } from "@/engine/system/parts";
 import { RevisionHistory } from "./revision-history";
 import { useAutosave } from "./use-autosave";
 import type { PartView } from "@/lib/domain/parts/types";
@@ -56,27 +57,37 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
     fallbackData: { parts: initialParts },
     revalidateOnFocus: true,
   });
-  const [texts, setTexts] = useState<Record<string, string>>(() => Object.fromEntries(initialParts.flatMap((p) => (p.text !== undefined ? [[p.id, p.text]] : []))));
+  // texts are keyed as the engine looks them up: `parts/<file>` (version 1) or `parts/v<N>/<file>` (pinned)
+  const [texts, setTexts] = useState<Record<string, string>>(() =>
+    Object.fromEntries(initialParts.flatMap((p) => [...(p.text !== undefined ? [[pinnedPartPath(`parts/${p.fileName}`, p.partVersion), p.text]] : []), ...Object.entries(p.pinnedTexts ?? {})])),
+  );
   const [textError, setTextError] = useState<string | null>(null);
   const requested = useRef(new Set<string>(Object.keys(texts)));
   const neededFiles = useMemo(() => partFilesOf(draft).join("\n"), [draft]);
   useEffect(() => {
-    const files = new Set(neededFiles.split("\n"));
-    for (const part of partsData?.parts ?? []) {
-      if (!files.has(`parts/${part.fileName}`) || requested.current.has(part.id)) continue;
-      requested.current.add(part.id);
-      fetchJson<{ part: PartView }>(scenarioUrls.part(projectId, part.id))
+    for (const key of neededFiles.split("\n")) {
+      if (!key || requested.current.has(key)) continue;
+      const { file, version } = parsePinnedPartPath(key);
+      const part = (partsData?.parts ?? []).find((p) => `parts/${p.fileName}` === file);
+      const id = part?.versions?.find((v) => v.partVersion === version)?.id ?? (part && part.partVersion === version ? part.id : undefined);
+      if (!id) continue;
+      requested.current.add(key);
+      fetchJson<{ part: PartView }>(scenarioUrls.part(projectId, id))
         .then(({ part: full }) => {
-          if (full.text !== undefined) setTexts((t) => ({ ...t, [full.id]: full.text as string }));
+          if (full.text !== undefined) setTexts((t) => ({ ...t, [key]: full.text as string }));
         })
         .catch((e: unknown) => {
-          requested.current.delete(part.id); // let a later edit or refresh try again
+          requested.current.delete(key); // let a later edit or refresh try again
           setTextError(e instanceof Error ? e.message : String(e));
         });
     }
   }, [neededFiles, partsData, projectId]);
   const parts = useMemo<PartSummary[]>(
-    () => (partsData?.parts ?? []).map((p) => ({ id: p.id, name: p.name, fileName: p.fileName, ports: p.ports, text: texts[p.id], active: p.active, activeReason: p.activeReason })),
+    () =>
+      (partsData?.parts ?? []).map((p) => {
+        const own = Object.fromEntries(Object.entries(texts).filter(([key]) => parsePinnedPartPath(key).file === `parts/${p.fileName}`));
+        return { id: p.id, name: p.name, fileName: p.fileName, ports: p.ports, version: p.partVersion, text: texts[pinnedPartPath(`parts/${p.fileName}`, p.partVersion)], texts: own, active: p.active, activeReason: p.activeReason };
+      }),
     [partsData, texts],
   );
 

@@ -13,6 +13,7 @@ import { authorize } from "@/lib/server/permissions";
 import type { DraftScenario } from "@/lib/base/validation/scenarios";
 import { stampRuleChanges } from "@/lib/domain/rules/stamp";
 import { getPartTexts, partFilesOf } from "./parts";
+import { partPinMoves } from "@/lib/domain/parts/pins";
 
 export type RevisionOrigin = "create" | "save" | "restore" | "duplicate" | "seed" | "import" | "migrate";
 
@@ -169,6 +170,10 @@ export async function saveRevision({
     const stamped = stampRuleChanges(base.content, content, actor.email, new Date());
     const revision = await insertRevision(tx, { scenarioId, projectId, content: stamped, authorId: actor.id, origin: "save" });
     await recordAudit(tx, { actor, projectId, action: "scenario.save", target: revision.content.name, detail: { scenarioId, revision: revision.number } });
+    // a block moved to another version of its part ("newer version available") is its own audit event
+    for (const move of partPinMoves(base.content, revision.content)) {
+      await recordAudit(tx, { actor, projectId, action: "part.move", target: move.file.replace(/^parts\//, ""), detail: { scenarioId, scenario: revision.content.name, revision: revision.number, block: move.blockId, from: move.from, to: move.to } });
+    }
     return revision;
   });
 }

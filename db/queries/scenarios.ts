@@ -1,8 +1,9 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { asc, eq, sql } from "drizzle-orm";
+import { and, asc, eq, gt, sql } from "drizzle-orm";
 import { db, runInTransaction } from "@/db/client";
-import { scenarioRevisions, scenarios, users, type Role } from "@/db/schema";
+import { parts, scenarioRevisions, scenarios, users, type Role } from "@/db/schema";
+import { blocksBehindByScenario } from "./parts";
 import { scenarioFromTemplate } from "@/lib/domain/scenarios/templates";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
@@ -20,6 +21,8 @@ export type ScenarioSummary = {
   blockCount: number;
   portNames: string[];
   warningCount: number;
+  /** blocks of the latest revision pinning an older part version than the library's latest */
+  blocksBehind: number;
   updatedAt: Date;
   updatedByName: string | null;
   createdAt: Date;
@@ -66,6 +69,8 @@ export async function listScenarios({ userId, projectId }: { userId: string; pro
     left join ${users} on ${users.id} = ${scenarioRevisions.authorId}
     where ${scenarios.projectId} = ${projectId}
     order by ${scenarios.name} asc`);
+  // only a project with a part of version 2 or later can have blocks behind: others pay no JSON scan
+  const behind = (await hasPartVersions(projectId)) ? await blocksBehindByScenario({ projectId }) : new Map<string, number>();
   // libSQL rows are array-like (indexable, not iterable)
   return rows.map((row) => ({
     id: row[0],
@@ -78,7 +83,13 @@ export async function listScenarios({ userId, projectId }: { userId: string; pro
     portNames: row[7] ? (JSON.parse(row[7]) as (string | null)[]).filter((n): n is string => typeof n === "string") : [],
     warningCount: Number(row[8]),
     updatedByName: row[9],
+    blocksBehind: behind.get(row[0]) ?? 0,
   }));
+}
+
+async function hasPartVersions(projectId: string): Promise<boolean> {
+  const [row] = await db.select({ id: parts.id }).from(parts).where(and(eq(parts.projectId, projectId), gt(parts.partVersion, 1))).limit(1);
+  return row !== undefined;
 }
 
 /** A scenario with its latest revision (or the revision asked for) and the viewer's role. */

@@ -7,7 +7,7 @@ import { effectiveRuleSet, judgingRules, leakTrace, runAllChecks, type AllChecks
 import { lineup, type LineupResult } from "../lineup";
 import type { SpreadResult } from "../spread";
 import { parseScenario } from "../scenario";
-import { solveScenario } from "../system";
+import { pinnedPartPath, solveScenario } from "../system";
 import { writeCompositeTouchstone } from "../touchstone";
 import { EngineInputError, type Scenario, type Solution } from "../types";
 import { ENGINE_VERSION } from "../version";
@@ -113,23 +113,26 @@ export function engineScenario(content: unknown): unknown {
 }
 
 /**
- * The part files a scenario uses (its touchstone blocks' `file` values without inline `data`).
+ * The part files a scenario uses (its touchstone blocks' `file` values without inline `data`), as the bundle
+ * stores them: `parts/<name>` for version 1, `parts/v<N>/<name>` for a block pinning `part_version` N
+ * (pinnedPartPath; scenario.json itself is stored unchanged, so its content hash stays the revision's).
  *
  * @param scenario - the scenario (stored or parsed)
- * @returns file names as blocks name them, e.g. ["parts/ant.s1p"], sorted, without duplicates
+ * @returns paths inside the bundle, e.g. ["parts/ant.s1p", "parts/v2/ant.s1p"], sorted, without duplicates
  * @throws BundleError when a block names a file outside `parts/` or with an unsafe path
  * @example usedPartFiles(sc) // ["parts/ant.s1p"]
  */
 export function usedPartFiles(scenario: { blocks?: unknown }): string[] {
   const files = new Set<string>();
   for (const b of Array.isArray(scenario.blocks) ? scenario.blocks : []) {
-    const block = b as { kind?: unknown; file?: unknown; data?: unknown; id?: unknown };
+    const block = b as { kind?: unknown; file?: unknown; data?: unknown; id?: unknown; part_version?: unknown };
     if (block.kind !== "touchstone" || block.data !== undefined || typeof block.file !== "string") continue;
     checkEntryName(block.file);
     if (!block.file.startsWith("parts/") || block.file.split("/").length !== 2) {
       throw new BundleError("invalid", `Block ${String(block.id)} names the file "${block.file}"; bundle parts live directly under parts/.`, block.file);
     }
-    files.add(block.file);
+    const version = typeof block.part_version === "number" && Number.isInteger(block.part_version) && block.part_version > 1 ? block.part_version : undefined;
+    files.add(pinnedPartPath(block.file, version));
   }
   return [...files].sort();
 }

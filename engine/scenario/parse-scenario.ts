@@ -74,9 +74,15 @@ function checkBlocks(scenario: Scenario, source: PartSource): Map<string, { inde
       if (block.params !== undefined && Object.keys(block.params).length > 0) {
         throw new EngineInputError(`${where}.params`, "a touchstone block takes no parameters: its data is the part");
       }
+      if (block.part_version !== undefined && block.file === undefined) {
+        throw new EngineInputError(`${where}.part_version`, "a part version pins a library part named by `file`; this block has inline `data` only");
+      }
     } else {
       if (block.file !== undefined || block.data !== undefined) {
         throw new EngineInputError(block.file !== undefined ? `${where}.file` : `${where}.data`, `only touchstone blocks take part data; this block is a ${block.kind}`);
+      }
+      if (block.part_version !== undefined) {
+        throw new EngineInputError(`${where}.part_version`, `only touchstone blocks pin a part version; this block is a ${block.kind}`);
       }
     }
     if (block.active !== undefined && block.kind !== "touchstone" && block.active !== (block.kind === "amplifier")) {

@@ -58,6 +58,8 @@ export const BlockSchema = z.object({
   state: z.number().int().min(1).optional(),
   file: z.string().min(1).optional(),
   data: z.string().min(1).optional(),
+  /** touchstone: version of the library part `file` names (absent = 1; docs/scenario-format.md#part-versions) */
+  part_version: z.number().int().min(1).max(1_000_000).optional(),
   ports: z.number().int().min(1).max(1024).optional(),
   rating_dbm: finite.optional(),
   /** touchstone parts: marks the part active (or, false, passive); built-in kinds may only repeat their model */

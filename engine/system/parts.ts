@@ -96,7 +96,37 @@ export function partCacheStats(): { entries: number; bytes: number; limitBytes: 
 }
 
 /**
- * The Touchstone text of a `touchstone` block: its inline `data`, else `parts[file]`, else `readFile(file)`.
+ * The key under which a supplied text of a pinned part version is looked up (and the path a bundle stores
+ * it at): `file` itself for version 1 (or none), else `v<N>/` before the file's last segment, e.g.
+ * `parts/amp.s2p` version 2 → `parts/v2/amp.s2p` (docs/scenario-format.md#part-versions).
+ *
+ * @param file - the block's `file`
+ * @param version - the block's `part_version` (absent = 1)
+ * @returns the key
+ * @example pinnedPartPath("parts/amp.s2p", 2) // "parts/v2/amp.s2p"
+ */
+export function pinnedPartPath(file: string, version?: number): string {
+  if (version === undefined || version <= 1) return file;
+  const slash = file.lastIndexOf("/");
+  return `${file.slice(0, slash + 1)}v${version}/${file.slice(slash + 1)}`;
+}
+
+/**
+ * The file and version a key of pinnedPartPath names (the inverse): `parts/v2/amp.s2p` → `parts/amp.s2p`, 2.
+ *
+ * @param key - a key as pinnedPartPath writes it
+ * @returns the block's `file` and version (1 when the key has no `v<N>/` segment)
+ * @example parsePinnedPartPath("parts/v3/amp.s2p") // { file: "parts/amp.s2p", version: 3 }
+ */
+export function parsePinnedPartPath(key: string): { file: string; version: number } {
+  const m = /^(.*\/)?v([1-9][0-9]*)\/([^/]+)$/.exec(key);
+  if (!m || Number(m[2]) < 2) return { file: key, version: 1 };
+  return { file: `${m[1] ?? ""}${m[3]}`, version: Number(m[2]) };
+}
+
+/**
+ * The Touchstone text of a `touchstone` block: its inline `data`, else the supplied
+ * `parts[pinnedPartPath(file, part_version)]`, else `readFile(file)` (a file on disk has no versions).
  *
  * @param block - the block spec (kind "touchstone")
  * @param where - JSON path of the block, e.g. `blocks[3]`, for error messages
@@ -109,8 +139,9 @@ export function partCacheStats(): { entries: number; bytes: number; limitBytes: 
 export function partText(block: BlockSpec, where: string, source: PartSource): { text: string; name: string } | null {
   if (block.data !== undefined) return { text: block.data, name: block.file ?? `${block.id}${block.ports ? `.s${block.ports}p` : ""}` };
   if (block.file === undefined) throw new EngineInputError(where, "a touchstone block needs `file` or inline `data`");
-  const inline = source.parts?.[block.file];
-  if (inline !== undefined) return { text: inline, name: block.file };
+  const key = pinnedPartPath(block.file, block.part_version);
+  const inline = source.parts?.[key];
+  if (inline !== undefined) return { text: inline, name: key };
   if (!source.readFile) return null;
   try {
     return { text: source.readFile(block.file), name: block.file };

@@ -57,6 +57,7 @@ export const scenarioUrls = {
     `/api/projects/${projectId}/scenarios/${scenarioId}/solve?format=${format}${revisionId ? `&revision=${encodeURIComponent(revisionId)}` : ""}`,
   parts: (projectId: string, withText = false) => `/api/projects/${projectId}/parts${withText ? "?text=1" : ""}`,
   part: (projectId: string, partId: string) => `/api/projects/${projectId}/parts/${partId}`,
+  partVersions: (projectId: string, partId: string) => `/api/projects/${projectId}/parts/${partId}/versions`,
 };
 
 export const checkRunUrls = {

@@ -3,7 +3,7 @@
  * change of part meant delete, re-add, re-link and re-mark, and the system port's name and Z0 were lost.
  */
 import type { BlockKind, PortRef, Scenario, SystemPortSpec } from "@/engine/types";
-import { defaultParams, getBlock, parsePortRef, portCountOf, type PartSummary, type WorkspaceBlock } from "./scenario-model";
+import { defaultParams, getBlock, parsePortRef, pinLatest, portCountOf, type PartSummary, type WorkspaceBlock } from "./scenario-model";
 
 export type ReplaceChoice = { kind: BlockKind; part?: PartSummary };
 
@@ -14,7 +14,7 @@ export type ReplaceResult =
 /** The block that `choice` would put in place of `old`: its id, position and (for a switch) its state kept. */
 function blockFor(old: WorkspaceBlock, choice: ReplaceChoice, scenario: Scenario): WorkspaceBlock {
   const base = { id: old.id, ...(old.position ? { position: old.position } : {}) };
-  if (choice.part) return { ...base, kind: "touchstone", file: `parts/${choice.part.fileName}`, ports: choice.part.ports };
+  if (choice.part) return { ...base, kind: "touchstone", file: `parts/${choice.part.fileName}`, ...pinLatest(choice.part), ports: choice.part.ports };
   const block: WorkspaceBlock = { ...base, kind: choice.kind, params: defaultParams(choice.kind, scenario) };
   if (choice.kind === "switch") block.state = 1;
   return block;

@@ -23,6 +23,10 @@ export type PartSummary = {
   fileName: string;
   ports: number;
   text?: string;
+  /** the latest version of the part in the library (absent: 1); a block added now pins it */
+  version?: number;
+  /** loaded texts of the versions blocks pin, keyed as the engine looks them up (pinnedPartPath) */
+  texts?: Record<string, string>;
   /** the part's data shows gain (set at upload), with the reason */
   active?: boolean;
   activeReason?: string | null;
@@ -201,10 +205,15 @@ export function addBlock(
 ): { scenario: Scenario; id: string } {
   const id = nextBlockId(scenario, part ? idStemForPart(part) : ID_STEMS[kind]);
   const block: WorkspaceBlock = part
-    ? { id, kind: "touchstone", file: `parts/${part.fileName}`, ports: part.ports, position: roundPosition(position) }
+    ? { id, kind: "touchstone", file: `parts/${part.fileName}`, ...pinLatest(part), ports: part.ports, position: roundPosition(position) }
     : { id, kind, params: defaultParams(kind, scenario), position: roundPosition(position) };
   if (kind === "switch" && !part) block.state = 1;
   return { scenario: { ...scenario, blocks: [...scenario.blocks, block] }, id };
+}
+
+/** A block placed now pins the part's latest version (written only above 1: absent means 1). */
+export function pinLatest(part: PartSummary): { part_version?: number } {
+  return part.version !== undefined && part.version > 1 ? { part_version: part.version } : {};
 }
 
 function roundPosition(p: { x: number; y: number }): { x: number; y: number } {
@@ -430,9 +439,15 @@ export function pasteBlocks(
   };
 }
 
-/** Touchstone texts of the loaded parts keyed as blocks name them (`parts/<fileName>`), for the engine. */
+/**
+ * Touchstone texts of the loaded parts keyed as the engine looks them up: `parts/<fileName>` for version 1,
+ * `parts/v<N>/<fileName>` for a pinned version N (docs/scenario-format.md#part-versions).
+ */
 export function partTexts(parts: readonly PartSummary[]): Record<string, string> {
   const out: Record<string, string> = {};
-  for (const p of parts) if (p.text !== undefined) out[`parts/${p.fileName}`] = p.text;
+  for (const p of parts) {
+    if (p.texts) Object.assign(out, p.texts);
+    else if (p.text !== undefined) out[`parts/${p.fileName}`] = p.text;
+  }
   return out;
 }

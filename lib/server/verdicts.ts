@@ -1,7 +1,7 @@
 import "server-only";
 import { db, type Executor } from "@/db/client";
 import { findCurrentRun, newestRunOf } from "@/db/queries/check-runs";
-import { getPartTexts } from "@/db/queries/parts";
+import { getPartTexts, partFilesOf } from "@/db/queries/parts";
 import { projectRuleSpecs } from "@/db/queries/rules";
 import { latestScenarioContents, loadScenario } from "@/db/queries/scenarios";
 import { hashRuleSet } from "@/engine/bundle";
@@ -30,7 +30,8 @@ export async function revisionRules({ projectId, content, executor = db }: { pro
 
 /** Why a revision cannot be solved (the engine's message), or null when it solves. */
 export async function solveProblem({ projectId, content }: { projectId: string; content: Scenario }): Promise<string | null> {
-  const parts = await getPartTexts({ projectId });
+  // only the part versions this content pins (a library with many versions is not read whole)
+  const parts = await getPartTexts({ projectId, files: partFilesOf(content) });
   try {
     solveScenario(parseScenario(scenarioForEngine(content), { parts }), { parts });
     return null;

@@ -1,4 +1,5 @@
 import { parseScenario } from "@/engine/scenario";
+import { pinnedPartPath } from "@/engine/system/parts";
 import type { Scenario } from "@/engine/types";
 
 /**
@@ -26,8 +27,12 @@ export function scenarioWarnings(content: Scenario, partTexts: Record<string, st
   if (content.blocks.length === 0) warnings.push("The chart has no blocks yet.");
   if (content.ports.length === 0) warnings.push("No system ports are marked yet.");
   for (const block of content.blocks) {
-    if (block.kind === "touchstone" && block.data === undefined && block.file !== undefined && partTexts[block.file] === undefined) {
-      warnings.push(`Block ${block.id} uses ${block.file}, which is not among the project's parts.`);
+    if (block.kind === "touchstone" && block.data === undefined && block.file !== undefined && partTexts[pinnedPartPath(block.file, block.part_version)] === undefined) {
+      warnings.push(
+        block.part_version !== undefined && block.part_version > 1
+          ? `Block ${block.id} uses version ${block.part_version} of ${block.file}, which is not among the project's parts.`
+          : `Block ${block.id} uses ${block.file}, which is not among the project's parts.`,
+      );
     }
   }
   if (warnings.length > 0) return warnings;

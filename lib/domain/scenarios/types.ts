@@ -8,6 +8,8 @@ export type ScenarioListItem = {
   blockCount: number;
   portNames: string[];
   warningCount: number;
+  /** blocks pinning an older part version than the library's latest ("newer version available") */
+  blocksBehind?: number;
   updatedAt: string;
   updatedByName: string | null;
 };

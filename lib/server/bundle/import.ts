@@ -7,6 +7,7 @@ import { hashScenarioContent, insertRevision, type RevisionDetail } from "@/db/q
 import { parts, scenarios } from "@/db/schema";
 import { BundleError, engineScenario, openBundle, usedPartFiles, type BundleManifest } from "@/engine/bundle";
 import { parseScenario } from "@/engine/scenario";
+import { parsePinnedPartPath, pinnedPartPath } from "@/engine/system/parts";
 import { EngineInputError } from "@/engine/types";
 import { recordAudit } from "@/lib/server/audit";
 import type { SessionUser } from "@/lib/server/auth/session";
@@ -53,8 +54,10 @@ async function freePartName(tx: Executor, projectId: string, fileName: string): 
 /**
  * Import a bundle as a new scenario with its parts (engineers, owners). Everything is checked before
  * anything is written: zip limits and entry names, manifest and hashes, the scenario file, every part. Parts
- * whose file name and text already exist in the project are reused; a different part of the same name is
- * stored under a free name ("ant-2.s1p") and the scenario's blocks point at it. One transaction.
+ * whose file name and text already exist in the project (as any version) are reused and the blocks pin that
+ * version; a different text under the same name (another part, or another version in the bundle under
+ * `parts/v<N>/`) is stored as a new part under a free name ("ant-2.s1p") and the blocks point at it. One
+ * transaction.
  */
 /** "Baseline (imported r3 from Kestrel)", shortened to the 200-character limit of scenario names. */
 export function importedScenarioName(name: string, revision: number, fromProject: string): string {
@@ -91,7 +94,7 @@ export async function importBundle({ actor, projectId, bytes }: { actor: Session
     throw error;
   }
   for (const file of used) {
-    const fileName = file.slice("parts/".length);
+    const fileName = parsePinnedPartPath(file).file.slice("parts/".length);
     const text = bundle.parts[file];
     if (text === undefined) throw new AppError("unprocessable", 422, `scenario.json uses ${file}, which the bundle does not contain.`, { entry: file });
     if (!PART_FILE_NAME_PATTERN.test(fileName)) throw new AppError("unprocessable", 422, `Entry "${file}" is not a Touchstone file name (.s1p … .sNp or .ts).`, { entry: file });
@@ -104,24 +107,37 @@ export async function importBundle({ actor, projectId, bytes }: { actor: Session
     await authorize({ userId: actor.id, projectId, action: "scenario.create", executor: tx });
     await authorize({ userId: actor.id, projectId, action: "part.upload", executor: tx });
     const imported: ImportedPart[] = [];
-    const renames = new Map<string, string>();
+    // bundle path (pinnedPartPath) → the project's file name and version the blocks will pin
+    const targets = new Map<string, { fileName: string; version: number }>();
     for (const file of used) {
-      const fileName = file.slice("parts/".length);
+      const fileName = parsePinnedPartPath(file).file.slice("parts/".length);
       const text = bundle.parts[file];
-      const [existing] = await tx
-        .select({ text: parts.text })
+      const existing = await tx
+        .select({ text: parts.text, partVersion: parts.partVersion })
         .from(parts)
         .where(and(eq(parts.projectId, projectId), eq(parts.fileName, fileName)));
-      if (existing && existing.text === text) {
+      const same = existing.find((row) => row.text === text);
+      if (same) {
+        targets.set(file, { fileName, version: same.partVersion });
         imported.push({ fileName, reused: true, renamedFrom: null });
         continue;
       }
-      const target = existing ? await freePartName(tx, projectId, fileName) : fileName;
-      if (target !== fileName) renames.set(file, `parts/${target}`);
+      // another text under a taken name (another project's part, or another version of it): a new part
+      const target = existing.length > 0 ? await freePartName(tx, projectId, fileName) : fileName;
+      targets.set(file, { fileName: target, version: 1 });
       await createPart({ actor, projectId, name: partStem(target)[0], fileName: target, text, executor: tx });
       imported.push({ fileName: target, reused: false, renamedFrom: target === fileName ? null : fileName });
     }
-    const stored: DraftScenario = renames.size === 0 ? content : { ...content, blocks: content.blocks.map((b) => (b.file && renames.has(b.file) ? { ...b, file: renames.get(b.file) } : b)) };
+    const retarget = (b: DraftScenario["blocks"][number]) => {
+      if (b.kind !== "touchstone" || b.data !== undefined || typeof b.file !== "string") return b;
+      const to = targets.get(pinnedPartPath(b.file, b.part_version));
+      if (!to || (`parts/${to.fileName}` === b.file && to.version === (b.part_version ?? 1))) return b;
+      const { part_version: _pinned, ...rest } = b;
+      void _pinned;
+      return { ...rest, file: `parts/${to.fileName}`, ...(to.version > 1 ? { part_version: to.version } : {}) };
+    };
+    const moved = content.blocks.some((b) => retarget(b) !== b);
+    const stored: DraftScenario = moved ? { ...content, blocks: content.blocks.map(retarget) } : content;
     const scenarioId = randomUUID();
     // The name says where the scenario came from (not a second "Baseline"). The stored file takes the
     // new name (it follows the scenario's), so "arrived intact" compares the content under its old name.
