@@ -2,7 +2,8 @@
 
 import { useMemo, useState } from "react";
 import { Download, X } from "lucide-react";
-import type { Scenario } from "@/engine/types";
+import type { RuleSpec, Scenario } from "@/engine/types";
+import { effectiveRuleSet, judgingRules } from "@/engine/checks/rule-set";
 import { Alert, Badge, Button, EmptyState, Input, Select, Spinner } from "@/components/ui";
 import { writeCompositeTouchstone } from "@/engine/touchstone";
 import { downloadText as download } from "@/lib/browser/downloads";
@@ -18,6 +19,7 @@ import {
   traceValues,
   type TraceQuantity,
 } from "@/lib/domain/results/results-math";
+import { limitLinesForTrace, type LimitLine } from "@/lib/domain/results/limit-lines";
 import type { SolverState } from "@/lib/browser/use-solver";
 import { PortMatrix } from "./port-matrix";
 import { SmithChart } from "./smith-chart";
@@ -26,12 +28,14 @@ import { TracePlot } from "./trace-plot";
 export type ResultsPanelProps = {
   scenario: Scenario;
   state: SolverState;
+  /** the project's rules: with the scenario's own, overrides and opt-outs they give the limit lines on traces */
+  projectRules?: readonly RuleSpec[];
 };
 
 const QUANTITY_LABEL: Record<TraceQuantity, string> = { db: "Magnitude (dB)", phase: "Phase (deg)", delay: "Group delay (ns)" };
 
 /** Traces, markers, the port matrix, the Smith chart, warnings and downloads of the latest solve. */
-export function ResultsPanel({ scenario, state }: ResultsPanelProps) {
+export function ResultsPanel({ scenario, state, projectRules }: ResultsPanelProps) {
   if (state.status === "empty") {
     return (
       <EmptyState
@@ -55,7 +59,7 @@ export function ResultsPanel({ scenario, state }: ResultsPanelProps) {
           </span>
         </Alert>
       ) : null}
-      {result ? <SolvedResults key={result.view.ports.join("\u0000")} scenario={scenario} result={result} stale={state.status !== "done"} /> : null}
+      {result ? <SolvedResults key={result.view.ports.join("\u0000")} scenario={scenario} projectRules={projectRules} result={result} stale={state.status !== "done"} /> : null}
       {!result && state.status === "solving" ? <Spinner label="Solving" /> : null}
     </div>
   );
@@ -89,7 +93,7 @@ function StatusLine({ state }: { state: SolverState }) {
 
 type Solved = Extract<SolverState, { status: "done" }>["result"];
 
-function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result: Solved; stale: boolean }) {
+function SolvedResults({ scenario, projectRules, result, stale }: { scenario: Scenario; projectRules?: readonly RuleSpec[]; result: Solved; stale: boolean }) {
   const view = result.view;
   const n = view.s.n;
   const [pair, setPair] = useState<[number, number]>(n > 1 ? [1, 0] : [0, 0]);
@@ -112,6 +116,17 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
     () => shownPairs.map(([a, b]) => ({ label: traceLabel(view.ports, a, b), values: traceValues(view, a, b, quantity) })),
     [shownPairs, view, quantity],
   );
+  // the effective rules (docs/checks.md): each that bounds a shown trace draws its limit on the plot
+  const rules = useMemo(() => judgingRules(effectiveRuleSet(projectRules ?? [], scenario)), [projectRules, scenario]);
+  const limits = useMemo(() => {
+    const out: LimitLine[] = [];
+    for (const pairShown of shownPairs) {
+      for (const line of limitLinesForTrace(rules, view.ports, pairShown, quantity)) {
+        if (!out.some((o) => o.rule === line.rule && o.db === line.db)) out.push(line);
+      }
+    }
+    return out;
+  }, [rules, view.ports, shownPairs, quantity]);
   const values = series[0].values;
   const label = series[0].label;
   const unit = TRACE_UNITS[quantity];
@@ -207,6 +222,8 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
           markers={markerIdx}
           onHover={setHover}
           onPick={(k) => addMarkerAt(view.frequencies[k])}
+          limits={limits}
+          exportStem={`${fileStem(scenario.name)}-traces`}
         />
         <output aria-label="Trace read-out" className="figures min-h-5 text-xs text-ink">
           {readout}
@@ -219,6 +236,13 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
             const r = evaluateQuantity(markerText, "Hz");
             if (!r.ok || typeof r.value !== "number") {
               setMarkerError(r.ok ? "Enter a frequency." : r.error);
+              return;
+            }
+            const first = view.frequencies[0];
+            const last = view.frequencies[view.s.nf - 1];
+            // refused, not moved to the nearest edge: a marker must read a frequency the plan solved
+            if (r.value < first || r.value > last) {
+              setMarkerError(`${formatHz(r.value)} is outside the frequency plan (${formatHz(first)} to ${formatHz(last)}): place the marker within it, or widen the plan.`);
               return;
             }
             setMarkerError(null);
@@ -235,7 +259,11 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
               aria-invalid={markerError ? true : undefined}
               onChange={(e) => setMarkerText(e.target.value)}
             />
-            {markerError ? <p className="text-xs text-fail-strong">{markerError}</p> : null}
+            {markerError ? (
+              <p role="alert" className="text-xs text-fail-strong" data-testid="marker-error">
+                {markerError}
+              </p>
+            ) : null}
           </div>
           <Button type="submit" variant="secondary" size="md">
             Add marker
@@ -318,7 +346,7 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
             />
           </label>
         </div>
-        <SmithChart view={view} port={Math.min(smithPort, n - 1)} highlight={matrixIndex} />
+        <SmithChart view={view} port={Math.min(smithPort, n - 1)} highlight={matrixIndex} exportStem={`${fileStem(scenario.name)}-smith-${fileStem(view.ports[Math.min(smithPort, n - 1)])}`} />
       </section>
 
       <Warnings result={result} z0={scenario.z0} />
