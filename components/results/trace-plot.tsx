@@ -142,6 +142,9 @@ export function TracePlot({ frequencies, series, unit, markers = [], onHover, on
       const mid = (lo + hi) / 2;
       [lo, hi] = [mid - minSpan / 2, mid + minSpan / 2];
     }
+    // a little room at both ends, so that a limit at the edge of the data still shows its shaded side
+    const pad = (hi - lo) * 0.06;
+    [lo, hi] = [lo - pad, hi + pad];
     const y = niceScale(lo, hi, Math.max(3, Math.min(9, Math.floor(plotH / 28))), MIN_STEP[unit] ?? 0);
     const x = ticksWithin(fMin, fMax === fMin ? fMin + 1 : fMax, Math.max(2, Math.min(9, Math.floor(plotW / 84))));
     return { x, y };

@@ -52,17 +52,23 @@ export function serialiseSvg(svg: SVGSVGElement, options: { title?: string } = {
   const clone = svg.cloneNode(true) as SVGSVGElement;
   const originals = [svg, ...Array.from(svg.querySelectorAll("*"))];
   const copies = [clone, ...Array.from(clone.querySelectorAll("*"))];
+  const computedOf = new Map<Element, CSSStyleDeclaration>();
   originals.forEach((el, k) => {
     const copy = copies[k];
     const computed = getComputedStyle(el);
+    computedOf.set(el, computed);
+    const parent = el === svg ? undefined : el.parentElement ? computedOf.get(el.parentElement) : undefined;
+    // these properties inherit in SVG: an element writes only what differs from its parent (opacity does
+    // not inherit, so it is written wherever it is not 1), which keeps the file small and readable
     const style = STYLE_PROPERTIES.map((p) => [p, computed.getPropertyValue(p)] as const)
-      .filter(([, v]) => v !== "" && v !== "normal" && v !== "auto")
+      .filter(([p, v]) => v !== "" && (p === "opacity" ? v !== "1" : !parent || parent.getPropertyValue(p) !== v))
       .map(([p, v]) => `${p}:${v}`)
       .join(";");
-    copy.setAttribute("style", style);
+    if (style) copy.setAttribute("style", style);
+    else copy.removeAttribute("style");
     copy.removeAttribute("class");
     // presentation attributes may hold var(…), which a standalone file cannot resolve: the style holds the values
-    for (const name of ["fill", "stroke", "color"]) if (copy.getAttribute(name)?.includes("var(")) copy.removeAttribute(name);
+    for (const attr of Array.from(copy.attributes)) if (attr.value.includes("var(")) copy.removeAttribute(attr.name);
   });
   for (const skip of Array.from(clone.querySelectorAll('[data-export="skip"]'))) skip.remove();
   for (const name of ["tabindex", "role", "aria-label", "aria-describedby", "focusable"]) clone.removeAttribute(name);
