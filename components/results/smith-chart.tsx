@@ -187,13 +187,13 @@ export function SmithChart({ view, port, highlight, exportStem }: SmithChartProp
         <span className="figures mr-auto text-xs text-muted" data-testid="smith-zoom">
           {formatNumber(zoom.zoom, 3)}×
         </span>
-        <Button variant="ghost" size="sm" aria-label="Zoom in" onClick={() => zoomBy(ZOOM_STEP)}>
+        <Button variant="ghost" size="sm" aria-label="Zoom in on the Smith chart" onClick={() => zoomBy(ZOOM_STEP)}>
           <Plus aria-hidden="true" className="h-3.5 w-3.5" />
         </Button>
-        <Button variant="ghost" size="sm" aria-label="Zoom out" onClick={() => zoomBy(1 / ZOOM_STEP)} disabled={zoom.zoom <= 1}>
+        <Button variant="ghost" size="sm" aria-label="Zoom out of the Smith chart" onClick={() => zoomBy(1 / ZOOM_STEP)} disabled={zoom.zoom <= 1}>
           <Minus aria-hidden="true" className="h-3.5 w-3.5" />
         </Button>
-        <Button variant="ghost" size="sm" aria-label="Reset zoom" onClick={reset} disabled={zoom.zoom === 1 && zoom.cx === 0 && zoom.cy === 0}>
+        <Button variant="ghost" size="sm" aria-label="Reset the Smith chart zoom" onClick={reset} disabled={zoom.zoom === 1 && zoom.cx === 0 && zoom.cy === 0}>
           <RotateCcw aria-hidden="true" className="h-3.5 w-3.5" />
         </Button>
         {exportStem ? <PlotExportMenu what="Smith chart" stem={exportStem} svg={() => svg.current} csv={csv} /> : null}

@@ -27,8 +27,9 @@ async function openBaselineCopy(page: Page): Promise<void> {
   await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
 }
 
+/** A screenshot kept as the test's attachment and beside the other stories' (test-results/screenshots). */
 async function shot(testInfo: TestInfo, name: string, target: Page | Locator): Promise<void> {
-  await testInfo.attach(name, { body: await target.screenshot(), contentType: "image/png" });
+  await testInfo.attach(name, { body: await target.screenshot({ path: `test-results/screenshots/plots-${name}` }), contentType: "image/png" });
 }
 
 /** Downloads what the plot's export menu offers under `item` and returns the file's name and bytes. */
@@ -161,14 +162,14 @@ test("an engineer reads the isolation limit on the trace, exports the plots, and
 
   const zoomLabel = results.getByTestId("smith-zoom");
   await expect(zoomLabel).toHaveText("1×");
-  await results.getByRole("button", { name: "Zoom in" }).click();
+  await results.getByRole("button", { name: "Zoom in on the Smith chart" }).click();
   await expect(zoomLabel).toHaveText("1.5×");
   await smith.focus();
   await page.keyboard.press("+");
   await expect(zoomLabel).toHaveText("2.25×");
   await page.keyboard.press("0");
   await expect(zoomLabel).toHaveText("1×");
-  await expect(results.getByRole("button", { name: "Reset zoom" })).toBeDisabled();
+  await expect(results.getByRole("button", { name: "Reset the Smith chart zoom" })).toBeDisabled();
   // the wheel zooms about the pointer: the Γ under it stays under it
   await page.mouse.move(cx + 0.5 * perGamma, cy - 0.3 * perGamma);
   await page.mouse.wheel(0, -400);
