@@ -20,6 +20,7 @@ import {
   type TraceQuantity,
 } from "@/lib/domain/results/results-math";
 import { limitLinesForTrace, type LimitLine } from "@/lib/domain/results/limit-lines";
+import { markerIndexInPlan } from "@/lib/domain/results/plot-data";
 import type { SolverState } from "@/lib/browser/use-solver";
 import { PortMatrix } from "./port-matrix";
 import { SmithChart } from "./smith-chart";
@@ -130,7 +131,8 @@ function SolvedResults({ scenario, projectRules, result, stale }: { scenario: Sc
   const values = series[0].values;
   const label = series[0].label;
   const unit = TRACE_UNITS[quantity];
-  const markerIdx = useMemo(() => markers.map((hz) => nearestFrequencyIndex(view.frequencies, hz)), [markers, view]);
+  // a marker the plan no longer holds (the plan was narrowed) reads nothing rather than the nearest edge
+  const markerIdx = useMemo(() => markers.map((hz) => markerIndexInPlan(view.frequencies, hz) ?? -1), [markers, view]);
   const matrixIndex = nearestFrequencyIndex(view.frequencies, matrixHz);
 
   const options = [];
@@ -241,7 +243,7 @@ function SolvedResults({ scenario, projectRules, result, stale }: { scenario: Sc
             const first = view.frequencies[0];
             const last = view.frequencies[view.s.nf - 1];
             // refused, not moved to the nearest edge: a marker must read a frequency the plan solved
-            if (r.value < first || r.value > last) {
+            if (markerIndexInPlan(view.frequencies, r.value) === null) {
               setMarkerError(`${formatHz(r.value)} is outside the frequency plan (${formatHz(first)} to ${formatHz(last)}): place the marker within it, or widen the plan.`);
               return;
             }
@@ -295,6 +297,22 @@ function SolvedResults({ scenario, projectRules, result, stale }: { scenario: Sc
             <tbody>
               {markers.map((hz, m) => {
                 const k = markerIdx[m];
+                if (k < 0) {
+                  return (
+                    <tr key={hz} className="border-t border-rule text-muted">
+                      <td className="py-1 font-mono">M{m + 1}</td>
+                      <td className="figures py-1 text-right">{formatHz(hz)}</td>
+                      <td colSpan={series.length} className="py-1 text-right">
+                        outside the plan
+                      </td>
+                      <td className="py-1 text-right">
+                        <Button variant="ghost" size="sm" aria-label={`Remove marker M${m + 1}`} onClick={() => setMarkers(markers.filter((x) => x !== hz))}>
+                          <X aria-hidden="true" className="h-3.5 w-3.5" />
+                        </Button>
+                      </td>
+                    </tr>
+                  );
+                }
                 return (
                   <tr key={hz} className="border-t border-rule">
                     <td className="py-1 font-mono">M{m + 1}</td>

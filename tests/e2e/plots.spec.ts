@@ -49,6 +49,14 @@ function expectPng(bytes: Buffer): { width: number; height: number } {
 }
 
 test("an engineer reads the isolation limit on the trace, exports the plots, and reads the Smith chart", async ({ page }, testInfo) => {
+  // the exports run under the app's CSP (proxy.ts): blob: images and downloads, no violation reported
+  const violations: string[] = [];
+  await page.addInitScript(() => {
+    document.addEventListener("securitypolicyviolation", (event) => console.error(`securitypolicyviolation: ${event.violatedDirective} ${event.blockedURI}`));
+  });
+  page.on("console", (message) => {
+    if (/securitypolicyviolation|Content Security Policy|Refused to (load|execute|apply|create|connect|frame)/i.test(message.text())) violations.push(message.text());
+  });
   await openBaselineCopy(page);
   const results = page.getByRole("region", { name: "Results" });
   const plot = results.locator('svg[data-plot="trace"]');
@@ -133,6 +141,13 @@ test("an engineer reads the isolation limit on the trace, exports the plots, and
   await results.getByRole("button", { name: "Add marker" }).click();
   await expect(results.getByRole("table", { name: "Markers" }).getByRole("row").nth(1)).toContainText("2.44 GHz");
   await expect(results.getByTestId("marker-error")).toHaveCount(0);
+  // by keyboard on the plot: the arrows move the read-out along the plan, Enter places a marker there
+  await plot.focus();
+  await page.keyboard.press("ArrowRight");
+  await expect(results.locator('output[aria-label="Trace read-out"]')).toContainText("2.3 GHz · S21 (TX → RX)");
+  await page.keyboard.press("ArrowRight");
+  await page.keyboard.press("Enter");
+  await expect(results.getByRole("table", { name: "Markers" }).getByRole("row").nth(2)).toContainText("2.301 GHz");
 
   // 4. the Smith chart: read-out under the pointer, zoom with the buttons, the keyboard and the wheel
   const smith = results.locator('svg[data-plot="smith"]');
@@ -188,5 +203,6 @@ test("an engineer reads the isolation limit on the trace, exports the plots, and
   expect(smithCsv.bytes.toString("utf8").split("\n")[0]).toBe("frequency (Hz),Re S11 at TX (1),Im S11 at TX (1),|S11 at TX| (1),arg S11 at TX (deg),R at TX (Ω),X at TX (Ω)");
   const smithPng = await exportFrom(page, results.getByRole("button", { name: "Export Smith chart" }), "PNG image");
   expectPng(smithPng.bytes);
+  expect(violations).toEqual([]);
   await shot(testInfo, "results-panel.png", results);
 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { niceScale, ticksWithin } from "@/lib/domain/results/ticks";
 import { clipLimitToPlan, limitLinesForTrace } from "@/lib/domain/results/limit-lines";
-import { plotToCsv, smithReadout, zoomSmith, SMITH_HOME, SMITH_MAX_ZOOM } from "@/lib/domain/results/plot-data";
+import { markerIndexInPlan, plotToCsv, smithReadout, zoomSmith, SMITH_HOME, SMITH_MAX_ZOOM } from "@/lib/domain/results/plot-data";
 import type { RuleSpec } from "@/engine/types";
 import { runPythonJson } from "../engine/reference/python";
 
@@ -213,5 +213,21 @@ describe("Smith chart read-out", () => {
     expect((0.25 - v.cy) * v.zoom).toBeCloseTo((0.25 - 0) * 1, 12);
     expect(zoomSmith(v, 1000).zoom).toBe(SMITH_MAX_ZOOM);
     expect(zoomSmith(v, 1e-6)).toEqual({ zoom: 1, cx: 0, cy: 0 });
+  });
+});
+
+describe("markers and the frequency plan", () => {
+  const plan = Float64Array.from({ length: 301 }, (_, k) => 2.3e9 + k * 1e6);
+  it("reads the nearest plan point inside the plan, edges included", () => {
+    expect(markerIndexInPlan(plan, 2.3e9)).toBe(0);
+    expect(markerIndexInPlan(plan, 2.6e9)).toBe(300);
+    expect(markerIndexInPlan(plan, 2.4504e9)).toBe(150);
+    expect(markerIndexInPlan(plan, 2.4506e9)).toBe(151);
+  });
+  it("refuses a frequency outside the plan instead of moving it to the edge", () => {
+    expect(markerIndexInPlan(plan, 2.2999e9)).toBeNull();
+    expect(markerIndexInPlan(plan, 3e9)).toBeNull();
+    expect(markerIndexInPlan(plan, Number.NaN)).toBeNull();
+    expect(markerIndexInPlan(new Float64Array(0), 2.4e9)).toBeNull();
   });
 });

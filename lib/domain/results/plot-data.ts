@@ -2,7 +2,7 @@
  * What a plot's export writes as data, and the Smith chart's read-out: pure functions, shared by the
  * results panel and any page that shows a plot (a part's traces).
  */
-import { reflectionToImpedance } from "./results-math";
+import { nearestFrequencyIndex, reflectionToImpedance } from "./results-math";
 
 function csvField(text: string): string {
   return /[",\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
@@ -89,4 +89,16 @@ function clampSmith(view: SmithView): SmithView {
   const room = SMITH_HALF_SPAN - SMITH_HALF_SPAN / view.zoom;
   const clamp = (v: number) => Math.min(room, Math.max(-room, v));
   return { zoom: view.zoom, cx: clamp(view.cx), cy: clamp(view.cy) };
+}
+
+/**
+ * The plan index a marker at `hz` reads, or null when `hz` lies outside the plan [first, last]: a marker
+ * is refused there rather than moved to the nearest edge, which would read a frequency nobody asked for.
+ * @example markerIndexInPlan(Float64Array.of(1e9, 1.5e9, 2e9), 1.6e9) // 1
+ * @example markerIndexInPlan(Float64Array.of(1e9, 1.5e9, 2e9), 3e9) // null
+ */
+export function markerIndexInPlan(frequencies: Float64Array, hz: number): number | null {
+  const n = frequencies.length;
+  if (n === 0 || !Number.isFinite(hz) || hz < frequencies[0] || hz > frequencies[n - 1]) return null;
+  return nearestFrequencyIndex(frequencies, hz);
 }
