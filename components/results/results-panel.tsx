@@ -2,7 +2,8 @@
 
 import { useMemo, useState } from "react";
 import { Download, X } from "lucide-react";
-import type { Scenario } from "@/engine/types";
+import type { RuleSpec, Scenario } from "@/engine/types";
+import { effectiveRuleSet, judgingRules } from "@/engine/checks/rule-set";
 import { Alert, Badge, Button, EmptyState, Input, Select, Spinner } from "@/components/ui";
 import { writeCompositeTouchstone } from "@/engine/touchstone";
 import { downloadText as download } from "@/lib/browser/downloads";
@@ -18,6 +19,8 @@ import {
   traceValues,
   type TraceQuantity,
 } from "@/lib/domain/results/results-math";
+import { limitLinesForTrace, type LimitLine } from "@/lib/domain/results/limit-lines";
+import { markerIndexInPlan } from "@/lib/domain/results/plot-data";
 import type { SolverState } from "@/lib/browser/use-solver";
 import { PortMatrix } from "./port-matrix";
 import { SmithChart } from "./smith-chart";
@@ -26,12 +29,14 @@ import { TracePlot } from "./trace-plot";
 export type ResultsPanelProps = {
   scenario: Scenario;
   state: SolverState;
+  /** the project's rules: with the scenario's own, overrides and opt-outs they give the limit lines on traces */
+  projectRules?: readonly RuleSpec[];
 };
 
 const QUANTITY_LABEL: Record<TraceQuantity, string> = { db: "Magnitude (dB)", phase: "Phase (deg)", delay: "Group delay (ns)" };
 
 /** Traces, markers, the port matrix, the Smith chart, warnings and downloads of the latest solve. */
-export function ResultsPanel({ scenario, state }: ResultsPanelProps) {
+export function ResultsPanel({ scenario, state, projectRules }: ResultsPanelProps) {
   if (state.status === "empty") {
     return (
       <EmptyState
@@ -55,7 +60,7 @@ export function ResultsPanel({ scenario, state }: ResultsPanelProps) {
           </span>
         </Alert>
       ) : null}
-      {result ? <SolvedResults key={result.view.ports.join("\u0000")} scenario={scenario} result={result} stale={state.status !== "done"} /> : null}
+      {result ? <SolvedResults key={result.view.ports.join("\u0000")} scenario={scenario} projectRules={projectRules} result={result} stale={state.status !== "done"} /> : null}
       {!result && state.status === "solving" ? <Spinner label="Solving" /> : null}
     </div>
   );
@@ -89,7 +94,7 @@ function StatusLine({ state }: { state: SolverState }) {
 
 type Solved = Extract<SolverState, { status: "done" }>["result"];
 
-function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result: Solved; stale: boolean }) {
+function SolvedResults({ scenario, projectRules, result, stale }: { scenario: Scenario; projectRules?: readonly RuleSpec[]; result: Solved; stale: boolean }) {
   const view = result.view;
   const n = view.s.n;
   const [pair, setPair] = useState<[number, number]>(n > 1 ? [1, 0] : [0, 0]);
@@ -112,10 +117,22 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
     () => shownPairs.map(([a, b]) => ({ label: traceLabel(view.ports, a, b), values: traceValues(view, a, b, quantity) })),
     [shownPairs, view, quantity],
   );
+  // the effective rules (docs/checks.md): each that bounds a shown trace draws its limit on the plot
+  const rules = useMemo(() => judgingRules(effectiveRuleSet(projectRules ?? [], scenario)), [projectRules, scenario]);
+  const limits = useMemo(() => {
+    const out: LimitLine[] = [];
+    for (const pairShown of shownPairs) {
+      for (const line of limitLinesForTrace(rules, view.ports, pairShown, quantity)) {
+        if (!out.some((o) => o.rule === line.rule && o.db === line.db)) out.push(line);
+      }
+    }
+    return out;
+  }, [rules, view.ports, shownPairs, quantity]);
   const values = series[0].values;
   const label = series[0].label;
   const unit = TRACE_UNITS[quantity];
-  const markerIdx = useMemo(() => markers.map((hz) => nearestFrequencyIndex(view.frequencies, hz)), [markers, view]);
+  // a marker the plan no longer holds (the plan was narrowed) reads nothing rather than the nearest edge
+  const markerIdx = useMemo(() => markers.map((hz) => markerIndexInPlan(view.frequencies, hz) ?? -1), [markers, view]);
   const matrixIndex = nearestFrequencyIndex(view.frequencies, matrixHz);
 
   const options = [];
@@ -207,6 +224,8 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
           markers={markerIdx}
           onHover={setHover}
           onPick={(k) => addMarkerAt(view.frequencies[k])}
+          limits={limits}
+          exportStem={`${fileStem(scenario.name)}-traces`}
         />
         <output aria-label="Trace read-out" className="figures min-h-5 text-xs text-ink">
           {readout}
@@ -219,6 +238,13 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
             const r = evaluateQuantity(markerText, "Hz");
             if (!r.ok || typeof r.value !== "number") {
               setMarkerError(r.ok ? "Enter a frequency." : r.error);
+              return;
+            }
+            const first = view.frequencies[0];
+            const last = view.frequencies[view.s.nf - 1];
+            // refused, not moved to the nearest edge: a marker must read a frequency the plan solved
+            if (markerIndexInPlan(view.frequencies, r.value) === null) {
+              setMarkerError(`${formatHz(r.value)} is outside the frequency plan (${formatHz(first)} to ${formatHz(last)}): place the marker within it, or widen the plan.`);
               return;
             }
             setMarkerError(null);
@@ -235,7 +261,11 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
               aria-invalid={markerError ? true : undefined}
               onChange={(e) => setMarkerText(e.target.value)}
             />
-            {markerError ? <p className="text-xs text-fail-strong">{markerError}</p> : null}
+            {markerError ? (
+              <p role="alert" className="text-xs text-fail-strong" data-testid="marker-error">
+                {markerError}
+              </p>
+            ) : null}
           </div>
           <Button type="submit" variant="secondary" size="md">
             Add marker
@@ -267,6 +297,22 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
             <tbody>
               {markers.map((hz, m) => {
                 const k = markerIdx[m];
+                if (k < 0) {
+                  return (
+                    <tr key={hz} className="border-t border-rule text-muted">
+                      <td className="py-1 font-mono">M{m + 1}</td>
+                      <td className="figures py-1 text-right">{formatHz(hz)}</td>
+                      <td colSpan={series.length} className="py-1 text-right">
+                        outside the plan
+                      </td>
+                      <td className="py-1 text-right">
+                        <Button variant="ghost" size="sm" aria-label={`Remove marker M${m + 1}`} onClick={() => setMarkers(markers.filter((x) => x !== hz))}>
+                          <X aria-hidden="true" className="h-3.5 w-3.5" />
+                        </Button>
+                      </td>
+                    </tr>
+                  );
+                }
                 return (
                   <tr key={hz} className="border-t border-rule">
                     <td className="py-1 font-mono">M{m + 1}</td>
@@ -318,7 +364,7 @@ function SolvedResults({ scenario, result, stale }: { scenario: Scenario; result
             />
           </label>
         </div>
-        <SmithChart view={view} port={Math.min(smithPort, n - 1)} highlight={matrixIndex} />
+        <SmithChart view={view} port={Math.min(smithPort, n - 1)} highlight={matrixIndex} exportStem={`${fileStem(scenario.name)}-smith-${fileStem(view.ports[Math.min(smithPort, n - 1)])}`} />
       </section>
 
       <Warnings result={result} z0={scenario.z0} />

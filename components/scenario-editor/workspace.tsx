@@ -3,7 +3,7 @@
 import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, type ReactNode } from "react";
 import { ReactFlowProvider, useReactFlow } from "@xyflow/react";
 import { Copy, ClipboardPaste, Maximize, Plus, Redo2, Trash2, Undo2 } from "lucide-react";
-import type { PortRef, Scenario } from "@/engine/types";
+import type { PortRef, RuleSpec, Scenario } from "@/engine/types";
 import { Badge, Button, Kbd, Spinner } from "@/components/ui";
 import { cn } from "@/components/ui/cn";
 import { AddBlockPalette, ScenarioChart, CARD_WIDTH, type AddBlockChoice, type ChartSelection } from "@/components/chart";
@@ -48,6 +48,8 @@ export type WorkspaceProps = {
   toolbarExtras?: ReactNode;
   /** blocks and block ports to mark on the chart (a leak path from the checks) */
   highlight?: { blocks: string[]; ports: PortRef[] } | null;
+  /** the project's rules, for the limit lines on the results' traces */
+  projectRules?: readonly RuleSpec[];
 };
 
 const EMPTY_SELECTION: ChartSelection = { blocks: [], links: [] };
@@ -68,7 +70,7 @@ function isEditable(target: EventTarget | null): boolean {
   return tag === "INPUT" || tag === "TEXTAREA" || tag === "SELECT" || target.closest("[role=dialog],[role=menu]") !== null;
 }
 
-function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolbarExtras, highlight }: WorkspaceProps) {
+function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolbarExtras, highlight, projectRules }: WorkspaceProps) {
   const flow = useReactFlow();
   const root = useRef<HTMLDivElement>(null);
   const chartBox = useRef<HTMLDivElement>(null);
@@ -398,7 +400,7 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
 
         <section aria-label="Results" className="min-h-0 overflow-y-auto rounded-card border border-rule bg-surface/60 p-3 lg:col-span-2 2xl:col-span-1">
           <h2 className="mb-2 text-base font-semibold text-ink">Results</h2>
-          <ResultsPanel scenario={scenario} state={solver} />
+          <ResultsPanel scenario={scenario} state={solver} projectRules={projectRules} />
         </section>
       </div>
 

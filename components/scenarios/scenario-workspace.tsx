@@ -19,6 +19,7 @@ import { parsePinnedPartPath, pinnedPartPath } from "@/engine/system/parts";
 import { RevisionHistory } from "./revision-history";
 import { useAutosave } from "./use-autosave";
 import type { PartView } from "@/lib/domain/parts/types";
+import type { RuleSpec } from "@/engine/types";
 import type { RevisionView, ScenarioView } from "@/lib/domain/scenarios/types";
 
 export type ScenarioWorkspaceProps = {
@@ -62,6 +63,9 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
     Object.fromEntries(initialParts.flatMap((p) => [...(p.text !== undefined ? [[pinnedPartPath(`parts/${p.fileName}`, p.partVersion), p.text]] : []), ...Object.entries(p.pinnedTexts ?? {})])),
   );
   const [textError, setTextError] = useState<string | null>(null);
+  // the same request as the rules panel's (SWR shares it): the results draw these rules' limit lines
+  const { data: rulesData } = useSWR<{ rules: { spec: RuleSpec }[] }>(`/api/projects/${projectId}/rules`, fetchJson, { revalidateOnFocus: true });
+  const projectRules = useMemo(() => (rulesData?.rules ?? []).map((r) => r.spec), [rulesData]);
   const requested = useRef(new Set<string>(Object.keys(texts)));
   const neededFiles = useMemo(() => partFilesOf(draft).join("\n"), [draft]);
   useEffect(() => {
@@ -205,7 +209,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
         />
       ) : null}
       <div className="min-h-[680px] 2xl:h-[calc(100vh-13rem)]">
-        <Workspace key={generation} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} />
+        <Workspace key={generation} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} projectRules={projectRules} />
       </div>
       <ScenarioRulesPanel projectId={projectId} scenario={draft} onChange={onChange} readOnly={readOnly} />
       <ScenarioChecks

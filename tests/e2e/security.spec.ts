@@ -50,10 +50,10 @@ test("the workspace works under the Content-Security-Policy with no violations",
   // Served over http here, so no HSTS.
   expect(headers["strict-transport-security"]).toBeUndefined();
 
-  // React Flow drew the blocks, the engine worker solved, and uPlot drew the results into its canvas.
+  // React Flow drew the blocks, the engine worker solved, and the results drew their trace plot (SVG).
   await expect(page.locator('[aria-label^="Block "]').first()).toBeVisible();
   const results = page.getByRole("region", { name: "Results" });
-  await expect(results.locator(".uplot canvas").first()).toBeVisible();
+  await expect(results.locator('svg[data-plot="trace"]').first()).toBeVisible();
   // The shipped fonts loaded from our own origin.
   const fontsLoaded = await page.evaluate(async () => {
     await document.fonts.ready;
