@@ -12,7 +12,7 @@ const isDev = process.env.NODE_ENV === "development";
 
 /**
  * Scripts only with this request's nonce ('strict-dynamic' lets Next's own chunks load theirs); styles
- * from our files or with the nonce, plus style attributes, which React Flow and uPlot set for positions
+ * from our files or with the nonce, plus style attributes, which React Flow and the plots set for positions
  * and sizes; fonts, images and the engine's Web Worker from this origin only; never framed.
  */
 export function contentSecurityPolicy(nonce: string, https: boolean): string {

@@ -1,7 +1,7 @@
 import { expect as baseExpect, test, type Page } from "@playwright/test";
 import { signInAs } from "./helpers";
 
-// The app under its Content-Security-Policy (proxy.ts): the workspace (React Flow chart, uPlot results,
+// The app under its Content-Security-Policy (proxy.ts): the workspace (React Flow chart, SVG result plots,
 // the engine's Web Worker, the shipped fonts) and the Account page work, and the browser reports no CSP
 // violation. Also the headers on a page and the 404 status of a project page for a non-member.
 
