@@ -111,7 +111,7 @@ export function WorkspacePanes({ frame, chart, inspector, results, side }: Works
   if (frame === "wide") {
     return (
       <RememberedGroup id={side ? "wide" : "wide-no-side"} orientation="horizontal">
-        <Panel id="pane-main" defaultSize="56%" minSize="30%">
+        <Panel id="pane-main" defaultSize="50%" minSize="30%">
           <RememberedGroup id="wide-main" orientation="vertical">
             <Panel id="pane-chart" defaultSize="60%" minSize="20%">
               {chart}
@@ -123,13 +123,13 @@ export function WorkspacePanes({ frame, chart, inspector, results, side }: Works
           </RememberedGroup>
         </Panel>
         <PaneHandle label="Resize chart and inspector" across="vertical" />
-        <Panel id="pane-inspector" defaultSize={side ? "20%" : "44%"} minSize="14%">
+        <Panel id="pane-inspector" defaultSize={side ? "22%" : "50%"} minSize="14%">
           {inspector}
         </Panel>
         {side ? (
           <>
             <PaneHandle label="Resize inspector and checks" across="vertical" />
-            <Panel id="pane-side" defaultSize="24%" minSize="14%">
+            <Panel id="pane-side" defaultSize="28%" minSize="14%">
               {side}
             </Panel>
           </>
