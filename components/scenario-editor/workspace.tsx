@@ -77,6 +77,7 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
   // below 700 px the chart cannot be worked on; the scenario reads as a list, the chart is one toggle away
   const [narrowView, setNarrowView] = useState<"list" | "chart">("list");
   const openHelm = useHelmOpener();
+  const narrowInspector = useRef<HTMLDivElement>(null);
   const flow = useReactFlow();
   const root = useRef<HTMLDivElement>(null);
   const chartBox = useRef<HTMLDivElement>(null);
@@ -459,10 +460,21 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
         <div className="flex min-w-0 flex-col gap-3">
           {narrowView === "chart" ? <div className="h-[60vh] min-h-[320px]">{chartPane}</div> : (
             <div className="rounded-card border border-rule bg-surface/60 p-3">
-              <ScenarioListView scenario={scenario} parts={parts} selected={single} onSelect={(id) => setSelection({ blocks: [id], links: [] })} />
+              <ScenarioListView
+                scenario={scenario}
+                parts={parts}
+                selected={single}
+                onSelect={(id) => {
+                  setSelection({ blocks: [id], links: [] });
+                  // the inspector is below the list here: bring the chosen block's fields into view
+                  window.setTimeout(() => narrowInspector.current?.scrollIntoView({ block: "start" }), 50);
+                }}
+              />
             </div>
           )}
-          <div className="max-h-[80vh]">{inspectorPane}</div>
+          <div ref={narrowInspector} className="scroll-mt-2">
+            {inspectorPane}
+          </div>
           {resultsPane}
           {side}
         </div>

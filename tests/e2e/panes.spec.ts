@@ -173,7 +173,11 @@ test.describe("at 390×844", () => {
 
     // a block from the list opens in the inspector
     await blocks.getByRole("button", { name: /^CPL/ }).click();
-    await expect(page.getByRole("region", { name: "Inspector for CPL" })).toBeVisible();
+    const cpl = page.getByRole("region", { name: "Inspector for CPL" });
+    await expect(cpl).toBeVisible();
+    // brought into view below the list
+    await expect.poll(async () => (await cpl.boundingBox())!.y).toBeLessThan(844);
+    await expect.poll(async () => (await cpl.boundingBox())!.y).toBeGreaterThanOrEqual(0);
 
     const widths = () => page.evaluate(() => ({ scroll: document.scrollingElement!.scrollWidth, inner: window.innerWidth }));
     let w = await widths();
