@@ -128,8 +128,9 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
 
   // the checks pane: what is decided on the saved revision (history, checks, rules, sign-off)
   const side = (
-    // data-workspace-keys="off": the chart's single keys (A, F, Delete) do not act from here
-    <PaneBox aria-label="Checks and sign-off" data-workspace-keys="off" className="flex flex-col gap-3 p-2">
+    // data-workspace-keys="off": the chart's single keys (A, F, Delete) do not act from here. Its name
+    // says neither "checks" nor "sign-off", which name the regions inside it.
+    <PaneBox aria-label="Verdicts and review" data-workspace-keys="off" className="flex flex-col gap-3 p-2">
       {historyOpen ? (
         <RevisionHistory
           projectId={projectId}

@@ -69,7 +69,7 @@ for (const viewport of [
       await expectOnScreen(page, inspector(page), "inspector");
       await expectOnScreen(page, results(page), "results pane");
       await expect(results(page).getByRole("button", { name: /^S21 \(TX → RX\)/ })).toBeVisible();
-      await expectOnScreen(page, page.getByRole("region", { name: "Checks and sign-off" }), "checks pane");
+      await expectOnScreen(page, page.getByRole("region", { name: "Verdicts and review" }), "checks pane");
       await expectOnScreen(page, checks(page).getByRole("heading", { name: "Checks" }), "checks heading");
       await expectNoPageScroll(page);
       await shot(page, testInfo, `workspace-${viewport.width}x${viewport.height}`);
