@@ -89,9 +89,15 @@ function PaneHandle({ label, across }: { label: string; across: "vertical" | "ho
 }
 
 /** A pane's frame: it scrolls on its own, never the page. A region (section) unless `as` says aside. */
-export function PaneBox({ as: Tag = "section", children, className, ...rest }: { as?: "section" | "aside"; children: ReactNode; className?: string } & HTMLAttributes<HTMLElement>) {
+export function PaneBox({
+  as: Tag = "section",
+  dense = false,
+  children,
+  className,
+  ...rest
+}: { as?: "section" | "aside"; dense?: boolean; children: ReactNode; className?: string } & HTMLAttributes<HTMLElement>) {
   return (
-    <Tag {...rest} className={cn("h-full min-h-0 overflow-auto rounded-card border border-rule bg-surface/60 p-3", className)}>
+    <Tag {...rest} className={cn("h-full min-h-0 overflow-auto rounded-card border border-rule bg-surface/60", dense ? "p-2" : "p-3", className)}>
       {children}
     </Tag>
   );

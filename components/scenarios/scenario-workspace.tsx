@@ -130,7 +130,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
   const side = (
     // data-workspace-keys="off": the chart's single keys (A, F, Delete) do not act from here. Its name
     // says neither "checks" nor "sign-off", which name the regions inside it.
-    <PaneBox aria-label="Verdicts and review" data-workspace-keys="off" className="flex flex-col gap-3 p-2">
+    <PaneBox aria-label="Verdicts and review" data-workspace-keys="off" dense className="flex flex-col gap-3">
       {historyOpen ? (
         <RevisionHistory
           projectId={projectId}
