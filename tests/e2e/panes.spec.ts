@@ -16,7 +16,11 @@ function overlaps(a: Box, b: Box): boolean {
   return a.x < b.x + b.width && b.x < a.x + a.width && a.y < b.y + b.height && b.y < a.y + a.height;
 }
 
-async function openBaseline(page: Page): Promise<void> {
+/**
+ * Opens the demo's Baseline, or (with `copyName`) a copy of it made for this story, so that the story's
+ * edits leave the demo as the other specs expect it.
+ */
+async function openBaseline(page: Page, copyName?: string): Promise<void> {
   await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);
   await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 60_000 });
   const { projects } = (await (await page.request.get("/api/projects")).json()) as { projects: { id: string; name: string }[] };
@@ -25,7 +29,16 @@ async function openBaseline(page: Page): Promise<void> {
   const { scenarios } = (await (await page.request.get(`/api/projects/${project!.id}/scenarios`)).json()) as { scenarios: { id: string; name: string }[] };
   const baseline = scenarios.find((s) => s.name === "Baseline");
   expect(baseline).toBeDefined();
-  await page.goto(`/projects/${project!.id}/scenarios/${baseline!.id}`);
+  let id = baseline!.id;
+  if (copyName) {
+    const response = await page.request.post(`/api/projects/${project!.id}/scenarios/${id}/duplicate`, {
+      data: { name: copyName },
+      headers: { origin: new URL(page.url()).origin },
+    });
+    expect(response.status()).toBe(201);
+    id = ((await response.json()) as { scenario: { id: string } }).scenario.id;
+  }
+  await page.goto(`/projects/${project!.id}/scenarios/${id}`);
   await expect(page.getByTestId("workspace")).toBeVisible();
 }
 
@@ -64,7 +77,7 @@ for (const viewport of [
     test.use({ viewport });
 
     test("chart, inspector, results and checks on one screen; no page scroll; the helm button covers no field; the plan one tab away", async ({ page }, testInfo) => {
-      await openBaseline(page);
+      await openBaseline(page, `Panes story ${viewport.width}`);
       await expectOnScreen(page, chart(page), "chart");
       await expectOnScreen(page, inspector(page), "inspector");
       await expectOnScreen(page, results(page), "results pane");
@@ -80,14 +93,14 @@ for (const viewport of [
       await expect(page.getByRole("toolbar", { name: "Workspace" }).getByRole("button", { name: /^Helm/ })).toBeVisible();
 
       // a block selected: its fields in view, none under the helm button, the page still not scrolling
-      await page.getByTestId("workspace").locator('.react-flow__node[data-id="CPL"]').click();
-      const cpl = page.getByRole("region", { name: "Inspector for CPL" });
-      await expect(cpl).toBeVisible();
+      await page.getByTestId("workspace").locator('.react-flow__node[data-id="TERM"]').click();
+      const term = page.getByRole("region", { name: "Inspector for TERM" });
+      await expect(term).toBeVisible();
       await expectNoPageScroll(page);
       const helmBox = (await helmButtons.boundingBox())!;
       const fields = inspector(page).locator("input, select, textarea");
       const count = await fields.count();
-      expect(count).toBeGreaterThan(2);
+      expect(count).toBeGreaterThan(1);
       for (let i = 0; i < count; i++) {
         const box = await fields.nth(i).boundingBox();
         if (box) expect(overlaps(helmBox, box), `helm button over inspector field ${i}`).toBe(false);
@@ -97,10 +110,9 @@ for (const viewport of [
       const chartBefore = (await chart(page).boundingBox())!;
       const revision = page.getByLabel("Revision", { exact: true });
       const revisionBefore = await revision.innerText();
-      const coupling = cpl.getByLabel(/^Coupling/);
-      // a value of its own per viewport (the stories share one database)
-      await coupling.fill(viewport.width === 1440 ? "18" : "19");
-      await coupling.press("Tab");
+      const returnLoss = term.getByLabel(/^Return loss/);
+      await returnLoss.fill("24");
+      await returnLoss.press("Tab");
       // the edit is saved as a new revision (autosave)
       await expect(revision).not.toHaveText(revisionBefore);
       const chartAfter = (await chart(page).boundingBox())!;
@@ -108,14 +120,14 @@ for (const viewport of [
       expect(chartAfter.height).toBeCloseTo(chartBefore.height, 0);
       await expectNoPageScroll(page);
 
-      // the frequency plan while CPL stays selected
+      // the frequency plan while TERM stays selected
       await inspector(page).getByRole("tab", { name: "Plan and Z0" }).click();
       await expect(inspector(page).getByRole("heading", { name: "Frequency plan" })).toBeVisible();
       await expectOnScreen(page, inspector(page).getByRole("form", { name: "Frequency plan" }).getByLabel(/^Start/), "plan start field");
-      await expect(page.getByTestId("workspace").locator('.react-flow__node[data-id="CPL"].selected')).toHaveCount(1);
+      await expect(page.getByTestId("workspace").locator('.react-flow__node[data-id="TERM"].selected')).toHaveCount(1);
       await shot(page, testInfo, `plan-with-block-selected-${viewport.width}x${viewport.height}`);
       await inspector(page).getByRole("tab", { name: "Block" }).click();
-      await expect(cpl).toBeVisible();
+      await expect(term).toBeVisible();
     });
   });
 }
@@ -163,21 +175,21 @@ test.describe("at 390×844", () => {
     await expect(chart(page)).toHaveCount(0);
     const blocks = list.getByRole("list", { name: "Blocks" });
     await expect(blocks.getByRole("listitem")).toHaveCount(9);
-    await expect(blocks).toContainText("CPL");
-    await expect(blocks).toContainText("Directional coupler");
-    await expect(blocks).toContainText(/Coupling\d+(\.\d+)? dB/);
+    await expect(blocks).toContainText("TERM");
+    await expect(blocks).toContainText("Load");
+    await expect(blocks).toContainText(/Return loss\d+(\.\d+)? dB/);
     await expect(list.getByRole("list", { name: "Links" })).toContainText("DRV:2");
     await expect(list.getByRole("list", { name: "System ports" })).toContainText("TX at DRV:1");
     await expect(results(page).getByRole("button", { name: /^S21 \(TX → RX\)/ })).toBeAttached();
     await expect(checks(page)).toBeAttached();
 
     // a block from the list opens in the inspector
-    await blocks.getByRole("button", { name: /^CPL/ }).click();
-    const cpl = page.getByRole("region", { name: "Inspector for CPL" });
-    await expect(cpl).toBeVisible();
+    await blocks.getByRole("button", { name: /^TERM/ }).click();
+    const term = page.getByRole("region", { name: "Inspector for TERM" });
+    await expect(term).toBeVisible();
     // brought into view below the list
-    await expect.poll(async () => (await cpl.boundingBox())!.y).toBeLessThan(844);
-    await expect.poll(async () => (await cpl.boundingBox())!.y).toBeGreaterThanOrEqual(0);
+    await expect.poll(async () => (await term.boundingBox())!.y).toBeLessThan(844);
+    await expect.poll(async () => (await term.boundingBox())!.y).toBeGreaterThanOrEqual(0);
 
     const widths = () => page.evaluate(() => ({ scroll: document.scrollingElement!.scrollWidth, inner: window.innerWidth }));
     let w = await widths();
