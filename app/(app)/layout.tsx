@@ -10,7 +10,7 @@ export default async function WorkspaceLayout({ children }: { children: ReactNod
   const user = await requireUser();
   return (
     <HelmProvider>
-      <div className="flex min-h-dvh flex-col">
+      <div data-app-frame className="flex min-h-dvh flex-col">
         <AppHeader user={user} signOutAction={signOutAction} showOutbox={isOutboxAvailable()} />
         <main id={MAIN_CONTENT_ID} tabIndex={-1} className="mx-auto flex w-full outline-none max-w-[96rem] flex-1 flex-col px-4 py-6 sm:px-6">
           {children}

@@ -42,7 +42,7 @@ export function ChecksPanel(props: ChecksPanelProps) {
   const { data: one, error: oneError } = useSWR<{ run: Run }>(selectedRunId ? checkRunUrls.one(projectId, scenarioId, selectedRunId) : null, fetchJson);
   const runs = list?.runs ?? [];
   return (
-    <section aria-labelledby="checks-heading" id="checks" className="flex flex-col gap-3 rounded-card border border-rule bg-surface/60 p-3">
+    <section aria-labelledby="checks-heading" id="checks" className="@container flex flex-col gap-3 rounded-card border border-rule bg-surface/60 p-3">
       <div className="flex flex-wrap items-center gap-2">
         <h2 id="checks-heading" className="text-base font-semibold">
           Checks
@@ -64,7 +64,8 @@ export function ChecksPanel(props: ChecksPanelProps) {
           {error}
         </Alert>
       ) : null}
-      <div className="grid gap-3 xl:grid-cols-[minmax(0,1fr)_18rem]">
+      {/* side by side when the checks pane (not the window) is wide enough: the pane can be narrow on a wide screen */}
+      <div className="grid gap-3 @2xl:grid-cols-[minmax(0,1fr)_18rem]">
         <div className="min-w-0">
           {one?.run ? (
             <div className="flex flex-col gap-2">

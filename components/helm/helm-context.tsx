@@ -40,10 +40,17 @@ type HelmRegistry = {
   version: number;
   open: boolean;
   setOpen: (open: boolean) => void;
+  /** a page shows its own helm button (the workspace toolbar), so the floating one stays away */
+  docked: boolean;
+  /** the Helm lends its "open afresh" here, for the docked buttons */
+  setOpener: (open: (() => void) | null) => void;
 };
+
+type HelmOpener = { open: () => void; dock: () => () => void };
 
 const RegistryContext = createContext<HelmRegistry | null>(null);
 const RegisterContext = createContext<((actions: HelmScenarioActions | null) => void) | null>(null);
+const OpenerContext = createContext<HelmOpener | null>(null);
 
 /** Holds the helm's state for every signed-in page; mounted once in the workspace layout. */
 export function HelmProvider({ children }: { children: ReactNode }) {
@@ -55,10 +62,30 @@ export function HelmProvider({ children }: { children: ReactNode }) {
     ref.current = actions;
     if (hadOne !== (actions !== null)) setVersion((v) => v + 1);
   }, []);
-  const value = useMemo<HelmRegistry>(() => ({ current: () => ref.current, register, version, open, setOpen }), [register, version, open]);
+  const openerRef = useRef<(() => void) | null>(null);
+  const [docks, setDocks] = useState(0);
+  const setOpener = useCallback((fn: (() => void) | null) => {
+    openerRef.current = fn;
+  }, []);
+  const opener = useMemo<HelmOpener>(
+    () => ({
+      open: () => (openerRef.current ? openerRef.current() : setOpen(true)),
+      dock: () => {
+        setDocks((n) => n + 1);
+        return () => setDocks((n) => n - 1);
+      },
+    }),
+    [],
+  );
+  const value = useMemo<HelmRegistry>(
+    () => ({ current: () => ref.current, register, version, open, setOpen, docked: docks > 0, setOpener }),
+    [register, version, open, docks, setOpener],
+  );
   return (
     <RegisterContext.Provider value={register}>
-      <RegistryContext.Provider value={value}>{children}</RegistryContext.Provider>
+      <OpenerContext.Provider value={opener}>
+        <RegistryContext.Provider value={value}>{children}</RegistryContext.Provider>
+      </OpenerContext.Provider>
     </RegisterContext.Provider>
   );
 }
@@ -80,4 +107,14 @@ export function useHelmScenario(actions: HelmScenarioActions | null): void {
     register?.(actions);
   });
   useEffect(() => () => register?.(null), [register]);
+}
+
+/**
+ * For a page that shows its own helm button: returns what opens the helm (null without a HelmProvider,
+ * e.g. in unit tests) and, while mounted, keeps the floating helm button away.
+ */
+export function useHelmOpener(): (() => void) | null {
+  const opener = useContext(OpenerContext);
+  useEffect(() => opener?.dock(), [opener]);
+  return opener?.open ?? null;
 }

@@ -35,7 +35,7 @@ function projectIdFrom(pathname: string): string | null {
 export function Helm() {
   const router = useRouter();
   const pathname = usePathname() ?? "";
-  const { current, version, open, setOpen } = useHelmRegistry();
+  const { current, version, open, setOpen, docked, setOpener } = useHelmRegistry();
   const [search, setSearch] = useState("");
   const [pending, setPending] = useState<Pending | null>(null);
   const [error, setError] = useState<string | null>(null);
@@ -80,6 +80,11 @@ export function Helm() {
     },
     [setOpen],
   );
+
+  useEffect(() => {
+    setOpener(() => changeOpen(true));
+    return () => setOpener(null);
+  }, [changeOpen, setOpener]);
 
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
@@ -177,19 +182,21 @@ export function Helm() {
 
   return (
     <>
-      <button
-        type="button"
-        onClick={() => changeOpen(true)}
-        title="Open the helm (Ctrl+K)"
-        aria-keyshortcuts="Control+K Meta+K"
-        className="fixed right-4 bottom-4 z-30 inline-flex items-center gap-2 rounded-full border-[1.5px] border-ink bg-surface px-3 py-1.5 text-sm text-ink shadow-[2px_2px_0_0_var(--pt-rule)] hover:bg-sunken focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-focus"
-      >
-        <Compass aria-hidden="true" className="h-4 w-4" /> Helm
-        <span className="flex gap-0.5" aria-hidden="true">
-          <Kbd>Ctrl</Kbd>
-          <Kbd>K</Kbd>
-        </span>
-      </button>
+      {docked ? null : (
+        <button
+          type="button"
+          onClick={() => changeOpen(true)}
+          title="Open the helm (Ctrl+K)"
+          aria-keyshortcuts="Control+K Meta+K"
+          className="fixed right-4 bottom-4 z-30 inline-flex items-center gap-2 rounded-full border-[1.5px] border-ink bg-surface px-3 py-1.5 text-sm text-ink shadow-[2px_2px_0_0_var(--pt-rule)] hover:bg-sunken focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-focus"
+        >
+          <Compass aria-hidden="true" className="h-4 w-4" /> Helm
+          <span className="flex gap-0.5" aria-hidden="true">
+            <Kbd>Ctrl</Kbd>
+            <Kbd>K</Kbd>
+          </span>
+        </button>
+      )}
       <Command.Dialog
         open={open}
         onOpenChange={changeOpen}

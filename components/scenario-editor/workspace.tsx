@@ -2,13 +2,14 @@
 
 import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, type ReactNode } from "react";
 import { ReactFlowProvider, useReactFlow } from "@xyflow/react";
-import { Copy, ClipboardPaste, Maximize, Plus, Redo2, Trash2, Undo2 } from "lucide-react";
+import { Compass, Copy, ClipboardPaste, List, Maximize, Network, Plus, Redo2, Trash2, Undo2 } from "lucide-react";
 import type { PortRef, RuleSpec, Scenario } from "@/engine/types";
-import { Badge, Button, Kbd, Spinner } from "@/components/ui";
+import { Badge, Button, Kbd, Spinner, Tabs } from "@/components/ui";
 import { cn } from "@/components/ui/cn";
 import { AddBlockPalette, ScenarioChart, CARD_WIDTH, type AddBlockChoice, type ChartSelection } from "@/components/chart";
 import { BlockInspector, ScenarioPanel } from "@/components/inspector";
 import { ResultsPanel } from "@/components/results";
+import { useHelmOpener } from "@/components/helm/helm-context";
 import { resolveVariables } from "@/lib/browser/expressions";
 import { useExpressionsReady } from "@/lib/browser/use-expressions-ready";
 import { createHistory, recordEdit, redo, undo, type History } from "@/lib/browser/history";
@@ -31,6 +32,8 @@ import {
 import { useSolver } from "@/lib/browser/use-solver";
 import { PortMenu, type PortMenuAction } from "./port-menu";
 import { ShortcutSheet } from "./shortcut-sheet";
+import { ScenarioListView } from "./scenario-list-view";
+import { PaneBox, WorkspacePanes, useWorkspaceFrame } from "./workspace-panes";
 
 export type SaveState = "saved" | "unsaved" | "saving" | "conflict" | "error";
 
@@ -50,6 +53,8 @@ export type WorkspaceProps = {
   highlight?: { blocks: string[]; ports: PortRef[] } | null;
   /** the project's rules, for the limit lines on the results' traces */
   projectRules?: readonly RuleSpec[];
+  /** the checks column from the host page (checks, rules, sign-off): a pane beside or below the results */
+  side?: ReactNode;
 };
 
 const EMPTY_SELECTION: ChartSelection = { blocks: [], links: [] };
@@ -70,7 +75,12 @@ function isEditable(target: EventTarget | null): boolean {
   return tag === "INPUT" || tag === "TEXTAREA" || tag === "SELECT" || target.closest("[role=dialog],[role=menu]") !== null;
 }
 
-function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolbarExtras, highlight, projectRules }: WorkspaceProps) {
+function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolbarExtras, highlight, side, projectRules }: WorkspaceProps) {
+  const frame = useWorkspaceFrame();
+  // below 700 px the chart cannot be worked on; the scenario reads as a list, the chart is one toggle away
+  const [narrowView, setNarrowView] = useState<"list" | "chart">("list");
+  const openHelm = useHelmOpener();
+  const narrowInspector = useRef<HTMLDivElement>(null);
   const flow = useReactFlow();
   const root = useRef<HTMLDivElement>(null);
   const chartBox = useRef<HTMLDivElement>(null);
@@ -204,6 +214,8 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
       // a click on the chart's background focuses the nearest focusable ancestor (the page's <main>, a
       // skip-link target), so keys whose target contains the workspace count as the workspace's too
       const target = e.target as Node;
+      // the checks pane sits inside the workspace but its buttons are not the chart's
+      if (target instanceof Element && target.closest('[data-workspace-keys="off"]')) return;
       const inside = root.current?.contains(target) || target === document.body || (root.current !== null && target.contains(root.current));
       if (!inside) return;
       const mod = e.ctrlKey || e.metaKey;
@@ -288,8 +300,90 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
 
   const single = live.blocks.length === 1 ? live.blocks[0] : null;
 
+  // with a block selected the inspector shows it, and the scenario's settings (frequency plan, system Z0,
+  // variables) stay one tab away; choosing another block brings its own tab back
+  const [planFor, setPlanFor] = useState<string | null>(null);
+  const inspectorTab = single !== null && planFor === single ? "scenario" : "block";
+
+  const scenarioPanel = <ScenarioPanel scenario={scenario} readOnly={readOnly} resetToken={resetToken} commit={commit} />;
+  const chartPane = (
+    <div ref={chartBox} className="relative h-full min-h-0 overflow-hidden rounded-card border border-rule-strong">
+      <ScenarioChart
+        scenario={scenario}
+        parts={parts}
+        readOnly={readOnly}
+        selection={live}
+        onSelectionChange={setSelection}
+        onMoveBlocks={onMoveBlocks}
+        onLink={onLink}
+        onSetSwitch={onSetSwitch}
+        onPortMenu={onPortMenu}
+        highlight={highlight}
+      />
+      {scenario.blocks.length === 0 ? (
+        <div className="pointer-events-none absolute inset-0 flex items-center justify-center">
+          <p className="rounded-card border border-dashed border-rule-strong bg-surface/90 px-4 py-3 text-sm text-muted">
+            An empty chart. Add a block with <span className="font-medium text-ink">Add block</span> or press <Kbd>A</Kbd>.
+          </p>
+        </div>
+      ) : null}
+    </div>
+  );
+  const inspectorPane = (
+    <PaneBox as="aside" aria-label="Inspector">
+      {single ? (
+        <Tabs
+          label="Inspector"
+          value={inspectorTab}
+          onValueChange={(id) => setPlanFor(id === "scenario" ? single : null)}
+          tabs={[
+            {
+              id: "block",
+              label: "Block",
+              content: (
+                <BlockInspector
+                  scenario={scenario}
+                  blockId={single}
+                  parts={parts}
+                  readOnly={readOnly}
+                  scope={scope}
+                  resetToken={resetToken}
+                  commit={commit}
+                  notify={notify}
+                  onRenamed={(_, to) => setSelection({ blocks: [to], links: [] })}
+                />
+              ),
+            },
+            { id: "scenario", label: "Plan and Z0", content: scenarioPanel },
+          ]}
+        />
+      ) : live.blocks.length > 1 ? (
+        <div className="flex flex-col gap-2 text-sm">
+          <p className="text-ink">{live.blocks.length} blocks selected.</p>
+          <p className="font-mono text-xs text-muted">{live.blocks.join(", ")}</p>
+          <div className="flex gap-2">
+            <Button size="sm" variant="secondary" onClick={copy}>
+              Copy
+            </Button>
+            <Button size="sm" variant="danger" onClick={deleteSelection} disabled={readOnly}>
+              Delete
+            </Button>
+          </div>
+        </div>
+      ) : (
+        scenarioPanel
+      )}
+    </PaneBox>
+  );
+  const resultsPane = (
+    <PaneBox aria-label="Results">
+      <h2 className="mb-2 text-base font-semibold text-ink">Results</h2>
+      <ResultsPanel scenario={scenario} state={solver} projectRules={projectRules} />
+    </PaneBox>
+  );
+
   return (
-    <div ref={root} className="flex h-full min-h-[640px] flex-col gap-2" data-testid="workspace">
+    <div ref={root} className="flex h-full min-h-0 min-w-0 flex-col gap-2" data-testid="workspace" data-frame={frame ?? undefined}>
       <div role="toolbar" aria-label="Workspace" className="flex flex-wrap items-center gap-1.5 border-b border-rule pb-2">
         <Button size="sm" onClick={() => setPaletteOpen(true)} disabled={readOnly} aria-keyshortcuts="A">
           <Plus aria-hidden="true" className="h-4 w-4" /> Add block <Kbd className="ml-1 bg-transparent text-on-ink/80">A</Kbd>
@@ -328,6 +422,26 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
         <Button size="sm" variant="ghost" onClick={fit} aria-label="Fit view" title="Fit view (F)">
           <Maximize aria-hidden="true" className="h-4 w-4" />
         </Button>
+        {frame === "narrow" ? (
+          <div role="group" aria-label="View" className="flex items-center gap-1">
+            <Button size="sm" variant={narrowView === "list" ? "primary" : "ghost"} aria-pressed={narrowView === "list"} onClick={() => setNarrowView("list")}>
+              <List aria-hidden="true" className="h-4 w-4" /> List
+            </Button>
+            <Button size="sm" variant={narrowView === "chart" ? "primary" : "ghost"} aria-pressed={narrowView === "chart"} onClick={() => setNarrowView("chart")}>
+              <Network aria-hidden="true" className="h-4 w-4" /> Chart
+            </Button>
+          </div>
+        ) : null}
+        {openHelm ? (
+          // the helm's button lives here on the scenario page (floating, it covered inspector fields)
+          <Button size="sm" variant="secondary" onClick={openHelm} title="Open the helm (Ctrl+K)" aria-keyshortcuts="Control+K Meta+K">
+            <Compass aria-hidden="true" className="h-4 w-4" /> Helm
+            <span className="ml-0.5 hidden gap-0.5 sm:flex" aria-hidden="true">
+              <Kbd>Ctrl</Kbd>
+              <Kbd>K</Kbd>
+            </span>
+          </Button>
+        ) : null}
         <div className="ml-auto flex items-center gap-2">
           {readOnly ? <Badge tone="info">Read only</Badge> : null}
           <SaveBadge state={saveState} />
@@ -344,65 +458,36 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
         </div>
       ) : null}
 
-      <div className="grid min-h-0 flex-1 grid-cols-1 gap-3 lg:grid-cols-[minmax(0,1fr)_20rem] 2xl:grid-cols-[minmax(0,1fr)_20rem_28rem]">
-        <div ref={chartBox} className="relative min-h-[420px] overflow-hidden rounded-card border border-rule-strong">
-          <ScenarioChart
-            scenario={scenario}
-            parts={parts}
-            readOnly={readOnly}
-            selection={live}
-            onSelectionChange={setSelection}
-            onMoveBlocks={onMoveBlocks}
-            onLink={onLink}
-            onSetSwitch={onSetSwitch}
-            onPortMenu={onPortMenu}
-            highlight={highlight}
-          />
-          {scenario.blocks.length === 0 ? (
-            <div className="pointer-events-none absolute inset-0 flex items-center justify-center">
-              <p className="rounded-card border border-dashed border-rule-strong bg-surface/90 px-4 py-3 text-sm text-muted">
-                An empty chart. Add a block with <span className="font-medium text-ink">Add block</span> or press <Kbd>A</Kbd>.
-              </p>
+      {frame === null ? (
+        // the width is not known while server-rendering; the panes come with the first client render
+        <div className="min-h-0 flex-1" aria-busy="true" />
+      ) : frame === "narrow" ? (
+        <div className="flex min-w-0 flex-col gap-3">
+          {narrowView === "chart" ? <div className="h-[60vh] min-h-[320px]">{chartPane}</div> : (
+            <div className="rounded-card border border-rule bg-surface/60 p-3">
+              <ScenarioListView
+                scenario={scenario}
+                parts={parts}
+                selected={single}
+                onSelect={(id) => {
+                  setSelection({ blocks: [id], links: [] });
+                  // the inspector is below the list here: bring the chosen block's fields into view
+                  window.setTimeout(() => narrowInspector.current?.scrollIntoView({ block: "start" }), 50);
+                }}
+              />
             </div>
-          ) : null}
-        </div>
-
-        <aside aria-label="Inspector" className="min-h-0 overflow-y-auto rounded-card border border-rule bg-surface/60 p-3">
-          {single ? (
-            <BlockInspector
-              scenario={scenario}
-              blockId={single}
-              parts={parts}
-              readOnly={readOnly}
-              scope={scope}
-              resetToken={resetToken}
-              commit={commit}
-              notify={notify}
-              onRenamed={(_, to) => setSelection({ blocks: [to], links: [] })}
-            />
-          ) : live.blocks.length > 1 ? (
-            <div className="flex flex-col gap-2 text-sm">
-              <p className="text-ink">{live.blocks.length} blocks selected.</p>
-              <p className="font-mono text-xs text-muted">{live.blocks.join(", ")}</p>
-              <div className="flex gap-2">
-                <Button size="sm" variant="secondary" onClick={copy}>
-                  Copy
-                </Button>
-                <Button size="sm" variant="danger" onClick={deleteSelection} disabled={readOnly}>
-                  Delete
-                </Button>
-              </div>
-            </div>
-          ) : (
-            <ScenarioPanel scenario={scenario} readOnly={readOnly} resetToken={resetToken} commit={commit} />
           )}
-        </aside>
-
-        <section aria-label="Results" className="min-h-0 overflow-y-auto rounded-card border border-rule bg-surface/60 p-3 lg:col-span-2 2xl:col-span-1">
-          <h2 className="mb-2 text-base font-semibold text-ink">Results</h2>
-          <ResultsPanel scenario={scenario} state={solver} projectRules={projectRules} />
-        </section>
-      </div>
+          <div ref={narrowInspector} className="scroll-mt-2">
+            {inspectorPane}
+          </div>
+          {resultsPane}
+          {side}
+        </div>
+      ) : (
+        <div className="min-h-0 flex-1">
+          <WorkspacePanes frame={frame} chart={chartPane} inspector={inspectorPane} results={resultsPane} side={side} />
+        </div>
+      )}
 
       <AddBlockPalette open={paletteOpen} onOpenChange={setPaletteOpen} parts={parts} onChoose={onAddChoice} />
       <ShortcutSheet />

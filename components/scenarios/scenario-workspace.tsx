@@ -2,10 +2,11 @@
 
 import Link from "next/link";
 import { useRouter } from "next/navigation";
-import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from "react";
 import useSWR from "swr";
 import { History, Save } from "lucide-react";
 import { Workspace } from "@/components/scenario-editor";
+import { PaneBox } from "@/components/scenario-editor/workspace-panes";
 import type { PartSummary } from "@/lib/browser/scenario-model";
 import { Alert, Button } from "@/components/ui";
 import { ScenarioChecks } from "@/components/checks/scenario-checks";
@@ -30,6 +31,8 @@ export type ScenarioWorkspaceProps = {
   readOnly: boolean;
   /** the viewer's role (from the server), for the helm and the checks */
   role?: Role;
+  /** the sign-off panel (a server component of the page), shown in the checks pane */
+  signoff?: ReactNode;
 };
 
 /**
@@ -37,7 +40,7 @@ export type ScenarioWorkspaceProps = {
  * revision after edits, and on a conflict (someone saved first) keeps the edits and offers to reload
  * the latest revision or to save the edits as a new scenario.
  */
-export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: initialParts, readOnly, role }: ScenarioWorkspaceProps) {
+export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: initialParts, readOnly, role, signoff }: ScenarioWorkspaceProps) {
   const router = useRouter();
   const { draft, base, saveState, conflict, saveError, reportError, warnings, generation, edit: onChange, saveNow, loadLatest, forget, offeredDraft, restoreDraft, discardDraft } = useAutosave({
     projectId,
@@ -138,9 +141,45 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
     </>
   );
 
+  // the checks pane: what is decided on the saved revision (history, checks, rules, sign-off)
+  const side = (
+    // data-workspace-keys="off": the chart's single keys (A, F, Delete) do not act from here. Its name
+    // says neither "checks" nor "sign-off", which name the regions inside it.
+    <PaneBox aria-label="Verdicts and review" data-workspace-keys="off" dense className="flex flex-col gap-3">
+      {historyOpen ? (
+        <RevisionHistory
+          projectId={projectId}
+          scenarioId={info.id}
+          currentNumber={base.number}
+          readOnly={readOnly}
+          hasUnsavedEdits={saveState !== "saved"}
+          onRestored={loadLatest}
+        />
+      ) : null}
+      <ScenarioChecks
+        projectId={projectId}
+        scenarioId={info.id}
+        scenarioName={info.name}
+        role={role ?? (readOnly ? "reviewer" : "engineer")}
+        revisionId={base.id}
+        revisionNumber={base.number}
+        scenario={draft}
+        parts={parts}
+        readOnly={readOnly}
+        onChange={onChange}
+        saveNow={saveNow}
+        onHighlight={onHighlight}
+      />
+      <ScenarioRulesPanel projectId={projectId} scenario={draft} onChange={onChange} readOnly={readOnly} />
+      {signoff}
+    </PaneBox>
+  );
+
   return (
-    <div className="flex flex-col gap-3">
-      <div className="flex flex-wrap items-baseline gap-3">
+    // data-fill-viewport: from 700 px wide this page fills the viewport and its panes scroll, not the page
+    // (app/globals.css)
+    <div data-fill-viewport className="flex min-h-0 min-w-0 flex-1 flex-col gap-2">
+      <div className="flex flex-wrap items-baseline gap-x-3 gap-y-1">
         <h2 className="text-lg font-semibold text-ink">{info.name}</h2>
         <Link href={`/projects/${projectId}/scenarios`} className="text-sm text-muted underline underline-offset-4 hover:text-ink">
           All scenarios
@@ -198,34 +237,9 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
           Saved as a draft: {warnings.join(" ")}
         </p>
       ) : null}
-      {historyOpen ? (
-        <RevisionHistory
-          projectId={projectId}
-          scenarioId={info.id}
-          currentNumber={base.number}
-          readOnly={readOnly}
-          hasUnsavedEdits={saveState !== "saved"}
-          onRestored={loadLatest}
-        />
-      ) : null}
-      <div className="min-h-[680px] 2xl:h-[calc(100vh-13rem)]">
-        <Workspace key={generation} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} projectRules={projectRules} />
+      <div className="flex min-h-0 flex-1 flex-col">
+        <Workspace key={generation} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} side={side} projectRules={projectRules} />
       </div>
-      <ScenarioRulesPanel projectId={projectId} scenario={draft} onChange={onChange} readOnly={readOnly} />
-      <ScenarioChecks
-        projectId={projectId}
-        scenarioId={info.id}
-        scenarioName={info.name}
-        role={role ?? (readOnly ? "reviewer" : "engineer")}
-        revisionId={base.id}
-        revisionNumber={base.number}
-        scenario={draft}
-        parts={parts}
-        readOnly={readOnly}
-        onChange={onChange}
-        saveNow={saveNow}
-        onHighlight={onHighlight}
-      />
     </div>
   );
 }

@@ -20,14 +20,15 @@ export default async function ProjectLayout({ children, params }: { children: Re
   ];
   if (can(project.role, "audit.read")) tabs.push({ href: `${base}/audit`, label: "Audit log" });
   return (
-    <div className="flex flex-col gap-5">
+    // flex-1 and min-h-0 let a page that fills the viewport (the scenario workspace) take the height left
+    <div data-project-frame className="flex min-h-0 flex-1 flex-col gap-5">
       <PageHeader
         breadcrumbs={[{ label: "Projects", href: "/projects" }, { label: project.name }]}
         title={project.name}
         actions={<Badge tone={project.role === "owner" ? "info" : "neutral"}>Your role: {project.role}</Badge>}
       />
       <ProjectTabs tabs={tabs} />
-      <div>{children}</div>
+      <div className="flex min-h-0 flex-1 flex-col">{children}</div>
     </div>
   );
 }

@@ -21,16 +21,14 @@ export default async function ScenarioPage({ params }: { params: Promise<{ proje
   // when one is placed
   const parts: PartView[] = serialiseDates(await listParts({ userId: user.id, projectId, withText: partFilesOf(revision.content) }));
   return (
-    <>
-      <ScenarioWorkspace
-        projectId={project.id}
-        scenario={{ id: scenario.id, projectId, name: scenario.name, latestRevisionId: scenario.latestRevisionId, latestRevisionNumber: scenario.latestRevisionNumber }}
-        revision={serialiseDates(revision) satisfies RevisionView}
-        parts={parts}
-        readOnly={!can(project.role, "scenario.edit")}
-        role={project.role}
-      />
-      <SignoffPanel projectId={project.id} scenarioId={scenario.id} userId={user.id} role={project.role} />
-    </>
+    <ScenarioWorkspace
+      projectId={project.id}
+      scenario={{ id: scenario.id, projectId, name: scenario.name, latestRevisionId: scenario.latestRevisionId, latestRevisionNumber: scenario.latestRevisionNumber }}
+      revision={serialiseDates(revision) satisfies RevisionView}
+      parts={parts}
+      readOnly={!can(project.role, "scenario.edit")}
+      role={project.role}
+      signoff={<SignoffPanel projectId={project.id} scenarioId={scenario.id} userId={user.id} role={project.role} />}
+    />
   );
 }
