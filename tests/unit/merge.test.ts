@@ -146,7 +146,7 @@ const editArb: fc.Arbitrary<Edit> = fc.oneof(
   })),
   fc.integer({ min: 1, max: 40 }).map((loss) => ({
     unit: "block:NEW",
-    apply: (sc: Scenario) => ({ ...sc, blocks: [...sc.blocks.filter((b) => b.id !== "NEW"), { id: "NEW", kind: "attenuator", params: { loss_db: loss } }] }),
+    apply: (sc: Scenario) => ({ ...sc, blocks: [...sc.blocks.filter((b) => b.id !== "NEW"), { id: "NEW", kind: "attenuator" as const, params: { loss_db: loss } }] }),
   })),
   fc.integer({ min: 2, max: 2001 }).map((points) => ({ unit: "plan:points", apply: (sc: Scenario) => ({ ...sc, frequency: { ...sc.frequency, points } as Scenario["frequency"] }) })),
   fc.integer({ min: 10, max: 100 }).map((z0) => ({ unit: "port:RX", apply: (sc: Scenario) => ({ ...sc, ports: sc.ports.map((p) => (p.name === "RX" ? { ...p, z0 } : p)) }) })),

@@ -42,7 +42,7 @@ export function summarizeChanges(before: Scenario | null, after: Scenario, again
     if (p.change === "added") changes.push({ area: "ports", text: `system port ${p.name} at ${p.at}` });
     else if (p.change === "removed") changes.push({ area: "ports", text: `removed system port ${p.name} (was at ${p.at})` });
     else if (p.change === "moved") changes.push({ area: "ports", text: `system port ${p.name} moved: ${p.before} → ${p.after}` });
-    else changes.push({ area: "ports", text: `system port ${p.name} z0: ${valueText("z0", p.before)} → ${valueText("z0", p.after)}` });
+    else if (p.change === "z0") changes.push({ area: "ports", text: `system port ${p.name} z0: ${valueText("z0", p.before)} → ${valueText("z0", p.after)}` });
   }
   for (const r of d.rules) changes.push({ area: "rules", text: `${r.change} ${ENTRY_TEXT[r.entry]} ${r.id}` });
   for (const s of d.settings) {
