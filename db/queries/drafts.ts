@@ -11,16 +11,19 @@ import { requireScenarioRow } from "./revisions";
 /** A person's working draft as the API returns it. */
 export type ScenarioDraft = { baseRevisionId: string; baseNumber: number; content: Scenario; updatedAt: Date };
 
+/** The draft with its base revision's content: what the workspace compares the draft against. */
+export type ScenarioDraftWithBase = ScenarioDraft & { baseContent: Scenario };
+
 /**
  * The caller's own working draft of a scenario, or null. Drafts are per person: the query is keyed by the
  * caller's id, so nobody reads another person's draft. Only those who may edit have drafts (engineers,
  * owners); a reviewer is refused.
  */
-export async function getDraft({ userId, projectId, scenarioId }: { userId: string; projectId: string; scenarioId: string }): Promise<ScenarioDraft | null> {
+export async function getDraft({ userId, projectId, scenarioId }: { userId: string; projectId: string; scenarioId: string }): Promise<ScenarioDraftWithBase | null> {
   await authorize({ userId, projectId, action: "scenario.edit" });
   await requireScenarioRow(db, { projectId, scenarioId });
   const [row] = await db
-    .select({ baseRevisionId: scenarioDrafts.baseRevisionId, baseNumber: scenarioRevisions.number, content: scenarioDrafts.content, updatedAt: scenarioDrafts.updatedAt })
+    .select({ baseRevisionId: scenarioDrafts.baseRevisionId, baseNumber: scenarioRevisions.number, content: scenarioDrafts.content, updatedAt: scenarioDrafts.updatedAt, baseContent: scenarioRevisions.content })
     .from(scenarioDrafts)
     .innerJoin(scenarioRevisions, eq(scenarioRevisions.id, scenarioDrafts.baseRevisionId))
     .where(and(eq(scenarioDrafts.scenarioId, scenarioId), eq(scenarioDrafts.userId, userId)));

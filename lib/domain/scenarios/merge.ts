@@ -59,7 +59,11 @@ function mergedOrder(base: string[], mine: string[], theirs: string[], keep: (ke
   const other = lead === mine ? theirs : mine;
   const out = lead.filter(keep);
   const seen = new Set(out);
-  for (const k of other) if (!seen.has(k) && keep(k)) (out.push(k), seen.add(k));
+  for (const k of other) {
+    if (seen.has(k) || !keep(k)) continue;
+    out.push(k);
+    seen.add(k);
+  }
   return out;
 }
 
