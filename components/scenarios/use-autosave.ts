@@ -107,6 +107,8 @@ export function useAutosave({
   const savingRef = useRef(false);
   const timer = useRef<number | null>(null);
   const flushRef = useRef<() => Promise<void>>(async () => undefined);
+  /** the draft write under way, if any: a revision save waits for it, so that it cannot land after the save */
+  const inFlight = useRef<Promise<void> | null>(null);
 
   const hasDraft = useMemo(() => !sameContent(draft, baseContent), [draft, baseContent]);
 
@@ -132,8 +134,11 @@ export function useAutosave({
     setSaveState("saving");
     let refused = false;
     try {
-      if (unchanged) await requestJson(scenarioUrls.draft(projectId, scenarioId), { method: "DELETE" });
-      else await requestJson(scenarioUrls.draft(projectId, scenarioId), { method: "PUT", json: { baseRevisionId: baseRef.current.id, scenario: sent } });
+      const request = unchanged
+        ? requestJson<void>(scenarioUrls.draft(projectId, scenarioId), { method: "DELETE" })
+        : requestJson<void>(scenarioUrls.draft(projectId, scenarioId), { method: "PUT", json: { baseRevisionId: baseRef.current.id, scenario: sent } }).then(() => undefined);
+      inFlight.current = request.catch(() => undefined);
+      await request;
       dirtyRef.current = draftRef.current !== sent;
       setSaveError(null);
       if (dirtyRef.current) setSaveState("unsaved");
@@ -154,6 +159,7 @@ export function useAutosave({
       }
     } finally {
       savingRef.current = false;
+      inFlight.current = null;
     }
     if (dirtyRef.current && !refused && draftRef.current !== sent) schedule();
   }, [projectId, readOnly, scenarioId, schedule]);
@@ -263,6 +269,8 @@ export function useAutosave({
     async (note: string, resolutions?: Record<string, MergeChoice>): Promise<SaveRevisionOutcome> => {
       if (timer.current !== null) window.clearTimeout(timer.current);
       timer.current = null;
+      // a draft write still under way would otherwise land after the save and bring the draft back
+      if (inFlight.current) await inFlight.current;
       const sent = draftRef.current;
       const sentBase = baseRef.current;
       try {

@@ -41,6 +41,8 @@ const scenarioOf = (r: MergeResult): Scenario => {
   return r.scenario;
 };
 
+const sortLinks = (links: Scenario["links"]) => links.map((l) => [...l].sort().join("~")).sort();
+
 const eq = (a: Scenario, b: Scenario) => expect(canonicalJson(a)).toBe(canonicalJson(b));
 
 describe("mergeScenarios, by hand", () => {
@@ -82,6 +84,17 @@ describe("mergeScenarios, by hand", () => {
     ]);
     const kept = scenarioOf(mergeScenarios(base, mine, theirs, { "block:ANT": "theirs" }));
     expect(kept.blocks.find((b) => b.id === "ANT")?.params).toEqual({ return_loss_db: 20 });
+    // kept, it keeps the link the deletion had taken with it (the kept side's items come after the lead side's)
+    expect(sortLinks(kept.links)).toEqual(sortLinks(base.links));
+  });
+
+  it("a kept block keeps its system port, which the deleting side had dropped with it", () => {
+    const mine: Scenario = { ...base, blocks: base.blocks.filter((b) => b.id !== "PAD"), links: base.links.filter((l) => !l.join().includes("PAD")), ports: base.ports.filter((p) => p.name !== "TX") };
+    const theirs = withParam(base, "PAD", "loss_db", 6);
+    const kept = scenarioOf(mergeScenarios(base, mine, theirs, { "block:PAD": "theirs" }));
+    expect(kept.ports.map((p) => p.name).sort()).toEqual(["RX", "TX"]);
+    expect(sortLinks(kept.links)).toEqual(sortLinks(base.links));
+    expect(kept.blocks.map((b) => b.id)).toEqual(["SW", "ANT", "LNA", "PAD"]);
   });
 
   it("deletes silently a block the other side did not touch", () => {

@@ -183,6 +183,8 @@ export function mergeScenarios(base: Scenario, mine: Scenario, theirs: Scenario,
   const bm = new Map(mine.blocks.map((x) => [x.id, x]));
   const bt = new Map(theirs.blocks.map((x) => [x.id, x]));
   const blocks = new Map<string, BlockSpec>();
+  /** blocks one side deleted that the merge keeps (the other side's edits chosen), with the deleting side */
+  const revived = new Map<string, MergeChoice>();
   for (const id of new Set([...bm.keys(), ...bt.keys(), ...bb.keys()])) {
     const b = bb.get(id);
     const m = bm.get(id);
@@ -206,7 +208,16 @@ export function mergeScenarios(base: Scenario, mine: Scenario, theirs: Scenario,
     if (!c.conflicts.has(key)) c.conflicts.set(key, { key, area: "block", label: `block ${id}`, mine: blockSummary(m), theirs: blockSummary(t) });
     const choice = resolutions[key] ?? "mine";
     const chosen = choice === "mine" ? m : t;
-    if (chosen) blocks.set(id, chosen);
+    if (chosen) {
+      blocks.set(id, chosen);
+      revived.set(id, m ? "theirs" : "mine");
+    }
+  }
+  // A kept block keeps its links and system ports: the deleting side dropped them only with the block.
+  const at = (ref: PortRef) => revived.get(blockOf(ref));
+  for (const [k, l] of lb) {
+    const deleter = at(l[0]) ?? at(l[1]);
+    if (deleter) (deleter === "mine" ? lm : lt).set(k, l);
   }
   const blockOrder = mergedOrder(
     base.blocks.map((x) => x.id),
@@ -241,6 +252,11 @@ export function mergeScenarios(base: Scenario, mine: Scenario, theirs: Scenario,
   const pb = new Map(base.ports.map((p) => [p.name, p]));
   const pm = new Map(mine.ports.map((p) => [p.name, p]));
   const pt = new Map(theirs.ports.map((p) => [p.name, p]));
+  for (const [name, p] of pb) {
+    const deleter = at(p.at);
+    const side = deleter === "mine" ? pm : deleter === "theirs" ? pt : null;
+    if (side && !side.has(name)) side.set(name, p);
+  }
   const ports = new Map<string, unknown>();
   for (const name of new Set([...pm.keys(), ...pt.keys(), ...pb.keys()])) {
     const v = merge3(c, pb.get(name), pm.get(name), pt.get(name), { key: `port:${name}`, area: "port", label: `system port ${name}` }, (p) => (p ? `at ${p.at}${p.z0 !== undefined ? `, ${p.z0} Ω` : ""}` : "removed"));

@@ -22,7 +22,9 @@ export default async function ScenarioPage({ params }: { params: Promise<{ proje
   // when one is placed
   const canEdit = can(project.role, "scenario.edit");
   // the person's own working draft, reopened on any device (only those who may edit have one)
-  const draft = canEdit ? await getDraft({ userId: user.id, projectId, scenarioId: scenario.id }) : null;
+  const stored = canEdit ? await getDraft({ userId: user.id, projectId, scenarioId: scenario.id }) : null;
+  // a draft holding exactly the latest revision has nothing to offer
+  const draft = stored && JSON.stringify(stored.content) !== JSON.stringify(revision.content) ? stored : null;
   const placed = draft ? [...new Set([...partFilesOf(revision.content), ...partFilesOf(draft.content)])] : partFilesOf(revision.content);
   const parts: PartView[] = serialiseDates(await listParts({ userId: user.id, projectId, withText: placed }));
   return (
