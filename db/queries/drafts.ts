@@ -6,7 +6,7 @@ import type { Scenario } from "@/engine/types";
 import { AppError } from "@/lib/base/errors";
 import type { DraftScenario } from "@/lib/base/validation/scenarios";
 import { authorize } from "@/lib/server/permissions";
-import { requireScenarioRow } from "./revisions";
+import { hashScenarioContent, requireScenarioRow } from "./revisions";
 
 /** A person's working draft as the API returns it. */
 export type ScenarioDraft = { baseRevisionId: string; baseNumber: number; content: Scenario; updatedAt: Date };
@@ -71,4 +71,18 @@ export async function deleteDraft({ userId, projectId, scenarioId }: { userId: s
   await authorize({ userId, projectId, action: "scenario.edit" });
   await requireScenarioRow(db, { projectId, scenarioId });
   await db.delete(scenarioDrafts).where(and(eq(scenarioDrafts.scenarioId, scenarioId), eq(scenarioDrafts.userId, userId)));
+}
+
+/**
+ * Whether the person's working draft of a scenario holds changes not in `content` (a revision's): a
+ * sign-off is requested only with no such draft. Internal (the caller has authorized the action).
+ */
+export async function hasDraftBeyond({ userId, scenarioId, content }: { userId: string; scenarioId: string; content: Scenario }): Promise<boolean> {
+  const [row] = await db
+    .select({ content: scenarioDrafts.content })
+    .from(scenarioDrafts)
+    .where(and(eq(scenarioDrafts.scenarioId, scenarioId), eq(scenarioDrafts.userId, userId)));
+  if (!row) return false;
+  // the stored name follows the scenario row; compare what the person edited
+  return hashScenarioContent({ ...row.content, name: content.name }) !== hashScenarioContent(content);
 }

@@ -6,6 +6,7 @@ import * as projectsRoute from "@/app/api/projects/route";
 import * as scenariosRoute from "@/app/api/projects/[projectId]/scenarios/route";
 import * as revisionsRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/revisions/route";
 import * as draftRoute from "@/app/api/projects/[projectId]/scenarios/[scenarioId]/draft/route";
+import * as signoffsRoute from "@/app/api/projects/[projectId]/signoffs/route";
 import { db } from "@/db/client";
 import { memberships, scenarioDrafts, scenarioRevisions } from "@/db/schema";
 import type { Scenario } from "@/engine/types";
@@ -185,5 +186,19 @@ describe("deliberate revisions", () => {
     const { id, revision } = await newScenario("Bad resolution");
     const response = await save(engineer.cookie, id, { baseRevisionId: revision.id, scenario: pads(), resolutions: { "block:PAD1:param:loss_db": "both" } });
     expect(response.status).toBe(400);
+  });
+});
+
+describe("sign-off and the working draft", () => {
+  it("a request while the requester's draft holds changes not in the revision is 409; once saved it goes through", async () => {
+    const { id, revision } = await newScenario("Signed");
+    const ask = () => call(signoffsRoute.POST, makeRequest("POST", `/api/projects/${projectId}/signoffs`, { cookie: engineer.cookie, body: { scenarioId: id, reviewerIds: [reviewer.user.id] } }), { projectId });
+    await putDraft(engineer.cookie, id, { baseRevisionId: revision.id, scenario: withLoss(pads(), "PAD1", 6) });
+    const refused = await ask();
+    expect(refused.status).toBe(409);
+    expect(((await refused.json()) as ErrorJson).error.message).toMatch(/working draft of this scenario has changes not in revision 1/);
+    // a draft that only repeats the revision does not stand in the way
+    await putDraft(engineer.cookie, id, { baseRevisionId: revision.id, scenario: pads() });
+    expect((await ask()).status).toBe(201);
   });
 });
