@@ -100,6 +100,12 @@ test("edits survive a reload as the working draft, not as a revision; discarding
   await expect(block(owner, "LOAD1")).toHaveCount(0);
   await owner.context().close();
 
+  // sign-off is of a saved revision: with the draft beyond it, the request says so and waits
+  const request = page.getByRole("form", { name: "Request sign-off" });
+  await expect(request).toContainText("Your draft has changes not in revision 1");
+  await expect(request.getByRole("button", { name: "Request sign-off" })).toBeDisabled();
+  await testInfo.attach("signoff-waits-for-revision", { body: await request.screenshot(), contentType: "image/png" });
+
   // discard is explicit and confirmed
   await banner.getByRole("button", { name: "Discard draft" }).click();
   const confirm = page.getByRole("dialog", { name: "Discard your draft?" });
@@ -107,6 +113,7 @@ test("edits survive a reload as the working draft, not as a revision; discarding
   await confirm.getByRole("button", { name: "Discard draft" }).click();
   await expect(block(page, "LOAD1")).toHaveCount(0);
   await expect(saveState(page)).toHaveText("Saved");
+  await expect(request.getByRole("button", { name: "Request sign-off" })).toBeEnabled();
   await page.reload();
   await expect(block(page, "PAD2")).toBeVisible();
   await expect(block(page, "LOAD1")).toHaveCount(0);
