@@ -124,14 +124,16 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, draft: 
   );
 
   // Ctrl/Cmd+S opens "Save revision", and in the dialog commits it (never the browser's "save page")
+  const mergeOpenRef = useRef(false);
   useEffect(() => {
     saveOpenRef.current = saveOpen;
-  }, [saveOpen]);
+    mergeOpenRef.current = merge !== null;
+  }, [merge, saveOpen]);
   useEffect(() => {
     const onKey = (event: KeyboardEvent) => {
       if (!(event.ctrlKey || event.metaKey) || event.altKey || event.key.toLowerCase() !== "s") return;
       event.preventDefault();
-      if (readOnly) return;
+      if (readOnly || mergeOpenRef.current) return; // the conflict dialog has its own button
       if (saveOpenRef.current) submitSaveRef.current?.();
       else openSaveRevision();
     };
