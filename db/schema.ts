@@ -4,6 +4,7 @@ import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex 
 import type { RuleSpec, Scenario } from "../engine/types";
 import type { CheckName } from "../lib/domain/checks/inputs";
 import type { CheckFigures } from "../lib/domain/checks/types";
+import type { RevisionChangeSummary } from "../lib/domain/scenarios/summary";
 
 export const ROLES = ["owner", "engineer", "reviewer"] as const;
 export type Role = (typeof ROLES)[number];
@@ -244,12 +245,44 @@ export const scenarioRevisions = sqliteTable(
     blockCount: integer("block_count"),
     /** System port names of `content` (JSON array), for the same reason; null on rows older than the column. */
     portNames: text("port_names", { mode: "json" }).$type<string[]>(),
+    /** The author's note on a deliberate save ("Save revision"); null when none was given. */
+    note: text("note"),
+    /** What changed against the previous revision, computed when saved (lib/domain/scenarios/summary.ts); null on older rows. */
+    summary: text("summary", { mode: "json" }).$type<RevisionChangeSummary>(),
+    /** For a save merged with revisions written after its base: the number of the newest one it was merged with. */
+    mergedWith: integer("merged_with"),
     createdAt: createdAt(),
   },
   (table) => [uniqueIndex("scenario_revisions_number_idx").on(table.scenarioId, table.number)],
 );
 export type ScenarioRevision = typeof scenarioRevisions.$inferSelect;
 export type NewScenarioRevision = typeof scenarioRevisions.$inferInsert;
+
+/**
+ * A person's working draft of a scenario: what autosave writes (never a revision). One per person and
+ * scenario; only its owner reads it. Dropped when the person saves a revision or discards the draft.
+ */
+export const scenarioDrafts = sqliteTable(
+  "scenario_drafts",
+  {
+    scenarioId: text("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    /** The revision the edits started from (a save merges against it). */
+    baseRevisionId: text("base_revision_id")
+      .notNull()
+      .references(() => scenarioRevisions.id, { onDelete: "cascade" }),
+    content: text("content", { mode: "json" }).notNull().$type<Scenario>(),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+      .notNull()
+      .default(sql`(unixepoch() * 1000)`),
+  },
+  (table) => [primaryKey({ columns: [table.scenarioId, table.userId] })],
+);
+export type ScenarioDraftRow = typeof scenarioDrafts.$inferSelect;
 
 /**
  * One version of an uploaded Touchstone data set in a project's library; blocks name it as

@@ -4,7 +4,7 @@ import { useCallback, useEffect, useRef, useState } from "react";
 import { useRouter } from "next/navigation";
 import { useSWRConfig } from "swr";
 import type { BlockKind, PortRef, Scenario } from "@/engine/types";
-import { Alert } from "@/components/ui";
+import { Alert, Button } from "@/components/ui";
 import { useHelmScenario } from "@/components/helm/helm-context";
 import { can, type Role } from "@/lib/base/permission-table";
 import { addBlock, setSwitchState, setSystemPort, type PartSummary } from "@/lib/browser/scenario-model";
@@ -33,7 +33,12 @@ export type ScenarioChecksProps = {
   readOnly: boolean;
   /** apply an edit made from the helm (the page saves it like any other) */
   onChange: (next: Scenario) => void;
-  saveNow: () => void;
+  /** the person's working draft holds changes not in the latest revision */
+  hasDraft: boolean;
+  /** the newest revision the page knows of */
+  latestNumber: number;
+  /** open "Save revision" (note dialog) */
+  onSaveRevision: () => void;
   /** blocks and links to mark on the chart (a leak path), or null */
   onHighlight: (highlight: ChartHighlight | null) => void;
 };
@@ -54,7 +59,7 @@ function download(href: string): void {
  * highlights a leak path on the chart.
  */
 export function ScenarioChecks(props: ScenarioChecksProps) {
-  const { projectId, scenarioId, scenarioName, role, revisionId, revisionNumber, scenario, parts, readOnly, onChange, saveNow, onHighlight } = props;
+  const { projectId, scenarioId, scenarioName, role, revisionId, revisionNumber, scenario, parts, readOnly, onChange, hasDraft, latestNumber, onSaveRevision, onHighlight } = props;
   const router = useRouter();
   const { mutate } = useSWRConfig();
   const [selected, setSelected] = useState<string | null>(null);
@@ -179,8 +184,8 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
     markSystemPort: (at: PortRef, name: string) => edit(setSystemPort(scenario, at, { name }, parts), `${at} is now system port ${name}.`),
     setSwitchState: (id: string, state: number) => edit(setSwitchState(scenario, id, state), `${id} set to throw ${state}.`),
     saveRevision: () => {
-      saveNow();
-      setNotice("Saving…");
+      onSaveRevision();
+      setNotice("Save revision: add a note and save.");
     },
     duplicateScenario: async () => {
       try {
@@ -228,7 +233,22 @@ export function ScenarioChecks(props: ScenarioChecksProps) {
         onRerun={(run) => void runCheck(run.check, run.inputs)}
         onOpenWorstSample={can(role, "scenario.create") ? (runId, rule) => void openWorstSample(runId, rule) : undefined}
       />
-      {revisionNumber > 0 ? <p className="mt-1 text-xs text-muted">Checks run on the saved revision r{revisionNumber}; unsaved edits are not included.</p> : null}
+      {hasDraft ? (
+        <Alert
+          tone="warn"
+          className="mt-2"
+          title={`Your draft has changes not in revision ${latestNumber}`}
+          actions={
+            <Button size="sm" onClick={onSaveRevision}>
+              Save revision…
+            </Button>
+          }
+        >
+          Stored checks, verdicts and sign-off judge revision {revisionNumber} (by its content hash), not your draft; the live results on the chart follow the draft. Save a revision to have it judged.
+        </Alert>
+      ) : revisionNumber > 0 ? (
+        <p className="mt-1 text-xs text-muted">Checks run on the saved revision r{revisionNumber}, which is what the chart shows.</p>
+      ) : null}
       {readOnly && !can(role, "check.run") ? <Alert tone="info">Your role cannot run checks.</Alert> : null}
       <RunStorage projectId={projectId} scenarioId={scenarioId} canClear={can(role, "runs.clear")} />
     </div>

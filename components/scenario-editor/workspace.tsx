@@ -35,7 +35,8 @@ import { ShortcutSheet } from "./shortcut-sheet";
 import { ScenarioListView } from "./scenario-list-view";
 import { PaneBox, WorkspacePanes, useWorkspaceFrame } from "./workspace-panes";
 
-export type SaveState = "saved" | "unsaved" | "saving" | "conflict" | "error";
+/** The working draft's state: saved = nothing beyond the revision; draft = stored on the server; local = kept in this browser only. */
+export type SaveState = "saved" | "unsaved" | "saving" | "draft" | "local" | "conflict" | "error";
 
 export type WorkspaceProps = {
   /** the scenario shown; the workspace never keeps its own copy (fully controlled) */
@@ -508,13 +509,15 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
 const SAVE_TEXT: Record<SaveState, string> = {
   saved: "Saved",
   unsaved: "Unsaved changes",
-  saving: "Saving…",
+  saving: "Saving draft…",
+  draft: "Draft saved",
+  local: "Draft kept in this browser",
   conflict: "Conflict: changed elsewhere",
   error: "Not saved: error",
 };
 
 function SaveBadge({ state }: { state: SaveState }) {
-  const tone = state === "saved" ? "pass" : state === "unsaved" || state === "saving" ? "warn" : "fail";
+  const tone = state === "saved" ? "pass" : state === "draft" ? "info" : state === "unsaved" || state === "saving" || state === "local" ? "warn" : "fail";
   return (
     <Badge tone={tone} role="status" aria-label={`Save state: ${SAVE_TEXT[state]}`} className={cn(state === "saving" && "gap-1.5")}>
       {state === "saving" ? <Spinner size="sm" /> : null}

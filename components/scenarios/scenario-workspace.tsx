@@ -1,32 +1,36 @@
 "use client";
 
 import Link from "next/link";
-import { useRouter } from "next/navigation";
 import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from "react";
 import useSWR from "swr";
 import { History, Save } from "lucide-react";
 import { Workspace } from "@/components/scenario-editor";
 import { PaneBox } from "@/components/scenario-editor/workspace-panes";
 import type { PartSummary } from "@/lib/browser/scenario-model";
-import { Alert, Button } from "@/components/ui";
+import { Alert, Button, ConfirmDialog, Kbd } from "@/components/ui";
 import { ScenarioChecks } from "@/components/checks/scenario-checks";
 import { ScenarioRulesPanel } from "@/components/rules/scenario-rules-panel";
 import type { ChartHighlight } from "@/components/checks/leak-trace-view";
 import type { Role } from "@/lib/base/permission-table";
-import { fetchJson, requestJson, scenarioUrls } from "@/lib/browser/api-client";
+import { fetchJson, scenarioUrls } from "@/lib/browser/api-client";
 import { formatDate } from "@/lib/base/dates";
 import { partFilesOf } from "@/lib/domain/scenarios/part-files";
 import { parsePinnedPartPath, pinnedPartPath } from "@/engine/system/parts";
 import { RevisionHistory } from "./revision-history";
-import { useAutosave } from "./use-autosave";
+import { MergeConflictDialog, SaveRevisionDialog } from "./save-revision-dialog";
+import { useAutosave, type SaveRevisionOutcome } from "./use-autosave";
 import type { PartView } from "@/lib/domain/parts/types";
-import type { RuleSpec } from "@/engine/types";
-import type { RevisionView, ScenarioView } from "@/lib/domain/scenarios/types";
+import type { RevisionView, ScenarioDraftView, ScenarioView } from "@/lib/domain/scenarios/types";
+import type { MergeChoice, MergeConflict } from "@/lib/domain/scenarios/merge";
+import type { RuleSpec, Scenario } from "@/engine/types";
+import { publishDraftStatus } from "@/lib/browser/draft-status";
 
 export type ScenarioWorkspaceProps = {
   projectId: string;
   scenario: ScenarioView;
   revision: RevisionView;
+  /** the viewer's working draft of this scenario on the server, with its base revision's content */
+  draft?: (ScenarioDraftView & { baseContent: Scenario }) | null;
   parts: PartView[];
   readOnly: boolean;
   /** the viewer's role (from the server), for the helm and the checks */
@@ -36,20 +40,116 @@ export type ScenarioWorkspaceProps = {
 };
 
 /**
- * The host of the workspace on the scenario page: holds the edited scenario, autosaves it as a new
- * revision after edits, and on a conflict (someone saved first) keeps the edits and offers to reload
- * the latest revision or to save the edits as a new scenario.
+ * The host of the workspace on the scenario page: holds the edited scenario, keeps it as the person's
+ * working draft (autosave), and saves named revisions deliberately ("Save revision", Ctrl/Cmd+S) with a
+ * note, merging with what others saved since and asking only about real conflicts.
  */
-export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: initialParts, readOnly, role, signoff }: ScenarioWorkspaceProps) {
-  const router = useRouter();
-  const { draft, base, saveState, conflict, saveError, reportError, warnings, generation, edit: onChange, saveNow, loadLatest, forget, offeredDraft, restoreDraft, discardDraft } = useAutosave({
+export function ScenarioWorkspace({ projectId, scenario: info, revision, draft: initialDraft = null, parts: initialParts, readOnly, role, signoff }: ScenarioWorkspaceProps) {
+  const {
+    draft,
+    base,
+    baseContent,
+    latestNumber,
+    hasDraft,
+    saveState,
+    saveError,
+    reportError,
+    warnings,
+    generation,
+    edit: onChange,
+    saveDraftNow,
+    saveRevision,
+    loadLatest,
+    discardDraft,
+    openedDraft,
+    offeredDraft,
+    restoreOffered,
+    dropOffered,
+  } = useAutosave({
     projectId,
     scenarioId: info.id,
     revision,
+    initialDraft,
     readOnly,
   });
   const [historyOpen, setHistoryOpen] = useState(false);
-  const [busy, setBusy] = useState<"reload" | "fork" | null>(null);
+  const [saveOpen, setSaveOpen] = useState(false);
+  const [saveDialogError, setSaveDialogError] = useState<string | null>(null);
+  const [pendingNote, setPendingNote] = useState("");
+  const [merge, setMerge] = useState<{ conflicts: MergeConflict[]; current: { number: number; authorName: string | null } } | null>(null);
+  const [savedNotice, setSavedNotice] = useState<string | null>(null);
+  const [discardOpen, setDiscardOpen] = useState(false);
+  const saveOpenRef = useRef(false);
+  const submitSaveRef = useRef<(() => void) | null>(null);
+
+  const openSaveRevision = useCallback(() => {
+    if (readOnly) return;
+    setSaveDialogError(null);
+    setSavedNotice(null);
+    setSaveOpen(true);
+  }, [readOnly]);
+
+  /** The outcome of a save in words, or the conflict dialog. */
+  const settle = useCallback((outcome: SaveRevisionOutcome, note: string) => {
+    if (outcome.ok) {
+      setMerge(null);
+      setSaveOpen(false);
+      const by = outcome.merged ? ` Merged with revision ${outcome.merged.number}${outcome.merged.authorName ? ` by ${outcome.merged.authorName}` : ""}${outcome.merged.settled > 0 ? ` (${outcome.merged.settled} conflict${outcome.merged.settled === 1 ? "" : "s"} settled by you)` : ""}.` : "";
+      setSavedNotice(`Saved revision ${outcome.number}.${by}`);
+    } else {
+      setSaveOpen(false);
+      setPendingNote(note);
+      setMerge({ conflicts: outcome.conflicts, current: outcome.current });
+    }
+  }, []);
+
+  const onSave = useCallback(
+    async (note: string) => {
+      setSaveDialogError(null);
+      try {
+        settle(await saveRevision(note), note);
+      } catch (e) {
+        setSaveDialogError(e instanceof Error ? e.message : String(e));
+      }
+    },
+    [saveRevision, settle],
+  );
+
+  const onResolve = useCallback(
+    async (resolutions: Record<string, MergeChoice>) => {
+      setSaveDialogError(null);
+      try {
+        settle(await saveRevision(pendingNote, resolutions), pendingNote);
+      } catch (e) {
+        setSaveDialogError(e instanceof Error ? e.message : String(e));
+      }
+    },
+    [pendingNote, saveRevision, settle],
+  );
+
+  // Ctrl/Cmd+S opens "Save revision", and in the dialog commits it (never the browser's "save page")
+  const mergeOpenRef = useRef(false);
+  useEffect(() => {
+    saveOpenRef.current = saveOpen;
+    mergeOpenRef.current = merge !== null;
+  }, [merge, saveOpen]);
+  useEffect(() => {
+    const onKey = (event: KeyboardEvent) => {
+      if (!(event.ctrlKey || event.metaKey) || event.altKey || event.key.toLowerCase() !== "s") return;
+      event.preventDefault();
+      if (readOnly || mergeOpenRef.current) return; // the conflict dialog has its own button
+      if (saveOpenRef.current) submitSaveRef.current?.();
+      else openSaveRevision();
+    };
+    window.addEventListener("keydown", onKey);
+    return () => window.removeEventListener("keydown", onKey);
+  }, [openSaveRevision, readOnly]);
+
+  // the sign-off panel (outside this component) needs to know whether the draft is beyond the revision
+  useEffect(() => {
+    publishDraftStatus({ scenarioId: info.id, hasDraft: hasDraft && !readOnly, latestNumber, openSaveRevision: readOnly ? null : openSaveRevision });
+  }, [latestNumber, hasDraft, info.id, openSaveRevision, readOnly]);
+  useEffect(() => () => publishDraftStatus(null), []);
   const [highlight, setHighlight] = useState<{ blocks: string[]; ports: string[] } | null>(null);
   const onHighlight = useCallback((h: ChartHighlight | null) => {
     setHighlight(h ? { blocks: h.blocks, ports: h.hops.flatMap((x) => [`${x.block}:${x.inPort}`, `${x.block}:${x.outPort}`]) } : null);
@@ -98,41 +198,14 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
     [partsData, texts],
   );
 
-  const reload = async () => {
-    setBusy("reload");
-    try {
-      await loadLatest();
-    } catch (e) {
-      reportError(e instanceof Error ? e.message : String(e));
-    } finally {
-      setBusy(null);
-    }
-  };
-
-  const saveAsNew = async () => {
-    setBusy("fork");
-    try {
-      const name = `${info.name} (my edits)`;
-      const created = await requestJson<{ scenario: { id: string } }>(scenarioUrls.list(projectId), {
-        method: "POST",
-        json: { name, scenario: { ...draft, name } },
-      });
-      forget();
-      router.push(`/projects/${projectId}/scenarios/${created.scenario.id}`);
-    } catch (e) {
-      reportError(e instanceof Error ? e.message : String(e));
-      setBusy(null);
-    }
-  };
-
   const toolbarExtras = (
     <>
       <span className="figures text-xs text-muted" aria-label="Revision">
         r{base.number}
       </span>
       {!readOnly ? (
-        <Button size="sm" variant="secondary" onClick={saveNow} disabled={saveState !== "unsaved" && saveState !== "error"} aria-label="Save now" title="Save now">
-          <Save aria-hidden="true" className="h-4 w-4" /> Save
+        <Button size="sm" variant={hasDraft ? "primary" : "secondary"} onClick={openSaveRevision} title="Save revision (Ctrl+S or ⌘S)">
+          <Save aria-hidden="true" className="h-4 w-4" /> Save revision
         </Button>
       ) : null}
       <Button size="sm" variant={historyOpen ? "primary" : "secondary"} onClick={() => setHistoryOpen((o) => !o)} aria-pressed={historyOpen} aria-label="Revision history">
@@ -152,7 +225,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
           scenarioId={info.id}
           currentNumber={base.number}
           readOnly={readOnly}
-          hasUnsavedEdits={saveState !== "saved"}
+          hasUnsavedEdits={hasDraft || saveState === "unsaved" || saveState === "saving"}
           onRestored={loadLatest}
         />
       ) : null}
@@ -167,7 +240,9 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
         parts={parts}
         readOnly={readOnly}
         onChange={onChange}
-        saveNow={saveNow}
+        hasDraft={hasDraft && !readOnly}
+        latestNumber={latestNumber}
+        onSaveRevision={openSaveRevision}
         onHighlight={onHighlight}
       />
       <ScenarioRulesPanel projectId={projectId} scenario={draft} onChange={onChange} readOnly={readOnly} />
@@ -194,52 +269,86 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, parts: 
           title="Unsaved edits from an earlier visit"
           actions={
             <div className="flex flex-wrap gap-2">
-              <Button size="sm" onClick={restoreDraft}>
+              <Button size="sm" onClick={() => void restoreOffered().catch((e: unknown) => reportError(e instanceof Error ? e.message : String(e)))}>
                 Restore my edits
               </Button>
-              <Button size="sm" variant="secondary" onClick={discardDraft}>
+              <Button size="sm" variant="secondary" onClick={dropOffered}>
                 Discard them
               </Button>
             </div>
           }
         >
-          This browser kept edits to r{offeredDraft.baseNumber} made {formatDate(offeredDraft.editedAt)} that were never saved
-          {offeredDraft.baseRevisionId !== base.id ? `; the scenario has been saved since (now r${base.number}), so restoring them will ask how to resolve the conflict` : ""}.
+          This browser kept edits to r{offeredDraft.baseNumber} made {formatDate(offeredDraft.editedAt)} that the server never received (it could not be reached). Restored, they become your working draft.
         </Alert>
       ) : null}
-      {conflict ? (
+      {hasDraft && !readOnly ? (
         <Alert
-          tone="error"
-          title="This scenario changed elsewhere"
+          tone="info"
+          title={`Working draft: your changes are not in revision ${latestNumber} yet`}
           actions={
             <div className="flex flex-wrap gap-2">
-              <Button size="sm" variant="secondary" loading={busy === "reload"} onClick={reload}>
-                Reload latest (discard my edits)
+              <Button size="sm" onClick={openSaveRevision}>
+                Save revision…
               </Button>
-              <Button size="sm" loading={busy === "fork"} onClick={saveAsNew}>
-                Save as new scenario
+              <Button size="sm" variant="secondary" onClick={() => setDiscardOpen(true)}>
+                Discard draft
               </Button>
             </div>
           }
         >
-          {conflict.message} Your edits are still on the chart and are not saved.
+          {openedDraft ? `Reopened your draft from ${formatDate(openedDraft.updatedAt)}. ` : ""}
+          Your draft is kept for you on the server (on any device) and only you see it
+          {base.number !== latestNumber ? `; it started from r${base.number}, and saving merges it with what was saved since` : ""}. Save a revision (<Kbd>Ctrl</Kbd> <Kbd>S</Kbd>) to share it, run stored checks on it or request sign-off.
         </Alert>
       ) : null}
-      {saveError && !conflict ? (
-        <Alert tone="error" title="Not saved" actions={!readOnly ? <Button size="sm" variant="secondary" onClick={saveNow}>Try again</Button> : undefined}>
+      {savedNotice ? <Alert tone="success">{savedNotice}</Alert> : null}
+      {saveError ? (
+        <Alert tone="error" title="The draft was not saved" actions={!readOnly ? <Button size="sm" variant="secondary" onClick={saveDraftNow}>Try again</Button> : undefined}>
           {saveError}
+        </Alert>
+      ) : null}
+      {saveState === "local" ? (
+        <Alert tone="warn" title="The server could not be reached" actions={<Button size="sm" variant="secondary" onClick={saveDraftNow}>Try again</Button>}>
+          Your edits are kept in this browser and go to your working draft when the server answers.
         </Alert>
       ) : null}
       {partsError ? <Alert tone="warn" title="The parts could not be loaded">{partsError instanceof Error ? partsError.message : String(partsError)}</Alert> : null}
       {textError && !partsError ? <Alert tone="warn" title="A placed part's data could not be loaded">{textError}</Alert> : null}
       {warnings.length > 0 && draft.blocks.length > 0 ? (
         <p className="text-xs text-warn-strong" aria-label="Revision warnings">
-          Saved as a draft: {warnings.join(" ")}
+          The revision is incomplete: {warnings.join(" ")}
         </p>
       ) : null}
       <div className="flex min-h-0 flex-1 flex-col">
         <Workspace key={generation} scenario={draft} parts={parts} readOnly={readOnly} onChange={onChange} saveState={saveState} toolbarExtras={toolbarExtras} highlight={highlight} side={side} projectRules={projectRules} />
       </div>
+      <SaveRevisionDialog
+        open={saveOpen}
+        onClose={() => setSaveOpen(false)}
+        onSave={onSave}
+        baseNumber={base.number}
+        baseContent={baseContent}
+        draft={draft}
+        error={saveDialogError}
+        submitRef={submitSaveRef}
+      />
+      <MergeConflictDialog conflicts={merge?.conflicts ?? null} current={merge?.current ?? null} onClose={() => setMerge(null)} onResolve={onResolve} error={saveDialogError} />
+      <ConfirmDialog
+        open={discardOpen}
+        onClose={() => setDiscardOpen(false)}
+        onConfirm={async () => {
+          try {
+            await discardDraft();
+            setDiscardOpen(false);
+          } catch (e) {
+            reportError(e instanceof Error ? e.message : String(e));
+            setDiscardOpen(false);
+          }
+        }}
+        title="Discard your draft?"
+        description={`Your changes since r${base.number} are thrown away and the chart shows revision ${latestNumber}. This cannot be undone.`}
+        confirmLabel="Discard draft"
+      />
     </div>
   );
 }

@@ -1,78 +1,119 @@
 "use client";
 
-import { useCallback, useEffect, useRef, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import type { Scenario } from "@/engine/types";
 import type { SaveState } from "@/components/scenario-editor";
 import { ApiError, requestJson, scenarioUrls } from "@/lib/browser/api-client";
-import type { RevisionView, ScenarioView } from "@/lib/domain/scenarios/types";
+import type { RevisionView, ScenarioDraftView, ScenarioView } from "@/lib/domain/scenarios/types";
+import { mergeScenarios, type MergeChoice, type MergeConflict } from "@/lib/domain/scenarios/merge";
 import { clearWorkingDraft, readWorkingDraft, writeWorkingDraft, type WorkingDraft } from "@/lib/browser/working-draft";
 
-/** Wait after the last edit before saving, ms. */
+/** Wait after the last edit before the working draft is written, ms. */
 const AUTOSAVE_DELAY_MS = 1500;
 
-/** Someone saved a revision after the one the edits started from. */
-export type SaveConflict = { revisionId: string; number: number; authorName: string | null; message: string };
+/** A deliberate save merged with a revision someone saved after this page's base. */
+export type SaveMerge = { number: number; authorName: string | null; settled: number };
+
+/** What "Save revision" came to: saved (perhaps merged), or real conflicts to settle (mine or theirs). */
+export type SaveRevisionOutcome =
+  | { ok: true; number: number; merged: SaveMerge | null }
+  | { ok: false; conflicts: MergeConflict[]; current: { number: number; authorName: string | null } };
 
 export type Autosave = {
-  /** the scenario as edited */
+  /** the scenario as edited (the working draft) */
   draft: Scenario;
-  /** the saved revision the edits start from */
+  /** the revision the draft starts from */
   base: { id: string; number: number };
+  /** the base revision's content (what the draft is compared with) */
+  baseContent: Scenario;
+  /** the newest revision this page knows of */
+  latestNumber: number;
+  /** true when the draft holds changes not in its base revision */
+  hasDraft: boolean;
   saveState: SaveState;
-  conflict: SaveConflict | null;
   saveError: string | null;
   reportError: (message: string | null) => void;
-  /** the saved revision's engine warnings */
+  /** the base revision's engine warnings */
   warnings: string[];
-  /** changes when the edits are replaced from the server: a fresh editor (and undo history) */
+  /** changes when the edits are replaced (a load, a merge): a fresh editor (and undo history) */
   generation: number;
-  /** an edit: saved AUTOSAVE_DELAY_MS after the last one, unless a conflict holds the edits */
+  /** an edit: written to the working draft AUTOSAVE_DELAY_MS after the last one */
   edit: (next: Scenario) => void;
-  /** save now instead of waiting */
-  saveNow: () => void;
-  /** replace the edits with the latest saved revision (after a conflict or a restore) */
+  /** write the working draft now instead of waiting (try again after an error) */
+  saveDraftNow: () => void;
+  /** save the draft as a named revision; merges with revisions saved since the base */
+  saveRevision: (note: string, resolutions?: Record<string, MergeChoice>) => Promise<SaveRevisionOutcome>;
+  /** replace the edits with the latest saved revision (after a restore or a discard) */
   loadLatest: () => Promise<void>;
+  /** throw the working draft away (server and this browser) and load the latest revision */
+  discardDraft: () => Promise<void>;
   /** the edits went elsewhere (saved as a new scenario): leaving no longer asks */
   forget: () => void;
-  /** unsaved edits of an earlier visit (reload, closed tab, failed save), kept in this browser */
+  /** the server draft the page opened with (its time and base), for the notice */
+  openedDraft: ScenarioDraftView | null;
+  /** edits kept only in this browser (the server could not be reached), newer than the server's draft */
   offeredDraft: WorkingDraft | null;
-  /** put the offered draft back on the chart as unsaved edits (saved as usual after that) */
-  restoreDraft: () => void;
-  /** throw the offered draft away */
-  discardDraft: () => void;
+  /** put the offered edits back on the chart (written to the working draft as usual after that) */
+  restoreOffered: () => Promise<void>;
+  /** throw the offered edits away */
+  dropOffered: () => void;
 };
 
-/** Asked before an in-app link leaves the page while edits are unsaved. */
-export const LEAVE_QUESTION = "This scenario has unsaved edits. Leave the page anyway? They are kept in this browser as a working draft and offered back when you open the scenario again.";
+/** Asked before an in-app link leaves the page while edits are not yet in the working draft. */
+export const LEAVE_QUESTION = "This scenario has unsaved edits not yet stored as your working draft. Leave the page anyway? They are kept in this browser and offered back when you open the scenario again.";
+
+const sameContent = (a: Scenario, b: Scenario) => a === b || JSON.stringify(a) === JSON.stringify(b);
 
 /**
- * The autosave machine of the scenario page, in one place. States: saved → (edit) unsaved → (delay or
- * save now) saving → saved, or unsaved again when edits came in meanwhile (they go out next), or error
- * (try again), or conflict (a stale base: 409 from the revisions route). A conflict keeps the edits and
- * stops saving until loadLatest replaces them or forget lets them go. Leaving the page with unsaved
- * edits asks first.
+ * The scenario page's working draft and deliberate saves, in one place. Edits go to the person's working
+ * draft on the server (PUT …/draft) 1.5 s after the last one, never to a revision; every edit is also
+ * kept in localStorage until the server has it, the fallback when the server cannot be reached. A
+ * revision is written only by saveRevision (a note, "Save revision" or Ctrl/Cmd+S), which merges with
+ * what others saved since the base and returns real conflicts for the person to settle. States: saved
+ * (nothing beyond the base revision) → (edit) unsaved → saving → draft, or local (kept in this browser
+ * only), or error (the server refused).
  */
-export function useAutosave({ projectId, scenarioId, revision, readOnly }: { projectId: string; scenarioId: string; revision: RevisionView; readOnly: boolean }): Autosave {
-  const [draft, setDraft] = useState<Scenario>(revision.content);
-  const [base, setBase] = useState<{ id: string; number: number }>({ id: revision.id, number: revision.number });
-  const [saveState, setSaveState] = useState<SaveState>("saved");
-  const [conflict, setConflict] = useState<SaveConflict | null>(null);
+export function useAutosave({
+  projectId,
+  scenarioId,
+  revision,
+  initialDraft,
+  readOnly,
+}: {
+  projectId: string;
+  scenarioId: string;
+  revision: RevisionView;
+  /** the person's working draft on the server when the page was opened, with its base revision's content */
+  initialDraft: (ScenarioDraftView & { baseContent: Scenario }) | null;
+  readOnly: boolean;
+}): Autosave {
+  const opened = !readOnly && initialDraft ? initialDraft : null;
+  const [draft, setDraft] = useState<Scenario>(opened ? opened.content : revision.content);
+  const [base, setBase] = useState<{ id: string; number: number }>(opened ? { id: opened.baseRevisionId, number: opened.baseNumber } : { id: revision.id, number: revision.number });
+  const [baseContent, setBaseContent] = useState<Scenario>(opened ? opened.baseContent : revision.content);
+  const [latestNumber, setLatestNumber] = useState(revision.number);
+  const [saveState, setSaveState] = useState<SaveState>(opened ? "draft" : "saved");
   const [saveError, setSaveError] = useState<string | null>(null);
   const [warnings, setWarnings] = useState<string[]>(revision.warnings);
   const [generation, setGeneration] = useState(0);
   const [offeredDraft, setOfferedDraft] = useState<WorkingDraft | null>(null);
+  const [openedDraft, setOpenedDraft] = useState<ScenarioDraftView | null>(opened);
 
-  // refs so that timers and in-flight saves see the latest values
+  // refs so that timers and in-flight requests see the latest values
   const draftRef = useRef(draft);
   const baseRef = useRef(base);
+  const baseContentRef = useRef(baseContent);
   const dirtyRef = useRef(false);
   const savingRef = useRef(false);
-  const conflictRef = useRef<SaveConflict | null>(null);
   const timer = useRef<number | null>(null);
-  const saveRef = useRef<() => Promise<void>>(async () => undefined);
+  const flushRef = useRef<() => Promise<void>>(async () => undefined);
+  /** the draft write under way, if any: a revision save waits for it, so that it cannot land after the save */
+  const inFlight = useRef<Promise<void> | null>(null);
 
-  // every unsaved edit is also the working draft in localStorage, until a save catches up with it
-  const keepDraft = useCallback(() => {
+  const hasDraft = useMemo(() => !sameContent(draft, baseContent), [draft, baseContent]);
+
+  // every edit not yet on the server is also kept in this browser
+  const keepLocal = useCallback(() => {
     writeWorkingDraft({ scenarioId, baseRevisionId: baseRef.current.id, baseNumber: baseRef.current.number, scenario: draftRef.current, editedAt: new Date().toISOString() });
   }, [scenarioId]);
 
@@ -80,76 +121,78 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
     if (timer.current !== null) window.clearTimeout(timer.current);
     timer.current = window.setTimeout(() => {
       timer.current = null;
-      void saveRef.current();
+      void flushRef.current();
     }, AUTOSAVE_DELAY_MS);
   }, []);
 
-  const save = useCallback(async () => {
-    if (readOnly || conflictRef.current || savingRef.current || !dirtyRef.current) return;
+  /** Write the working draft (or drop it when the edits came back to the base revision). */
+  const flush = useCallback(async () => {
+    if (readOnly || savingRef.current || !dirtyRef.current) return;
     savingRef.current = true;
     const sent = draftRef.current;
+    const unchanged = sameContent(sent, baseContentRef.current);
     setSaveState("saving");
+    let refused = false;
     try {
-      const { revision: saved } = await requestJson<{ revision: RevisionView }>(scenarioUrls.revisions(projectId, scenarioId), {
-        method: "POST",
-        json: { baseRevisionId: baseRef.current.id, scenario: sent },
-      });
-      baseRef.current = { id: saved.id, number: saved.number };
-      setBase(baseRef.current);
-      setWarnings(saved.warnings);
-      setSaveError(null);
+      const request = unchanged
+        ? requestJson<void>(scenarioUrls.draft(projectId, scenarioId), { method: "DELETE" })
+        : requestJson<void>(scenarioUrls.draft(projectId, scenarioId), { method: "PUT", json: { baseRevisionId: baseRef.current.id, scenario: sent } }).then(() => undefined);
+      inFlight.current = request.catch(() => undefined);
+      await request;
       dirtyRef.current = draftRef.current !== sent;
-      setSaveState(dirtyRef.current ? "unsaved" : "saved");
-      if (dirtyRef.current) keepDraft();
-      else clearWorkingDraft(scenarioId);
+      setSaveError(null);
+      if (dirtyRef.current) setSaveState("unsaved");
+      else {
+        clearWorkingDraft(scenarioId);
+        setSaveState(unchanged ? "saved" : "draft");
+      }
     } catch (e) {
-      if (e instanceof ApiError && e.status === 409) {
-        const current = (e.body as { current?: { revisionId: string; number: number; authorName: string | null } } | null)?.current;
-        const c: SaveConflict = { revisionId: current?.revisionId ?? "", number: current?.number ?? 0, authorName: current?.authorName ?? null, message: e.message };
-        conflictRef.current = c;
-        setConflict(c);
-        setSaveState("conflict");
-      } else {
-        setSaveError(e instanceof Error ? e.message : String(e));
+      if (e instanceof ApiError && e.status < 500) {
+        // refused (a role, bad content): retrying will not help; the edits stay in this browser
+        refused = true;
+        setSaveError(e.message);
         setSaveState("error");
+      } else {
+        // unreachable or failing server: the edits are in localStorage; the next edit or "Try again" retries
+        setSaveError(null);
+        setSaveState("local");
       }
     } finally {
       savingRef.current = false;
+      inFlight.current = null;
     }
-    // edits made while the save was under way go out next
-    if (dirtyRef.current && !conflictRef.current) schedule();
-  }, [keepDraft, projectId, readOnly, scenarioId, schedule]);
+    if (dirtyRef.current && !refused && draftRef.current !== sent) schedule();
+  }, [projectId, readOnly, scenarioId, schedule]);
 
   useEffect(() => {
-    saveRef.current = save;
-  }, [save]);
+    flushRef.current = flush;
+  }, [flush]);
 
-  // Leaving the page inside the app (another tab of the project, the helm) unmounts the hook: the
-  // pending edits go out now rather than being dropped with the timer; the working draft stays until
-  // the save succeeds.
+  // Leaving the page inside the app unmounts the hook: pending edits go to the draft now rather than
+  // being dropped with the timer; localStorage keeps them until the server has them.
   useEffect(
     () => () => {
       if (timer.current !== null) window.clearTimeout(timer.current);
       timer.current = null;
-      if (dirtyRef.current && !conflictRef.current) void saveRef.current();
+      if (dirtyRef.current) void flushRef.current();
     },
     [],
   );
 
-  // An earlier visit's unsaved edits are offered back (after mount: localStorage is browser-only).
+  // Edits this browser kept while the server could not be reached are offered back when newer than the
+  // server's draft (after mount: localStorage is browser-only).
   useEffect(() => {
     if (readOnly) return;
     const stored = readWorkingDraft(scenarioId);
     if (!stored) return;
-    if (JSON.stringify(stored.scenario) === JSON.stringify(revision.content)) {
-      clearWorkingDraft(scenarioId); // nothing in it that the revision does not have
+    const serverTime = opened ? Date.parse(opened.updatedAt) : 0;
+    if (sameContent(stored.scenario, draftRef.current) || Date.parse(stored.editedAt) <= serverTime) {
+      clearWorkingDraft(scenarioId); // nothing in it that the server does not have
       return;
     }
-    // One extra render on opening the page: the server cannot know this browser's storage, so the
-    // offer cannot be in the first (hydrated) render.
-    // eslint-disable-next-line react-hooks/set-state-in-effect
+    // One extra render on opening the page: the server cannot know this browser's storage.
     setOfferedDraft(stored);
-    // only on opening the page: later revisions come from this page's own saves
+    // only on opening the page
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, []);
 
@@ -159,15 +202,14 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
       draftRef.current = next;
       dirtyRef.current = true;
       setDraft(next);
-      keepDraft();
-      if (conflictRef.current) return; // keep the edits; the banner decides what happens to them
+      keepLocal();
       setSaveState("unsaved");
       schedule();
     },
-    [keepDraft, readOnly, schedule],
+    [keepLocal, readOnly, schedule],
   );
 
-  // leaving with unsaved edits asks first
+  // leaving with edits not yet in the working draft asks first
   useEffect(() => {
     const onBeforeUnload = (event: BeforeUnloadEvent) => {
       if (!dirtyRef.current) return;
@@ -196,52 +238,142 @@ export function useAutosave({ projectId, scenarioId, revision, readOnly }: { pro
     };
   }, []);
 
+  /** Put a revision on the chart as the base, with nothing beyond it. */
+  const adopt = useCallback(
+    (saved: RevisionView) => {
+      draftRef.current = saved.content;
+      dirtyRef.current = false;
+      baseRef.current = { id: saved.id, number: saved.number };
+      baseContentRef.current = saved.content;
+      setDraft(saved.content);
+      setBase(baseRef.current);
+      setBaseContent(saved.content);
+      setLatestNumber((n) => Math.max(n, saved.number));
+      setWarnings(saved.warnings);
+      setSaveError(null);
+      setSaveState("saved");
+      setOpenedDraft(null);
+      clearWorkingDraft(scenarioId);
+    },
+    [scenarioId],
+  );
+
   const loadLatest = useCallback(async () => {
     const latest = await requestJson<{ scenario: ScenarioView; revision: RevisionView }>(scenarioUrls.one(projectId, scenarioId));
-    draftRef.current = latest.revision.content;
-    dirtyRef.current = false;
-    baseRef.current = { id: latest.revision.id, number: latest.revision.number };
-    conflictRef.current = null;
-    setDraft(latest.revision.content);
-    setBase(baseRef.current);
-    setWarnings(latest.revision.warnings);
-    setConflict(null);
-    setSaveError(null);
-    setSaveState("saved");
-    setGeneration((g) => g + 1); // a fresh undo history: the old one describes discarded edits
-    clearWorkingDraft(scenarioId);
-  }, [projectId, scenarioId]);
+    adopt(latest.revision);
+    setLatestNumber(latest.revision.number);
+    setGeneration((g) => g + 1); // a fresh undo history: the old one describes replaced edits
+  }, [adopt, projectId, scenarioId]);
 
-  const saveNow = useCallback(() => {
+  const saveRevision = useCallback(
+    async (note: string, resolutions?: Record<string, MergeChoice>): Promise<SaveRevisionOutcome> => {
+      if (timer.current !== null) window.clearTimeout(timer.current);
+      timer.current = null;
+      // a draft write still under way would otherwise land after the save and bring the draft back
+      if (inFlight.current) await inFlight.current;
+      const sent = draftRef.current;
+      const sentBase = baseRef.current;
+      try {
+        const { revision: saved, merged } = await requestJson<{ revision: RevisionView; merged: SaveMerge | null }>(scenarioUrls.revisions(projectId, scenarioId), {
+          method: "POST",
+          json: { baseRevisionId: sentBase.id, scenario: sent, note: note.trim() || null, ...(resolutions ? { resolutions } : {}) },
+        });
+        const meanwhile = draftRef.current;
+        adopt(saved);
+        if (meanwhile !== sent) {
+          // edits made while the save was under way stay, on top of what was saved (the saved revision
+          // may hold someone else's merged edits: merge rather than overwrite them)
+          const onTop = mergeScenarios(sent, meanwhile, saved.content);
+          draftRef.current = onTop.ok ? onTop.scenario : meanwhile;
+          dirtyRef.current = true;
+          setDraft(draftRef.current);
+          setSaveState("unsaved");
+          keepLocal();
+          schedule();
+        }
+        if (merged || meanwhile !== sent) setGeneration((g) => g + 1); // the chart shows content it did not edit
+        return { ok: true, number: saved.number, merged };
+      } catch (e) {
+        if (e instanceof ApiError && e.status === 409) {
+          const body = e.body as { conflicts?: MergeConflict[]; current?: { number: number; authorName: string | null } } | null;
+          if (body?.conflicts && body.current) {
+            setLatestNumber((n) => Math.max(n, body.current?.number ?? n));
+            return { ok: false, conflicts: body.conflicts, current: body.current };
+          }
+        }
+        throw e;
+      }
+    },
+    [adopt, keepLocal, projectId, scenarioId, schedule],
+  );
+
+  const saveDraftNow = useCallback(() => {
     if (timer.current !== null) window.clearTimeout(timer.current);
     timer.current = null;
-    void save();
-  }, [save]);
+    dirtyRef.current = dirtyRef.current || hasDraft;
+    void flush();
+  }, [flush, hasDraft]);
+
+  const discardDraft = useCallback(async () => {
+    if (timer.current !== null) window.clearTimeout(timer.current);
+    timer.current = null;
+    dirtyRef.current = false;
+    await requestJson(scenarioUrls.draft(projectId, scenarioId), { method: "DELETE" });
+    clearWorkingDraft(scenarioId);
+    setOfferedDraft(null);
+    await loadLatest();
+  }, [loadLatest, projectId, scenarioId]);
 
   const forget = useCallback(() => {
     dirtyRef.current = false;
     clearWorkingDraft(scenarioId);
   }, [scenarioId]);
 
-  const restoreDraft = useCallback(() => {
+  const restoreOffered = useCallback(async () => {
     if (!offeredDraft || readOnly) return;
-    // The edits go back onto the revision they started from: if that is not the latest any more, the
-    // save answers with the usual conflict, which offers reload or "save as new scenario".
+    // The edits go back with the revision they started from as their base, so that "Save revision"
+    // merges them with whatever was saved since rather than undoing it.
+    if (offeredDraft.baseRevisionId !== baseRef.current.id) {
+      const old = await requestJson<{ revision: RevisionView }>(`${scenarioUrls.one(projectId, scenarioId)}?revision=${encodeURIComponent(offeredDraft.baseRevisionId)}`);
+      baseRef.current = { id: old.revision.id, number: old.revision.number };
+      baseContentRef.current = old.revision.content;
+      setBase(baseRef.current);
+      setBaseContent(old.revision.content);
+    }
     draftRef.current = offeredDraft.scenario;
-    baseRef.current = { id: offeredDraft.baseRevisionId, number: offeredDraft.baseNumber };
     dirtyRef.current = true;
     setDraft(offeredDraft.scenario);
-    setBase(baseRef.current);
     setOfferedDraft(null);
     setSaveState("unsaved");
     setGeneration((g) => g + 1);
     schedule();
-  }, [offeredDraft, readOnly, schedule]);
+  }, [offeredDraft, projectId, readOnly, scenarioId, schedule]);
 
-  const discardDraft = useCallback(() => {
+  const dropOffered = useCallback(() => {
     clearWorkingDraft(scenarioId);
     setOfferedDraft(null);
   }, [scenarioId]);
 
-  return { draft, base, saveState, conflict, saveError, reportError: setSaveError, warnings, generation, edit, saveNow, loadLatest, forget, offeredDraft, restoreDraft, discardDraft };
+  return {
+    draft,
+    base,
+    baseContent,
+    latestNumber,
+    hasDraft,
+    saveState,
+    saveError,
+    reportError: setSaveError,
+    warnings,
+    generation,
+    edit,
+    saveDraftNow,
+    saveRevision,
+    loadLatest,
+    discardDraft,
+    forget,
+    openedDraft,
+    offeredDraft,
+    restoreOffered,
+    dropOffered,
+  };
 }

@@ -11,6 +11,7 @@ import type { RevisionVerdict } from "@/lib/domain/checks/types";
 import { SignoffStateBadge } from "./signoff-state-badge";
 import { signoffUrls, type SignoffItem } from "./types";
 import { formatDate } from "@/lib/base/dates";
+import { useDraftStatus } from "@/lib/browser/draft-status";
 
 type Member = { userId: string; email: string; name: string; role: Role };
 
@@ -118,7 +119,11 @@ function RequestForm({ projectId, scenarioId, userId, onDone }: { projectId: str
   const [note, setNote] = useState("");
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<{ tone: "error" | "success"; text: string } | null>(null);
+  // sign-off judges a saved revision: a working draft beyond it is saved (or discarded) first
+  const draft = useDraftStatus(scenarioId);
+  const blockedByDraft = draft?.hasDraft === true;
   const submit = async () => {
+    if (blockedByDraft) return;
     if (chosen.length === 0) {
       setMessage({ tone: "error", text: "Choose at least one reviewer." });
       return;
@@ -173,9 +178,24 @@ function RequestForm({ projectId, scenarioId, userId, onDone }: { projectId: str
       <Field label="Note to the reviewers">
         <Textarea value={note} onChange={(e) => setNote(e.target.value)} rows={2} maxLength={2000} />
       </Field>
+      {blockedByDraft ? (
+        <Alert
+          tone="warn"
+          title={`Your draft has changes not in revision ${draft.latestNumber}`}
+          actions={
+            draft.openSaveRevision ? (
+              <Button type="button" size="sm" onClick={draft.openSaveRevision}>
+                Save revision…
+              </Button>
+            ) : undefined
+          }
+        >
+          A sign-off is of a saved revision. Save your draft as a revision (or discard it) before requesting one.
+        </Alert>
+      ) : null}
       {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
       <div>
-        <Button type="submit" loading={busy} disabled={candidates.length === 0}>
+        <Button type="submit" loading={busy} disabled={candidates.length === 0 || blockedByDraft}>
           Request sign-off
         </Button>
       </div>

@@ -2,7 +2,7 @@ import "server-only";
 import { createHash, randomUUID } from "node:crypto";
 import { and, desc, eq } from "drizzle-orm";
 import { db, runInTransaction, type Executor } from "@/db/client";
-import { scenarioRevisions, scenarios, users, type ScenarioRevision } from "@/db/schema";
+import { scenarioDrafts, scenarioRevisions, scenarios, users, type ScenarioRevision } from "@/db/schema";
 import { CanonicalJsonError, canonicalJson } from "@/engine/canonical-json";
 import type { Scenario } from "@/engine/types";
 import { scenarioWarnings } from "@/lib/domain/scenarios/for-engine";
@@ -12,6 +12,8 @@ import { AppError } from "@/lib/base/errors";
 import { authorize } from "@/lib/server/permissions";
 import type { DraftScenario } from "@/lib/base/validation/scenarios";
 import { stampRuleChanges } from "@/lib/domain/rules/stamp";
+import { mergeScenarios, type MergeChoice, type MergeConflict } from "@/lib/domain/scenarios/merge";
+import { summarizeChanges, type RevisionChangeSummary } from "@/lib/domain/scenarios/summary";
 import { getPartTexts, partFilesOf } from "./parts";
 import { partPinMoves } from "@/lib/domain/parts/pins";
 
@@ -27,6 +29,12 @@ export type RevisionDetail = {
   origin: string;
   restoredFrom: number | null;
   authorName: string | null;
+  /** the author's note on a deliberate save */
+  note: string | null;
+  /** what changed against the previous revision (null on revisions older than the column) */
+  summary: RevisionChangeSummary | null;
+  /** for a save merged with later revisions: the newest one's number */
+  mergedWith: number | null;
   createdAt: Date;
 };
 
@@ -54,6 +62,9 @@ const revisionColumns = {
   origin: scenarioRevisions.origin,
   restoredFrom: scenarioRevisions.restoredFrom,
   authorName: users.name,
+  note: scenarioRevisions.note,
+  summary: scenarioRevisions.summary,
+  mergedWith: scenarioRevisions.mergedWith,
   createdAt: scenarioRevisions.createdAt,
 };
 
@@ -70,10 +81,21 @@ export async function insertRevision(
     authorId,
     origin,
     restoredFrom = null,
-  }: { scenarioId: string; projectId: string; content: Scenario | DraftScenario; authorId: string | null; origin: RevisionOrigin; restoredFrom?: number | null },
+    note = null,
+    mergedWith = null,
+  }: {
+    scenarioId: string;
+    projectId: string;
+    content: Scenario | DraftScenario;
+    authorId: string | null;
+    origin: RevisionOrigin;
+    restoredFrom?: number | null;
+    note?: string | null;
+    mergedWith?: number | null;
+  },
 ): Promise<RevisionDetail> {
   const [row] = await tx
-    .select({ number: scenarios.latestRevisionNumber, name: scenarios.name })
+    .select({ number: scenarios.latestRevisionNumber, name: scenarios.name, latestId: scenarios.latestRevisionId })
     .from(scenarios)
     .where(eq(scenarios.id, scenarioId));
   if (!row) throw new AppError("not_found", 404, "Scenario not found.");
@@ -84,6 +106,9 @@ export async function insertRevision(
   const id = randomUUID();
   const now = new Date();
   const contentHash = hashScenarioContent(stored);
+  // what changed against the revision before, in words, stored so that the history needs no diffing
+  const [previous] = row.latestId ? await tx.select({ content: scenarioRevisions.content }).from(scenarioRevisions).where(eq(scenarioRevisions.id, row.latestId)) : [];
+  const summary = summarizeChanges(previous?.content ?? null, stored, previous ? row.number : null);
   await tx.insert(scenarioRevisions).values({
     id,
     scenarioId,
@@ -96,6 +121,9 @@ export async function insertRevision(
     authorId,
     blockCount: Array.isArray(stored.blocks) ? stored.blocks.length : 0,
     portNames: (Array.isArray(stored.ports) ? stored.ports : []).map((p) => p?.name).filter((n): n is string => typeof n === "string"),
+    note,
+    summary,
+    mergedWith,
     createdAt: now,
   });
   await tx.update(scenarios).set({ latestRevisionId: id, latestRevisionNumber: number, updatedAt: now }).where(eq(scenarios.id, scenarioId));
@@ -104,7 +132,7 @@ export async function insertRevision(
     const [author] = await tx.select({ name: users.name }).from(users).where(eq(users.id, authorId));
     authorName = author?.name ?? null;
   }
-  return { id, number, content: stored, contentHash, warnings, origin, restoredFrom, authorName, createdAt: now };
+  return { id, number, content: stored, contentHash, warnings, origin, restoredFrom, authorName, note, summary, mergedWith, createdAt: now };
 }
 
 /** The scenario row if it belongs to the project; 404 otherwise. */
@@ -128,22 +156,28 @@ export async function loadRevision(executor: Executor, { scenarioId, revisionId 
   return row;
 }
 
-/** A save that started from an older revision than the latest. */
+/** A save that started from an older revision than the latest, whose edits conflict with the later ones. */
 export class StaleRevisionError extends AppError {
   readonly current: { revisionId: string; number: number; authorName: string | null; createdAt: Date };
-  constructor(current: StaleRevisionError["current"]) {
+  /** the conflicts still to settle (mine = the save's, theirs = the latest revision's) */
+  readonly conflicts: MergeConflict[];
+  constructor(current: StaleRevisionError["current"], conflicts: MergeConflict[]) {
     super(
       "conflict",
       409,
-      `Someone saved this scenario (revision ${current.number}${current.authorName ? ` by ${current.authorName}` : ""}) after you opened it. Reload the latest revision or save your edits as a new scenario.`,
+      `Someone saved this scenario (revision ${current.number}${current.authorName ? ` by ${current.authorName}` : ""}) after you opened it, and ${conflicts.length === 1 ? "one of your edits changes the same thing" : `${conflicts.length} of your edits change the same things`}: choose yours or theirs for each.`,
     );
     this.current = current;
+    this.conflicts = conflicts;
   }
 }
 
 /**
- * Save the workspace's scenario as a new revision, if `baseRevisionId` is still the latest one;
- * otherwise StaleRevisionError (409) naming the current revision. Engineers and owners.
+ * Save the workspace's scenario as a new revision. When `baseRevisionId` is no longer the latest, the
+ * edits are merged three-way with what was saved since (lib/domain/scenarios/merge.ts): different blocks,
+ * links and rules merge by themselves (the revision records `mergedWith`); a real conflict needs a
+ * resolution (mine or theirs) per conflict key, else StaleRevisionError (409) lists them and writes
+ * nothing. The saver's working draft goes with the save. Engineers and owners.
  */
 export async function saveRevision({
   actor,
@@ -151,32 +185,48 @@ export async function saveRevision({
   scenarioId,
   baseRevisionId,
   content,
+  note = null,
+  resolutions = {},
 }: {
   actor: SessionUser;
   projectId: string;
   scenarioId: string;
   baseRevisionId: string;
   content: DraftScenario;
-}): Promise<RevisionDetail> {
+  note?: string | null;
+  resolutions?: Record<string, MergeChoice>;
+}): Promise<RevisionDetail & { merged: SaveMerge | null }> {
   return runInTransaction(async (tx) => {
     await authorize({ userId: actor.id, projectId, action: "scenario.edit", executor: tx });
     const row = await requireScenarioRow(tx, { projectId, scenarioId });
+    const base = await loadRevision(tx, { scenarioId, revisionId: baseRevisionId });
+    let latest = base;
+    let merged: Scenario = content as Scenario;
+    let mergedWith: number | null = null;
+    let settled = 0;
     if (row.latestRevisionId !== baseRevisionId) {
-      const current = await loadRevision(tx, { scenarioId, revisionId: row.latestRevisionId ?? "" });
-      throw new StaleRevisionError({ revisionId: current.id, number: current.number, authorName: current.authorName, createdAt: current.createdAt });
+      latest = await loadRevision(tx, { scenarioId, revisionId: row.latestRevisionId ?? "" });
+      const result = mergeScenarios(base.content, content as Scenario, latest.content, resolutions);
+      if (!result.ok) throw new StaleRevisionError({ revisionId: latest.id, number: latest.number, authorName: latest.authorName, createdAt: latest.createdAt }, result.conflicts);
+      merged = result.scenario;
+      mergedWith = latest.number;
+      settled = result.conflicts.length;
     }
     // who changed an override or opt-out is the saving user, not what the client wrote
-    const base = await loadRevision(tx, { scenarioId, revisionId: baseRevisionId });
-    const stamped = stampRuleChanges(base.content, content, actor.email, new Date());
-    const revision = await insertRevision(tx, { scenarioId, projectId, content: stamped, authorId: actor.id, origin: "save" });
-    await recordAudit(tx, { actor, projectId, action: "scenario.save", target: revision.content.name, detail: { scenarioId, revision: revision.number } });
+    const stamped = stampRuleChanges(latest.content, merged, actor.email, new Date());
+    const revision = await insertRevision(tx, { scenarioId, projectId, content: stamped, authorId: actor.id, origin: "save", note: note?.trim() || null, mergedWith });
+    await tx.delete(scenarioDrafts).where(and(eq(scenarioDrafts.scenarioId, scenarioId), eq(scenarioDrafts.userId, actor.id)));
+    await recordAudit(tx, { actor, projectId, action: "scenario.save", target: revision.content.name, detail: { scenarioId, revision: revision.number, ...(mergedWith !== null ? { mergedWith } : {}) } });
     // a block moved to another version of its part ("newer version available") is its own audit event
-    for (const move of partPinMoves(base.content, revision.content)) {
+    for (const move of partPinMoves(latest.content, revision.content)) {
       await recordAudit(tx, { actor, projectId, action: "part.move", target: move.file.replace(/^parts\//, ""), detail: { scenarioId, scenario: revision.content.name, revision: revision.number, block: move.blockId, from: move.from, to: move.to } });
     }
-    return revision;
+    return { ...revision, merged: mergedWith !== null ? { number: latest.number, authorName: latest.authorName, settled } : null };
   });
 }
+
+/** A save merged with a later revision: which one, by whom, and how many conflicts the saver settled. */
+export type SaveMerge = { number: number; authorName: string | null; settled: number };
 
 /** Every revision of a scenario, newest first, without content. Anyone in the project. */
 export async function listRevisions({ userId, projectId, scenarioId }: { userId: string; projectId: string; scenarioId: string }): Promise<RevisionSummary[]> {

@@ -51,6 +51,7 @@ export const scenarioUrls = {
   list: (projectId: string) => `/api/projects/${projectId}/scenarios`,
   one: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}`,
   revisions: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/revisions`,
+  draft: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/draft`,
   restore: (projectId: string, scenarioId: string, revisionId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/revisions/${revisionId}/restore`,
   duplicate: (projectId: string, scenarioId: string) => `/api/projects/${projectId}/scenarios/${scenarioId}/duplicate`,
   solve: (projectId: string, scenarioId: string, format: "json" | "touchstone" | "csv", revisionId?: string) =>

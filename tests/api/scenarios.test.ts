@@ -174,14 +174,18 @@ describe("revisions", () => {
     expect(revision.contentHash).not.toBe(first.contentHash);
   });
 
-  it("a save from a stale revision answers 409 with the current revision number, and writes nothing", async () => {
+  it("a save from a stale revision that changes what was saved since answers 409 with the current revision and the conflict, and writes nothing", async () => {
     const before = await countRows(scenarioRevisions);
-    const response = await save(owner.cookie, scenarioId, { baseRevisionId: first.id, scenario: { ...twoPads("Revised"), z0: 75 } });
+    // r3 added PAD1 with 3 dB; this save, from r1, adds PAD1 with 6 dB: the same parameter, two values
+    const mine = twoPads("Revised");
+    mine.blocks[0].params = { loss_db: 6 };
+    const response = await save(owner.cookie, scenarioId, { baseRevisionId: first.id, scenario: mine });
     expect(response.status).toBe(409);
-    const body = (await response.json()) as ErrorJson & { current: { number: number; authorName: string } };
+    const body = (await response.json()) as ErrorJson & { current: { number: number; authorName: string }; conflicts: { key: string; mine: string; theirs: string }[] };
     expect(body.error.code).toBe("conflict");
     expect(body.current.number).toBe(3);
     expect(body.current.authorName).toBe("Ezra Engineer");
+    expect(body.conflicts).toEqual([expect.objectContaining({ key: "block:PAD1:param:loss_db", mine: "6 dB", theirs: "3 dB" })]);
     expect(await countRows(scenarioRevisions)).toBe(before);
   });
 

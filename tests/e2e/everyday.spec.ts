@@ -33,9 +33,10 @@ async function createScenario(page: Page, projectId: string, name: string, templ
   return ((await response.json()) as { scenario: { id: string } }).scenario.id;
 }
 
-async function savedBlockIds(page: Page, projectId: string, scenarioId: string): Promise<string[]> {
-  const body = (await (await page.request.get(`/api/projects/${projectId}/scenarios/${scenarioId}`)).json()) as { revision: { content: { blocks: { id: string }[] } } };
-  return body.revision.content.blocks.map((b) => b.id);
+/** The blocks of the person's working draft on the server (autosave writes the draft, never a revision). */
+async function draftBlockIds(page: Page, projectId: string, scenarioId: string): Promise<string[]> {
+  const body = (await (await page.request.get(`/api/projects/${projectId}/scenarios/${scenarioId}/draft`)).json()) as { draft: { content: { blocks: { id: string }[] } } | null };
+  return body.draft?.content.blocks.map((b) => b.id) ?? [];
 }
 
 async function addLoad(page: Page): Promise<void> {
@@ -51,10 +52,10 @@ test.describe("1. no edit is lost", () => {
     const scenarioId = await createScenario(page, projectId, "E2E leave guard");
     await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
     await expect(block(page, "PAD1")).toBeVisible();
-    // hold the autosave so that the edit is certainly unsaved when the link is clicked
+    // hold the autosave (of the working draft) so that the edit is certainly unsaved when the link is clicked
     let release: () => void = () => undefined;
     const held = new Promise<void>((resolve) => (release = resolve));
-    await page.route(`**/scenarios/${scenarioId}/revisions`, async (route) => {
+    await page.route(`**/scenarios/${scenarioId}/draft`, async (route) => {
       await held;
       await route.continue();
     });
@@ -74,10 +75,11 @@ test.describe("1. no edit is lost", () => {
     await page.getByRole("navigation", { name: "Project sections" }).getByRole("link", { name: "Parts", exact: true }).click();
     await expect(page).toHaveURL(new RegExp(`/projects/${projectId}/parts$`));
     release();
-    await expect.poll(() => savedBlockIds(page, projectId, scenarioId), { timeout: 30_000 }).toContain("LOAD1");
+    await expect.poll(() => draftBlockIds(page, projectId, scenarioId), { timeout: 30_000 }).toContain("LOAD1");
+    await page.unroute(`**/scenarios/${scenarioId}/draft`);
     await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
     await expect(block(page, "LOAD1")).toBeVisible();
-    await expect(saveState(page)).toHaveText("Saved");
+    await expect(saveState(page)).toHaveText("Draft saved");
   });
 
   test("edits of a closed tab are kept as the working draft and offered back", async ({ browser }) => {
@@ -86,12 +88,12 @@ test.describe("1. no edit is lost", () => {
     await signInAs(page, "engineer");
     const projectId = await demoProjectId(page);
     const scenarioId = await createScenario(page, projectId, "E2E closed tab");
-    // the server never gets the edit: every save of this tab fails
-    await page.route(`**/scenarios/${scenarioId}/revisions`, (route) => route.abort());
+    // the server never gets the edit: every draft write of this tab fails (as with a lost connection)
+    await page.route(`**/scenarios/${scenarioId}/draft`, (route) => route.abort());
     await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
     await expect(block(page, "PAD1")).toBeVisible();
     await addLoad(page);
-    await expect(saveState(page)).toHaveText("Not saved: error");
+    await expect(saveState(page)).toHaveText("Draft kept in this browser");
     await page.close(); // a closed tab: no question asked (runBeforeUnload is off)
 
     const again = await context.newPage();
@@ -101,9 +103,9 @@ test.describe("1. no edit is lost", () => {
     await expect(block(again, "LOAD1")).toHaveCount(0);
     await offer.getByRole("button", { name: "Restore my edits" }).click();
     await expect(block(again, "LOAD1")).toBeVisible();
-    await expect(saveState(again)).toHaveText("Saved", { timeout: 20_000 });
-    expect(await savedBlockIds(again, projectId, scenarioId)).toContain("LOAD1");
-    // saved: nothing is offered any more
+    await expect(saveState(again)).toHaveText("Draft saved", { timeout: 20_000 });
+    expect(await draftBlockIds(again, projectId, scenarioId)).toContain("LOAD1");
+    // on the server now: the draft reopens by itself and nothing is offered any more
     await again.reload();
     await expect(block(again, "LOAD1")).toBeVisible();
     await expect(again.getByText("Unsaved edits from an earlier visit")).toHaveCount(0);

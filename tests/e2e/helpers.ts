@@ -60,3 +60,20 @@ export async function helmAnswer(page: Page, prompt: string | RegExp, text?: str
   }
   await page.keyboard.press("Enter");
 }
+
+/**
+ * Saves the working draft as a named revision, as a person does: the toolbar's "Save revision", a note,
+ * then the dialog's "Save revision". Waits for the notice naming the new revision and for the save state
+ * "Saved" (nothing beyond the revision). Autosave only writes the working draft: tests that need a
+ * revision (stored checks, sign-off, the API's latest revision) call this.
+ */
+export async function saveRevision(page: Page, note = ""): Promise<void> {
+  await page.getByRole("toolbar", { name: "Workspace" }).getByRole("button", { name: "Save revision", exact: true }).click();
+  const dialog = page.getByRole("dialog", { name: "Save revision" });
+  await expect(dialog).toBeVisible({ timeout: 15_000 });
+  if (note) await dialog.getByLabel("Note").fill(note);
+  await dialog.getByRole("button", { name: "Save revision", exact: true }).click();
+  await expect(dialog).toBeHidden({ timeout: 40_000 });
+  await expect(page.getByRole("status").filter({ hasText: /^Saved revision \d+\./ })).toBeVisible({ timeout: 15_000 });
+  await expect(page.getByRole("status", { name: /^Save state:/ })).toHaveText("Saved", { timeout: 15_000 });
+}

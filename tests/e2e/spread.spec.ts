@@ -1,5 +1,5 @@
 import { expect, test } from "@playwright/test";
-import { demoUsers, helmAnswer as answer, helmCommand as command, signIn } from "./helpers";
+import { demoUsers, helmAnswer as answer, helmCommand as command, saveRevision, signIn } from "./helpers";
 
 // The spread analysis (issue 17) on the seeded demo project (db/seed-scenarios.ts): an engineer gives the
 // driver pad DRV a spread of ± 1 dB in the inspector, the chart marks it, and the analysis run from the
@@ -26,7 +26,9 @@ test("an engineer adds a spread on the baseline, runs the spread analysis from t
   await amount.fill("1");
   await amount.press("Enter");
   await expect(page.getByLabel("DRV has spreads")).toBeVisible();
-  await expect(page.getByRole("status", { name: /^Save state:/ })).toHaveText("Saved", { timeout: 15_000 });
+  // the analysis runs on a saved revision (a job on the server): save the spread deliberately
+  await expect(page.getByRole("status", { name: /^Save state:/ })).toHaveText("Draft saved", { timeout: 15_000 });
+  await saveRevision(page, "DRV loss ±1 dB spread");
 
   await command(page, "Spread analysis…");
   await answer(page, "Samples", "3000");

@@ -34,7 +34,19 @@ export const renameScenarioSchema = z.object({ name: scenarioNameSchema });
 
 export const duplicateScenarioSchema = z.object({ name: scenarioNameSchema.optional() });
 
+/** A revision's note: optional, one short paragraph. */
+export const revisionNoteSchema = z.string().trim().max(2000, { error: "Keep the note under 2000 characters." });
+
 export const saveRevisionSchema = z.object({
+  baseRevisionId: idSchema,
+  scenario: draftScenarioSchema,
+  note: revisionNoteSchema.nullable().optional(),
+  /** after a 409: mine or theirs for each conflict key it listed */
+  resolutions: z.record(z.string().min(1).max(400), z.enum(["mine", "theirs"], { error: "Choose mine or theirs." })).optional(),
+});
+
+/** The person's working draft of a scenario (autosave): the edited scenario and the revision it started from. */
+export const putDraftSchema = z.object({
   baseRevisionId: idSchema,
   scenario: draftScenarioSchema,
 });

@@ -1,4 +1,5 @@
 import type { Scenario } from "@/engine/types";
+import type { RevisionChangeSummary } from "./summary";
 
 /** What the pages pass to client components (dates as ISO strings, as the API sends them). */
 export type ScenarioListItem = {
@@ -23,8 +24,17 @@ export type RevisionView = {
   origin: string;
   restoredFrom: number | null;
   authorName: string | null;
+  /** the author's note on a deliberate save */
+  note: string | null;
+  /** what changed against the previous revision (null on revisions older than the column) */
+  summary: RevisionChangeSummary | null;
+  /** for a save merged with later revisions: the newest one's number */
+  mergedWith: number | null;
   createdAt: string;
 };
+
+/** A person's working draft of a scenario as the drafts route returns it. */
+export type ScenarioDraftView = { baseRevisionId: string; baseNumber: number; content: Scenario; updatedAt: string };
 
 export type RevisionListItem = Omit<RevisionView, "content">;
 

@@ -1,6 +1,7 @@
 import "server-only";
 import { decideSignoff, requestSignoff, signoffTarget, type DecidedSignoff, type RequestedSignoffs } from "@/db/queries/signoffs";
 import { getScenario } from "@/db/queries/scenarios";
+import { hasDraftBeyond } from "@/db/queries/drafts";
 import { AppError } from "@/lib/base/errors";
 import type { SessionUser } from "@/lib/server/auth/session";
 import { authorize } from "@/lib/server/permissions";
@@ -8,11 +9,16 @@ import { revisionVerdict, solveProblem } from "@/lib/server/verdicts";
 
 /**
  * Ask for a sign-off of a revision (latest unless `revisionId`) that solves: a revision the engine cannot
- * solve has no verdict to sign off, so the request is 422 naming the problem. Then as requestSignoff.
+ * solve has no verdict to sign off, so the request is 422 naming the problem. The requester's working
+ * draft must hold nothing beyond that revision (409 otherwise: what is signed off is a saved revision,
+ * and the person should not believe their draft is under review). Then as requestSignoff.
  */
 export async function requestSignoffOnEvidence(args: Parameters<typeof requestSignoff>[0]): Promise<RequestedSignoffs> {
   await authorize({ userId: args.actor.id, projectId: args.projectId, action: "signoff.request" });
   const { revision } = await getScenario({ userId: args.actor.id, projectId: args.projectId, scenarioId: args.scenarioId, revisionId: args.revisionId });
+  if (await hasDraftBeyond({ userId: args.actor.id, scenarioId: args.scenarioId, content: revision.content })) {
+    throw new AppError("conflict", 409, `Your working draft of this scenario has changes not in revision ${revision.number}. Save them as a revision (or discard the draft) before requesting sign-off.`);
+  }
   const problem = await solveProblem({ projectId: args.projectId, content: revision.content });
   if (problem) {
     throw new AppError("unprocessable", 422, `Revision ${revision.number} does not solve, so it cannot be signed off: ${problem}`, { revisionId: problem });

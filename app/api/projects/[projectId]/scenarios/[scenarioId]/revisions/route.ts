@@ -11,8 +11,11 @@ export const GET = apiRoute<Params>(async (ctx) => {
 });
 
 /**
- * POST { baseRevisionId, scenario } → 201 { revision }; 409 { error, current: { revisionId, number, authorName, createdAt } }
- * when someone saved after `baseRevisionId` (engineers, owners).
+ * POST { baseRevisionId, scenario, note?, resolutions? } → 201 { revision, merged } (engineers, owners).
+ * When someone saved after `baseRevisionId` the edits are merged with it (`merged`: { number, authorName,
+ * settled }); a real conflict answers 409 { error, current: { revisionId, number, authorName, createdAt },
+ * conflicts: [{ key, area, label, mine, theirs }] } and writes nothing; posting again with `resolutions`
+ * ({ [key]: "mine" | "theirs" }) settles them.
  */
 export const POST = apiRoute<Params>(async (ctx) => {
   const input = await ctx.body(saveRevisionSchema, SCENARIO_BODY_LIMIT_BYTES);
@@ -24,11 +27,14 @@ export const POST = apiRoute<Params>(async (ctx) => {
       scenarioId: ctx.params.scenarioId,
       baseRevisionId: input.baseRevisionId,
       content: input.scenario,
+      note: input.note ?? null,
+      resolutions: input.resolutions,
     });
-    return json({ revision }, { status: 201 });
+    const { merged, ...detail } = revision;
+    return json({ revision: detail, merged }, { status: 201 });
   } catch (error) {
     if (error instanceof StaleRevisionError) {
-      return json({ error: { code: error.code, message: error.message }, current: error.current }, { status: 409 });
+      return json({ error: { code: error.code, message: error.message }, current: error.current, conflicts: error.conflicts }, { status: 409 });
     }
     throw error;
   }
