@@ -1,5 +1,5 @@
 import { expect as baseExpect, test, type Page, type TestInfo } from "@playwright/test";
-import { demoUsers, signIn } from "./helpers";
+import { demoUsers, saveRevision, signIn } from "./helpers";
 
 // Issue 15 item 2, as an engineer on the seeded demo project (db/seed.ts): upload a new version of a part,
 // see "newer version available" in the scenario list and the inspector, move the block, then read the part
@@ -62,7 +62,8 @@ test("an engineer uploads version 2 of a part, moves a block to it and reads the
   await expect(page.getByRole("row").filter({ hasText: "E2E versions" }).getByText("1 block behind")).toBeVisible();
   await shot(page, testInfo, "scenario-list-blocks-behind");
 
-  // the inspector says so, and one action moves the block; the move is saved as a new revision
+  // the inspector says so, and one action moves the block (an edit of the working draft); saved as a
+  // named revision, the move is in the scenario
   await page.goto(`/projects/${projectId}/scenarios/${scenarioId}`);
   await page.locator('[aria-label^="Block PAD,"]').click();
   const notice = page.getByRole("status", { name: "Newer version available" });
@@ -70,6 +71,7 @@ test("an engineer uploads version 2 of a part, moves a block to it and reads the
   await shot(page, testInfo, "inspector-newer-version-available");
   await notice.getByRole("button", { name: "Move to version 2" }).click();
   await expect(page.getByTestId("part-version")).toContainText("Uses version 2 of e2e-pad.s2p (the latest)");
+  await saveRevision(page, "PAD moved to version 2 of e2e-pad.s2p");
   await expect.poll(async () => (await latest()).revision.content.blocks[0].part_version, { timeout: 40_000 }).toBe(2);
   await shot(page, testInfo, "inspector-after-move");
 
