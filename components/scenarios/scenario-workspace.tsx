@@ -198,6 +198,10 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, draft: 
     [partsData, texts],
   );
 
+  // The banner about the draft is there when the page opens on one (or others saved since): it never
+  // appears in the middle of typing, which would push the panes down under the pointer. A draft begun
+  // on this visit shows in the toolbar: the save state, "Save revision" highlighted, "Discard draft".
+  const draftBanner = hasDraft && !readOnly && (openedDraft !== null || base.number !== latestNumber);
   const toolbarExtras = (
     <>
       <span className="figures text-xs text-muted" aria-label="Revision">
@@ -206,6 +210,11 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, draft: 
       {!readOnly ? (
         <Button size="sm" variant={hasDraft ? "primary" : "secondary"} onClick={openSaveRevision} title="Save revision (Ctrl+S or ⌘S)">
           <Save aria-hidden="true" className="h-4 w-4" /> Save revision
+        </Button>
+      ) : null}
+      {hasDraft && !readOnly && !draftBanner ? (
+        <Button size="sm" variant="secondary" onClick={() => setDiscardOpen(true)}>
+          Discard draft
         </Button>
       ) : null}
       <Button size="sm" variant={historyOpen ? "primary" : "secondary"} onClick={() => setHistoryOpen((o) => !o)} aria-pressed={historyOpen} aria-label="Revision history">
@@ -281,7 +290,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, draft: 
           This browser kept edits to r{offeredDraft.baseNumber} made {formatDate(offeredDraft.editedAt)} that the server never received (it could not be reached). Restored, they become your working draft.
         </Alert>
       ) : null}
-      {hasDraft && !readOnly ? (
+      {draftBanner ? (
         <Alert
           tone="info"
           title={`Working draft: your changes are not in revision ${latestNumber} yet`}

@@ -185,12 +185,15 @@ test("an engineer reads the isolation limit on the trace, exports the plots, and
   await page.keyboard.press("0");
   await expect(zoomLabel).toHaveText("1×");
   await expect(results.getByRole("button", { name: "Reset the Smith chart zoom" })).toBeDisabled();
-  // the wheel zooms about the pointer: the Γ under it stays under it
-  await page.mouse.move(cx + 0.5 * perGamma, cy - 0.3 * perGamma);
+  // the wheel zooms about the pointer: the Γ under it stays under it (where the chart is now: focusing
+  // it may have scrolled the results pane)
+  const z = (await smith.boundingBox())!;
+  const [zx, zy] = [z.x + z.width / 2 + 0.5 * perGamma, z.y + z.height / 2 - 0.3 * perGamma];
+  await page.mouse.move(zx, zy);
   await page.mouse.wheel(0, -400);
   await expect.poll(async () => number((await zoomLabel.innerText()).replace("×", ""))).toBeGreaterThan(1.5);
-  await page.mouse.move(cx + 0.5 * perGamma + 1, cy - 0.3 * perGamma);
-  await page.mouse.move(cx + 0.5 * perGamma, cy - 0.3 * perGamma);
+  await page.mouse.move(zx + 1, zy);
+  await page.mouse.move(zx, zy);
   const after = await gammaOf();
   // |0.5 + j0.3| = 0.5831, ∠ 30.96°
   expect(Math.abs(after.mag - Math.hypot(0.5, 0.3))).toBeLessThan(0.01);
