@@ -443,7 +443,7 @@ function WorkspaceInner({ scenario, parts, readOnly, onChange, saveState, toolba
             </span>
           </Button>
         ) : null}
-        <div className="ml-auto flex items-center gap-2">
+        <div className="ml-auto flex flex-wrap items-center gap-2">
           {readOnly ? <Badge tone="info">Read only</Badge> : null}
           <SaveBadge state={saveState} />
           {toolbarExtras}

@@ -200,7 +200,7 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, draft: 
 
   // The banner about the draft is there when the page opens on one (or others saved since): it never
   // appears in the middle of typing, which would push the panes down under the pointer. A draft begun
-  // on this visit shows in the toolbar: the save state, "Save revision" highlighted, "Discard draft".
+  // on this visit shows in the toolbar: the save state, "Save revision" highlighted, "Discard draft" enabled.
   const draftBanner = hasDraft && !readOnly && (openedDraft !== null || base.number !== latestNumber);
   const toolbarExtras = (
     <>
@@ -212,8 +212,9 @@ export function ScenarioWorkspace({ projectId, scenario: info, revision, draft: 
           <Save aria-hidden="true" className="h-4 w-4" /> Save revision
         </Button>
       ) : null}
-      {hasDraft && !readOnly && !draftBanner ? (
-        <Button size="sm" variant="secondary" onClick={() => setDiscardOpen(true)}>
+      {!readOnly && !draftBanner ? (
+        // always there (disabled without a draft), so that the toolbar does not grow a line as one begins
+        <Button size="sm" variant="secondary" onClick={() => setDiscardOpen(true)} disabled={!hasDraft} title={hasDraft ? "Throw away your changes since the revision" : "No draft: nothing to discard"}>
           Discard draft
         </Button>
       ) : null}
