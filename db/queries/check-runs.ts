@@ -15,7 +15,11 @@ import { requireScenarioRow } from "./revisions";
 /**
  * Store one run (the caller has authorised check.run and computed the outcome), its figures as gzip'd
  * JSON, then apply the retention rule to its (scenario, check, revision): the `keep` newest runs stay, and
- * every pinned run (one a sign-off or bundle refers to); older ones are deleted. One atomic batch.
+ * every pinned run (one a sign-off or bundle refers to); older ones are deleted. One atomic batch, which
+ * also reads the stored run back before the rule applies: under concurrent runs of the same check, a
+ * later run's pruning may delete this one before its own answer could read it (bench:api saw 404s).
+ *
+ * @returns the stored run, as getCheckRun would give it
  */
 export async function insertCheckRun(
   run: {
@@ -33,14 +37,16 @@ export async function insertCheckRun(
     engineVersion: string;
   },
   { keep }: { keep: number },
-): Promise<void> {
+): Promise<CheckRunView> {
   const { figuresGz, ...rest } = run;
   // one batch (atomic, one implicit transaction) rather than an interactive transaction: concurrent check
   // runs then never wait on each other's open transaction and fail as "database is locked"
-  await db.batch([
+  const [, stored] = await db.batch([
     db.insert(checkRuns).values({ ...rest, figuresGz: Buffer.from(figuresGz), figuresBytes: figuresGz.byteLength }),
+    runQuery(run.id, run.scenarioId),
     db.run(pruneStatement({ scenarioId: run.scenarioId, keep, check: run.check, revisionId: run.revisionId })),
   ]);
+  return toView(stored[0]);
 }
 
 function pruneStatement({ scenarioId, keep, check, revisionId }: { scenarioId: string; keep: number; check?: CheckName; revisionId?: string }) {
@@ -194,12 +200,17 @@ export async function newestRunOf({ scenarioId, revisionId, check }: { scenarioI
 export async function getCheckRun({ access, scenarioId, runId }: { access: ProjectAccess; scenarioId: string; runId: string }): Promise<CheckRunView> {
   allow(access, "scenario.read");
   await requireScenarioRow(db, { projectId: access.projectId, scenarioId }); // 404s a foreign scenario
-  const [row] = await db
+  const [row] = await runQuery(runId, scenarioId);
+  if (!row) throw new AppError("not_found", 404, "Check run not found.");
+  return toView(row);
+}
+
+/** One run with its figures, the revision's number and the runner's name. */
+function runQuery(runId: string, scenarioId: string) {
+  return db
     .select({ ...runColumns, figures: checkRuns.figures, figuresGz: checkRuns.figuresGz })
     .from(checkRuns)
     .leftJoin(scenarioRevisions, eq(scenarioRevisions.id, checkRuns.revisionId))
     .leftJoin(users, eq(users.id, checkRuns.userId))
     .where(and(eq(checkRuns.id, runId), eq(checkRuns.scenarioId, scenarioId)));
-  if (!row) throw new AppError("not_found", 404, "Check run not found.");
-  return toView(row);
 }

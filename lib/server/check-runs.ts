@@ -45,12 +45,12 @@ async function executeAndStore(
   scenarioId: string,
   prepared: Awaited<ReturnType<typeof prepareCheck>>,
   opts: { signal?: AbortSignal; onProgress?: (p: JobProgress) => void },
-): Promise<string> {
+): Promise<CheckRunView> {
   const output = await runInPool(prepared.task, opts);
   if (!output.ok) throw refusalError(output, prepared.prefix);
   if (output.kind !== "check") throw new Error(`a check job answered ${output.kind}`);
   const id = randomUUID();
-  await insertCheckRun(
+  return insertCheckRun(
     {
       id,
       scenarioId,
@@ -65,7 +65,6 @@ async function executeAndStore(
     },
     { keep: getEnv().runsKept },
   );
-  return id;
 }
 
 /**
@@ -77,8 +76,9 @@ async function executeAndStore(
  */
 export async function runCheck({ access, scenarioId, request, signal }: { access: ProjectAccess; scenarioId: string; request: CheckRunRequest; signal?: AbortSignal }): Promise<CheckRunView> {
   const prepared = await prepareCheck(access, scenarioId, request);
-  const id = await executeAndStore(access, scenarioId, prepared, { signal });
-  return getRunWithFreshness({ access, scenarioId, runId: id });
+  // the stored run as the store read it back (a concurrent run's retention may delete it right after)
+  const run = await executeAndStore(access, scenarioId, prepared, { signal });
+  return withFreshness(access, run);
 }
 
 /**
@@ -93,7 +93,7 @@ export async function startCheckJob({ access, scenarioId, request, signal }: { a
   // with REDIS_URL, a worker process (npm run worker) takes it and stores the run
   if (queueEnabled()) return enqueueCheck({ projectId: access.projectId, scenarioId, revisionId: prepared.revision.id, userId: access.userId, task: prepared.task, identity: prepared.identity });
   return startJob({ projectId: access.projectId, scenarioId, userId: access.userId, kind: request.check }, ({ signal: jobSignal, report }) =>
-    executeAndStore(access, scenarioId, prepared, { signal: jobSignal, onProgress: report }),
+    executeAndStore(access, scenarioId, prepared, { signal: jobSignal, onProgress: report }).then((run) => run.id),
   );
 }
 
@@ -131,8 +131,12 @@ export async function listRunsWithFreshness({ access, scenarioId, limit }: { acc
 
 /** One run with its figures, marked current or stale (anyone in the project). */
 export async function getRunWithFreshness({ access, scenarioId, runId }: { access: ProjectAccess; scenarioId: string; runId: string }): Promise<CheckRunView> {
-  const { scenario } = await loadScenario(access, { scenarioId });
-  const run = await getCheckRun({ access, scenarioId, runId });
+  return withFreshness(access, await getCheckRun({ access, scenarioId, runId }));
+}
+
+/** A run marked current or stale against its revision's rules now, and whether that is the latest revision. */
+async function withFreshness(access: ProjectAccess, run: CheckRunView): Promise<CheckRunView> {
+  const { scenario } = await loadScenario(access, { scenarioId: run.scenarioId });
   const hashes = await rulesHashes(access.projectId, run.revisionId ? [run.revisionId] : []);
   return { ...run, stale: staleReasons(run, run.revisionId ? (hashes.get(run.revisionId) ?? null) : null), latest: run.revisionId === scenario.latestRevisionId };
 }

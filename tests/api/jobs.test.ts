@@ -3,6 +3,7 @@
 // The demo project (db/seed.ts) gives the users; heavy scenarios are plain attenuator chains.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
+import { gzipSync } from "node:zlib";
 import { call, countRows, makeRequest, setUpDatabase, type ErrorJson } from "./helpers";
 
 // limits read once by lib/base/env.ts: a limit between the heavy chain (~250 MB) and the refused one (~2 GB)
@@ -274,6 +275,19 @@ describe("stored runs are bounded", () => {
     expect(answers.map((r) => r.status)).toEqual([201, 201, 201, 201, 201, 201]);
     const rows = await db.select({ id: checkRuns.id }).from(checkRuns).where(and(eq(checkRuns.scenarioId, id), eq(checkRuns.check, "isolation")));
     expect(rows).toHaveLength(2);
+  });
+
+  it("a run is read back in the batch that stores it, before the retention rule: a concurrent run's pruning cannot turn its answer into a 404", async () => {
+    const { insertCheckRun } = await import("@/db/queries/check-runs");
+    const id = ids["Cheaper switch"];
+    const [revision] = await db.select({ id: scenarios.latestRevisionId }).from(scenarios).where(eq(scenarios.id, id));
+    // keep 0: the batch's own pruning deletes the run it stored, the sharpest form of the race
+    const view = await insertCheckRun(
+      { id: "raced-run", scenarioId: id, revisionId: revision.id!, userId: userIds.engineer, check: "isolation", inputs: {}, verdict: "pass", headline: "stored then pruned", figuresGz: gzipSync(JSON.stringify({ headline: "stored then pruned", result: { verdict: "pass" } })), contentHash: "c", rulesHash: "r", engineVersion: "e" },
+      { keep: 0 },
+    );
+    expect(view).toMatchObject({ id: "raced-run", headline: "stored then pruned", verdict: "pass" });
+    expect(await db.select({ id: checkRuns.id }).from(checkRuns).where(eq(checkRuns.id, "raced-run"))).toHaveLength(0);
   });
 
   it("runs stored as JSON text before the migration stay readable, and clearing keeps the rule", async () => {
