@@ -140,31 +140,54 @@ export async function createPart({
         file: `${fileName} is taken.`,
       });
     }
-    const z0: [number, number][] = [];
-    for (let p = 0; p < data.ports; p++) z0.push([data.z0[2 * p], data.z0[2 * p + 1]]);
-    const row: Part = {
-      id: randomUUID(),
-      projectId,
-      name: name.trim() || fileName.replace(/\.[^.]+$/, ""),
-      fileName,
-      partVersion: 1,
-      text,
-      sizeBytes: Buffer.byteLength(text, "utf8"),
-      ports: data.ports,
-      version: data.version,
-      points: data.frequencies.length,
-      startHz: data.frequencies[0],
-      stopHz: data.frequencies[data.frequencies.length - 1],
-      referenceOhms: z0,
-      ...figures,
-      uploadedBy: actor?.id ?? null,
-      createdAt: new Date(),
-    };
+    const row = newPartRow({ projectId, name: name.trim() || fileName.replace(/\.[^.]+$/, ""), fileName, partVersion: 1, text, data, figures, uploadedBy: actor?.id ?? null });
     await tx.insert(parts).values(row);
     await recordAudit(tx, { actor, projectId, action: "part.upload", target: fileName, detail: { partId: row.id, ports: row.ports, points: row.points } });
     return summarise(row, false);
   };
   return executor ? work(executor) : runInTransaction(work);
+}
+
+/** The row of one part version: the file as uploaded and what its reading found. */
+function newPartRow({
+  projectId,
+  name,
+  fileName,
+  partVersion,
+  text,
+  data,
+  figures,
+  uploadedBy,
+}: {
+  projectId: string;
+  name: string;
+  fileName: string;
+  partVersion: number;
+  text: string;
+  data: ReturnType<typeof readPartText>;
+  figures: ReturnType<typeof partFigures>;
+  uploadedBy: string | null;
+}): Part {
+  const z0: [number, number][] = [];
+  for (let p = 0; p < data.ports; p++) z0.push([data.z0[2 * p], data.z0[2 * p + 1]]);
+  return {
+    id: randomUUID(),
+    projectId,
+    name,
+    fileName,
+    partVersion,
+    text,
+    sizeBytes: Buffer.byteLength(text, "utf8"),
+    ports: data.ports,
+    version: data.version,
+    points: data.frequencies.length,
+    startHz: data.frequencies[0],
+    stopHz: data.frequencies[data.frequencies.length - 1],
+    referenceOhms: z0,
+    ...figures,
+    uploadedBy,
+    createdAt: new Date(),
+  };
 }
 
 /** Version 2, 3… of an existing part: the same file name, new data; blocks keep the version they pin. */
@@ -203,26 +226,7 @@ export async function createPartVersion({
       });
     }
     if (uploadedName !== undefined && uploadedName !== fileName) readPartText(text, fileName);
-    const z0: [number, number][] = [];
-    for (let p = 0; p < data.ports; p++) z0.push([data.z0[2 * p], data.z0[2 * p + 1]]);
-    const row: Part = {
-      id: randomUUID(),
-      projectId,
-      name: latest.name,
-      fileName,
-      partVersion: latest.partVersion + 1,
-      text,
-      sizeBytes: Buffer.byteLength(text, "utf8"),
-      ports: data.ports,
-      version: data.version,
-      points: data.frequencies.length,
-      startHz: data.frequencies[0],
-      stopHz: data.frequencies[data.frequencies.length - 1],
-      referenceOhms: z0,
-      ...figures,
-      uploadedBy: actor.id,
-      createdAt: new Date(),
-    };
+    const row = newPartRow({ projectId, name: latest.name, fileName, partVersion: latest.partVersion + 1, text, data, figures, uploadedBy: actor.id });
     await tx.insert(parts).values(row);
     await recordAudit(tx, {
       actor,
