@@ -2,30 +2,17 @@
 
 import Link from "next/link";
 import { useParams } from "next/navigation";
-import type { Scenario } from "@/engine/types";
 import { Button } from "@/components/ui";
-import { findPart, type PartSummary, type WorkspaceBlock } from "@/lib/browser/scenario-model";
+import { findPart } from "@/lib/browser/scenario-model";
+import type { BlockToolProps } from "./replace-form";
 import { pinnedVersionOf, setPartVersion } from "@/lib/domain/parts/pins";
 
 /**
  * The version of its part a touchstone block pins, and when the library has a newer one, "Newer version
- * available" with one action to move to it: an ordinary edit, saved as a new revision like any other.
+ * available" with one action to move to it: an ordinary edit of the working draft, in the scenario from the
+ * next revision saved (Save revision).
  */
-export function PartVersionNotice({
-  scenario,
-  block,
-  parts,
-  readOnly,
-  commit,
-  notify,
-}: {
-  scenario: Scenario;
-  block: WorkspaceBlock;
-  parts: readonly PartSummary[];
-  readOnly: boolean;
-  commit: (next: Scenario, key?: string) => void;
-  notify: (message: string) => void;
-}) {
+export function PartVersionNotice({ scenario, block, parts, readOnly, commit, notify }: BlockToolProps) {
   const params = useParams<{ projectId?: string }>();
   const part = findPart(block, parts);
   const pinned = pinnedVersionOf(block);

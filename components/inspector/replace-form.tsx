@@ -13,21 +13,17 @@ type Option = { value: string; label: string; choice: ReplaceChoice; ports: numb
  * "Replace…": another kind or part in this block's place, keeping its id, links and system ports. Choices
  * with at least as many ports come first; anything that would be dropped is listed before and after.
  */
-export function ReplaceForm({
-  scenario,
-  block,
-  parts,
-  readOnly,
-  commit,
-  notify,
-}: {
+/** What the inspector's tools for one block (replace, move to a newer part version) are given. */
+export type BlockToolProps = {
   scenario: Scenario;
   block: WorkspaceBlock;
   parts: readonly PartSummary[];
   readOnly: boolean;
   commit: (next: Scenario, key?: string) => void;
   notify: (message: string) => void;
-}) {
+};
+
+export function ReplaceForm({ scenario, block, parts, readOnly, commit, notify }: BlockToolProps) {
   const [open, setOpen] = useState(false);
   const [value, setValue] = useState("");
   const have = portCountOf(block, parts);
