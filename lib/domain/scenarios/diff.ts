@@ -1,5 +1,6 @@
 import { formatHz } from "@/engine/checks/band";
 import type { BlockSpec, PortRef, Scenario } from "@/engine/types";
+import { canonicalJson } from "@/engine/canonical-json";
 
 /** A changed parameter (or another field of a block): its value before and after; undefined = not set. */
 export type FieldChange = { name: string; before: unknown; after: unknown };
@@ -31,19 +32,8 @@ export type ScenarioDiff = {
   same: boolean;
 };
 
-function canonical(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonical).join(",")}]`;
-  if (value && typeof value === "object") {
-    return `{${Object.keys(value)
-      .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
-      .sort()
-      .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
-      .join(",")}}`;
-  }
-  return JSON.stringify(value);
-}
-
-const equal = (a: unknown, b: unknown) => canonical(a) === canonical(b);
+// compared as RFC 8785 canonical JSON (key order and absent members do not count); absent = absent
+const equal = (a: unknown, b: unknown) => a === b || (a !== undefined && b !== undefined && canonicalJson(a) === canonicalJson(b));
 
 /** Block fields compared besides `params` and `state` (chart position, label and editor expressions are not). */
 const BLOCK_FIELDS = ["kind", "file", "data", "ports", "rating_dbm", "active"] as const;

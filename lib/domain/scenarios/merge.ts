@@ -1,5 +1,6 @@
 import type { BlockSpec, PortRef, Scenario } from "@/engine/types";
 import { valueText } from "./diff";
+import { canonicalJson } from "@/engine/canonical-json";
 
 /**
  * Three-way merge of scenario edits: `mine` and `theirs` both started from `base`. Units merged on their
@@ -26,19 +27,8 @@ export type MergeConflict = {
 
 export type MergeResult = { ok: true; scenario: Scenario; conflicts: MergeConflict[] } | { ok: false; conflicts: MergeConflict[] };
 
-function canonical(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonical).join(",")}]`;
-  if (value && typeof value === "object") {
-    return `{${Object.keys(value)
-      .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
-      .sort()
-      .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
-      .join(",")}}`;
-  }
-  return JSON.stringify(value);
-}
-
-const same = (a: unknown, b: unknown) => canonical(a) === canonical(b);
+// compared as RFC 8785 canonical JSON (key order and absent members do not count); absent = absent
+const same = (a: unknown, b: unknown) => a === b || (a !== undefined && b !== undefined && canonicalJson(a) === canonicalJson(b));
 
 type Collect = { conflicts: Map<string, MergeConflict>; resolutions: Record<string, MergeChoice> };
 
