@@ -11,25 +11,39 @@ type Message = { tone: "error" | "success"; text: string; fields?: Record<string
 const failure = (error: unknown, fallback: string): Message =>
   error instanceof ApiError ? { tone: "error", text: error.message, fields: error.fields } : { tone: "error", text: fallback };
 
+/**
+ * One request of an account form: busy while it runs, then the success text `work` returns or the
+ * server's refusal (with its per-field messages), else `fallback`.
+ */
+function useAccountRequest(fallback: string) {
+  const [busy, setBusy] = useState(false);
+  const [message, setMessage] = useState<Message>(null);
+  const run = async (work: () => Promise<string>) => {
+    setBusy(true);
+    setMessage(null);
+    try {
+      setMessage({ tone: "success", text: await work() });
+    } catch (error) {
+      setMessage(failure(error, fallback));
+    } finally {
+      setBusy(false);
+    }
+  };
+  return { busy, message, run };
+}
+
 /** The account's name. */
 export function ProfileForm({ initialName }: { initialName: string }) {
   const router = useRouter();
   const [name, setName] = useState(initialName);
-  const [busy, setBusy] = useState(false);
-  const [message, setMessage] = useState<Message>(null);
-  const submit = async (event: FormEvent) => {
+  const { busy, message, run } = useAccountRequest("The name could not be saved.");
+  const submit = (event: FormEvent) => {
     event.preventDefault();
-    setBusy(true);
-    setMessage(null);
-    try {
+    void run(async () => {
       const result = await requestJson<{ name: string }>("/api/account/profile", { method: "PATCH", json: { name } });
-      setMessage({ tone: "success", text: `Your name is now ${result.name}.` });
       router.refresh(); // the header shows the name too
-    } catch (error) {
-      setMessage(failure(error, "The name could not be saved."));
-    } finally {
-      setBusy(false);
-    }
+      return `Your name is now ${result.name}.`;
+    });
   };
   return (
     <form onSubmit={submit} className="flex flex-col gap-3" noValidate>
@@ -48,26 +62,19 @@ export function ProfileForm({ initialName }: { initialName: string }) {
 
 /** Move the account to another address: confirmed by a link mailed to that address. */
 export function EmailForm({ current }: { current: string }) {
-  const [busy, setBusy] = useState(false);
-  const [message, setMessage] = useState<Message>(null);
-  const submit = async (event: FormEvent<HTMLFormElement>) => {
+  const { busy, message, run } = useAccountRequest("The change could not be asked for.");
+  const submit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
     const form = event.currentTarget;
     const data = new FormData(form);
-    setBusy(true);
-    setMessage(null);
-    try {
+    void run(async () => {
       const result = await requestJson<{ pending: string }>("/api/account/email", {
         method: "POST",
         json: { newEmail: String(data.get("newEmail") ?? ""), currentPassword: String(data.get("currentPassword") ?? "") },
       });
       form.reset();
-      setMessage({ tone: "success", text: `We sent a link to ${result.pending}. Your address stays ${current} until you open it (it expires in 24 hours).` });
-    } catch (error) {
-      setMessage(failure(error, "The change could not be asked for."));
-    } finally {
-      setBusy(false);
-    }
+      return `We sent a link to ${result.pending}. Your address stays ${current} until you open it (it expires in 24 hours).`;
+    });
   };
   return (
     <form onSubmit={submit} className="flex flex-col gap-3" noValidate>
@@ -90,27 +97,20 @@ export function EmailForm({ current }: { current: string }) {
 /** Change the password: the current one is asked for; the other sessions end. */
 export function PasswordForm() {
   const router = useRouter();
-  const [busy, setBusy] = useState(false);
-  const [message, setMessage] = useState<Message>(null);
-  const submit = async (event: FormEvent<HTMLFormElement>) => {
+  const { busy, message, run } = useAccountRequest("The password could not be changed.");
+  const submit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
     const form = event.currentTarget;
     const data = new FormData(form);
-    setBusy(true);
-    setMessage(null);
-    try {
+    void run(async () => {
       const result = await requestJson<{ endedSessions: number }>("/api/account/password", {
         method: "POST",
         json: { currentPassword: String(data.get("currentPassword") ?? ""), newPassword: String(data.get("newPassword") ?? "") },
       });
       form.reset();
-      setMessage({ tone: "success", text: `Password changed. ${result.endedSessions === 0 ? "You had no other sessions." : `${result.endedSessions} other session${result.endedSessions === 1 ? "" : "s"} ended.`}` });
       router.refresh();
-    } catch (error) {
-      setMessage(failure(error, "The password could not be changed."));
-    } finally {
-      setBusy(false);
-    }
+      return `Password changed. ${result.endedSessions === 0 ? "You had no other sessions." : `${result.endedSessions} other session${result.endedSessions === 1 ? "" : "s"} ended.`}`;
+    });
   };
   return (
     <form onSubmit={submit} className="flex flex-col gap-3" noValidate>
@@ -136,20 +136,16 @@ export type SessionRow = { handle: string; createdAt: string | null; expiresAt: 
 /** One's own sessions (browsers signed in to this account), each but this one revocable. */
 export function SessionsList({ initial }: { initial: SessionRow[] }) {
   const [rows, setRows] = useState(initial);
-  const [busy, setBusy] = useState<string | null>(null);
-  const [message, setMessage] = useState<Message>(null);
+  const [ending, setEnding] = useState<string | null>(null);
+  const { message, run } = useAccountRequest("The session could not be ended.");
   const revoke = async (handle: string) => {
-    setBusy(handle);
-    setMessage(null);
-    try {
+    setEnding(handle);
+    await run(async () => {
       await requestJson(`/api/account/sessions/${handle}`, { method: "DELETE" });
       setRows((r) => r.filter((s) => s.handle !== handle));
-      setMessage({ tone: "success", text: "That session has ended: the browser is signed out." });
-    } catch (error) {
-      setMessage(failure(error, "The session could not be ended."));
-    } finally {
-      setBusy(null);
-    }
+      return "That session has ended: the browser is signed out.";
+    });
+    setEnding(null);
   };
   return (
     <div className="flex flex-col gap-2">
@@ -164,7 +160,7 @@ export function SessionsList({ initial }: { initial: SessionRow[] }) {
               </span>
             </span>
             {s.current ? null : (
-              <Button size="sm" variant="secondary" loading={busy === s.handle} onClick={() => void revoke(s.handle)}>
+              <Button size="sm" variant="secondary" loading={ending === s.handle} onClick={() => void revoke(s.handle)}>
                 Sign out<span className="sr-only"> the session from {s.createdAt ? formatDate(s.createdAt) : "earlier"}</span>
               </Button>
             )}
