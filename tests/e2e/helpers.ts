@@ -77,3 +77,14 @@ export async function saveRevision(page: Page, note = ""): Promise<void> {
   await expect(page.getByRole("status").filter({ hasText: /^Saved revision \d+\./ })).toBeVisible({ timeout: 15_000 });
   await expect(page.getByRole("status", { name: /^Save state:/ })).toHaveText("Saved", { timeout: 15_000 });
 }
+
+/** Signed in as the demo engineer, open the demo project's Baseline by keyboard, through the helm. */
+export async function openDemoBaselineByHelm(page: Page): Promise<void> {
+  await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);
+  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 30_000 });
+  await helmCommand(page, "Go to project…");
+  await helmAnswer(page, "Project", "Kestrel telemetry front end");
+  await expect(page).toHaveURL(/\/projects\/[^/]+$/);
+  await helmCommand(page, "Open scenario Baseline");
+  await expect(page.getByTestId("workspace")).toBeVisible({ timeout: 30_000 });
+}

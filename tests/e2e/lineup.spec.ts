@@ -1,21 +1,14 @@
 import { expect, test } from "@playwright/test";
-import { demoUsers, helmAnswer as answer, helmCommand as command, signIn } from "./helpers";
+import { helmAnswer as answer, helmCommand as command, openDemoBaselineByHelm } from "./helpers";
 
 // The line-up (issue 16) from the helm on the seeded demo project (db/seed-scenarios.ts): TX → MON runs
 // through the driver pad, the TX band-pass part and the monitor coupler. Keyboard only after signing in.
-const DEMO_PROJECT = "Kestrel telemetry front end";
 
 test.describe.configure({ timeout: 120_000 });
 
 
 test("keyboard only: a line-up from the helm shows its stages, the chart along the path and the traces", async ({ page }) => {
-  await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);
-  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 30_000 });
-  await command(page, "Go to project…");
-  await answer(page, "Project", DEMO_PROJECT);
-  await expect(page).toHaveURL(/\/projects\/[^/]+$/);
-  await command(page, "Open scenario Baseline");
-  await expect(page.getByTestId("workspace")).toBeVisible({ timeout: 30_000 });
+  await openDemoBaselineByHelm(page);
 
   await command(page, "Line-up: gain, noise figure and levels along a path…");
   await answer(page, "From port", "TX");

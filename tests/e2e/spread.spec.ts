@@ -1,22 +1,15 @@
 import { expect, test } from "@playwright/test";
-import { demoUsers, helmAnswer as answer, helmCommand as command, saveRevision, signIn } from "./helpers";
+import { helmAnswer as answer, helmCommand as command, openDemoBaselineByHelm, saveRevision } from "./helpers";
 
 // The spread analysis (issue 17) on the seeded demo project (db/seed-scenarios.ts): an engineer gives the
 // driver pad DRV a spread of ± 1 dB in the inspector, the chart marks it, and the analysis run from the
 // helm shows its progress and then the yield table.
-const DEMO_PROJECT = "Kestrel telemetry front end";
 
 test.describe.configure({ timeout: 180_000 });
 
 
 test("an engineer adds a spread on the baseline, runs the spread analysis from the helm and reads the yield table", async ({ page }) => {
-  await signIn(page, demoUsers.engineer.email, demoUsers.engineer.password);
-  await expect(page).toHaveURL(/\/projects(\/|$|\?)/, { timeout: 30_000 });
-  await command(page, "Go to project…");
-  await answer(page, "Project", DEMO_PROJECT);
-  await expect(page).toHaveURL(/\/projects\/[^/]+$/);
-  await command(page, "Open scenario Baseline");
-  await expect(page.getByTestId("workspace")).toBeVisible({ timeout: 30_000 });
+  await openDemoBaselineByHelm(page);
 
   // the inspector's spread row of the pad's loss: ± 1 dB uniform
   await page.locator('[aria-label^="Block DRV,"]').click();
