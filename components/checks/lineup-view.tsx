@@ -2,9 +2,10 @@
 
 import { useMemo, useState } from "react";
 import type { LineupResult } from "@/engine/lineup";
-import { Alert, Table, TBody, THead, Td, Th, Tr } from "@/components/ui";
+import { Table, TBody, THead, Td, Th, Tr } from "@/components/ui";
 import { TracePlot } from "@/components/results/trace-plot";
 import { fmt, fmtHz } from "./format";
+import { NotesAlert } from "./notes-alert";
 
 /** A stored figure: JSON turns ∞ and NaN into null. */
 const value = (x: number | null | undefined): number => (typeof x === "number" ? x : NaN);
@@ -35,15 +36,7 @@ export function LineupView({ result }: { result: LineupResult }) {
         <span className="font-mono">{result.path.text}</span>
         {withLevels ? `; ${fmt(result.inputDbm, 1)} dBm in at ${result.from}` : ""}
       </p>
-      {result.warnings.length > 0 ? (
-        <Alert tone="warn" title="Notes">
-          <ul className="list-disc pl-4">
-            {result.warnings.map((w) => (
-              <li key={w}>{w}</li>
-            ))}
-          </ul>
-        </Alert>
-      ) : null}
+      <NotesAlert notes={result.warnings} />
       <label className="flex items-center gap-2 text-sm">
         Frequency
         <input

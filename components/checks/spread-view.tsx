@@ -2,9 +2,10 @@
 
 import { useMemo, useState } from "react";
 import type { SpreadResult } from "@/engine/spread";
-import { Alert, Button, Select, Table, TBody, THead, Td, Th, Tr } from "@/components/ui";
+import { Button, Select, Table, TBody, THead, Td, Th, Tr } from "@/components/ui";
 import { TracePlot } from "@/components/results/trace-plot";
 import { fmt, fmtHz } from "./format";
+import { NotesAlert } from "./notes-alert";
 
 /** A stored figure: JSON turns ∞ and NaN into null. */
 const value = (x: number | null | undefined): number => (typeof x === "number" ? x : NaN);
@@ -43,15 +44,7 @@ export function SpreadView({ result, onOpenWorst }: { result: SpreadResult; onOp
         {result.samples} samples, seed <span className="font-mono">{result.seed}</span>; {result.parameters.length} parameter{result.parameters.length === 1 ? "" : "s"} with a spread:{" "}
         {result.parameters.map((p) => `${p.name} ${p.distribution === "uniform" ? "±" : "σ "}${p.amount}${p.unit ? ` ${p.unit}` : ""}`).join(", ")}
       </p>
-      {result.warnings.length > 0 ? (
-        <Alert tone="warn" title="Notes">
-          <ul className="list-disc pl-4">
-            {result.warnings.map((w) => (
-              <li key={w}>{w}</li>
-            ))}
-          </ul>
-        </Alert>
-      ) : null}
+      <NotesAlert notes={result.warnings} />
       <Table aria-label="Yield per rule" data-testid="spread-yield-table">
         <THead>
           <Tr>
